@@ -1,0 +1,38 @@
+// The header and footer around every page.
+import { Link } from "react-router";
+import { BrandMark } from "./brand-mark";
+
+export function SiteHeader({ children }: { children?: React.ReactNode }) {
+  return (
+    <header className="border-b border-rule bg-paper">
+      <div className="mx-auto flex max-w-6xl flex-wrap items-center justify-between gap-3 px-5 py-3">
+        <Link to="/" className="flex items-center gap-2 no-underline text-ink">
+          <BrandMark size={36} title="" />
+          <span className="font-reading text-[length:var(--text-step-1)] font-semibold tracking-tight">Bendwise</span>
+        </Link>
+        <nav aria-label="Main" className="flex flex-wrap items-center gap-4 text-[length:var(--text-step--1)]">
+          {children ?? (
+            <>
+              <Link to="/tools/analyse">Analyse readings</Link>
+              <Link to="/#pricing">Pricing</Link>
+              <Link to="/sign-in" className="btn">
+                Sign in
+              </Link>
+            </>
+          )}
+        </nav>
+      </div>
+    </header>
+  );
+}
+
+export function SiteFooter() {
+  return (
+    <footer className="border-t border-rule mt-16">
+      <div className="mx-auto max-w-6xl px-5 py-8 text-[length:var(--text-step--1)] text-ink-soft flex flex-wrap gap-x-8 gap-y-2">
+        <span>Bendwise — hands-on labs on how materials stretch, bend and break.</span>
+        <span>No ads, no trackers. Children sign in without an e-mail address.</span>
+      </div>
+    </footer>
+  );
+}

@@ -1,0 +1,7 @@
+// Every URL of the app, in one list. The access-matrix test fails when a route here has no entry there.
+import { type RouteConfig, index, route } from "@react-router/dev/routes";
+
+export default [
+  index("routes/home.tsx"),
+  route("healthz", "routes/healthz.ts"),
+] satisfies RouteConfig;
