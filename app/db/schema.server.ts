@@ -1,7 +1,9 @@
 // The database schema. One file so a newcomer sees every table at once;
 // drizzle-kit reads it to generate the SQL migrations in drizzle/.
 import {
+  doublePrecision,
   index,
+  jsonb,
   integer,
   pgEnum,
   pgTable,
@@ -174,3 +176,122 @@ export const verificationTokens = pgTable(
   (t) => [primaryKey({ columns: [t.identifier, t.token] })],
 );
 
+
+// ───────────────────────── The course: what each student did in each lesson ─────────────────────────
+
+/** Every answer a student sends to an exercise, right or wrong; nothing is overwritten. */
+export const exerciseAttempts = pgTable(
+  "exercise_attempts",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    studentId: uuid("student_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    lessonSlug: text("lesson_slug").notNull(),
+    exerciseId: text("exercise_id").notNull(),
+    /** which set of numbers the student had (the seed is student, exercise, variant) */
+    variant: integer("variant").notNull().default(0),
+    /** exactly what was typed (for tables and choices: JSON of the cells or the choice and reason) */
+    rawAnswer: text("raw_answer").notNull(),
+    parsedValue: doublePrecision("parsed_value"),
+    parsedUnit: text("parsed_unit"),
+    /** the answer checker's outcome: correct, unit-missing, unit-wrong-kind, sig-figs-off, incorrect, unreadable */
+    outcome: text("outcome").notNull(),
+    correct: integer("correct").notNull().default(0),
+    slipCode: text("slip_code"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("exercise_attempts_student_lesson").on(t.studentId, t.lessonSlug, t.exerciseId)],
+);
+
+/** A prediction committed before the data is shown; kept as it was. */
+export const predictions = pgTable(
+  "predictions",
+  {
+    studentId: uuid("student_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    lessonSlug: text("lesson_slug").notNull(),
+    predictionId: text("prediction_id").notNull(),
+    choice: text("choice").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.studentId, t.lessonSlug, t.predictionId] })],
+);
+
+/** A student's own readings table in a lesson, with its settings. */
+export const readingSets = pgTable(
+  "reading_sets",
+  {
+    studentId: uuid("student_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    lessonSlug: text("lesson_slug").notNull(),
+    readingsId: text("readings_id").notNull(),
+    mode: text("mode", { enum: ["bend", "stretch"] }).notNull(),
+    material: text("material").notNull().default(""),
+    unloadedCm: doublePrecision("unloaded_cm"),
+    resolutionCm: doublePrecision("resolution_cm").notNull(),
+    /** [{ forceN, readingCm, returnReadingCm?, broke? }] as validated by the analysis schema */
+    points: jsonb("points").notNull(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.studentId, t.lessonSlug, t.readingsId] })],
+);
+
+/** A written claim–evidence–reasoning answer; a teacher's review sits beside it. */
+export const writtenAnswers = pgTable(
+  "written_answers",
+  {
+    studentId: uuid("student_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    lessonSlug: text("lesson_slug").notNull(),
+    answerId: text("answer_id").notNull(),
+    claim: text("claim").notNull().default(""),
+    evidence: text("evidence").notNull().default(""),
+    reasoning: text("reasoning").notNull().default(""),
+    handedInAt: timestamp("handed_in_at", { withTimezone: true }),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+    /** the teacher's review: 0–2 points each for claim, evidence and reasoning, and a comment */
+    reviewScores: jsonb("review_scores"),
+    reviewComment: text("review_comment"),
+    reviewedBy: uuid("reviewed_by").references(() => users.id, { onDelete: "set null" }),
+    reviewedAt: timestamp("reviewed_at", { withTimezone: true }),
+  },
+  (t) => [primaryKey({ columns: [t.studentId, t.lessonSlug, t.answerId] })],
+);
+
+/** A photo of a set-up; the file itself lives in the photo store (a local folder by default). */
+export const photos = pgTable(
+  "photos",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    studentId: uuid("student_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    lessonSlug: text("lesson_slug").notNull(),
+    photoId: text("photo_id").notNull(),
+    storageKey: text("storage_key").notNull().unique(),
+    contentType: text("content_type").notNull(),
+    bytes: integer("bytes").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("photos_student_lesson").on(t.studentId, t.lessonSlug)],
+);
+
+/** Where a student last was in each lesson, so "continue" takes them back there. */
+export const lessonVisits = pgTable(
+  "lesson_visits",
+  {
+    studentId: uuid("student_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    lessonSlug: text("lesson_slug").notNull(),
+    /** the id of the last part worked on (an exercise, readings table or written answer) */
+    lastPlace: text("last_place"),
+    completedAt: timestamp("completed_at", { withTimezone: true }),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.studentId, t.lessonSlug] })],
+);
