@@ -137,9 +137,63 @@ export const seatPurchases = pgTable(
     purchaseOrder: text("purchase_order"),
     paidAt: timestamp("paid_at", { withTimezone: true }),
     createdAt: createdAt(),
+    /** Who asked for it; the receipt goes to them (or to the organisation's administrators). */
+    buyerUserId: uuid("buyer_user_id").references(() => users.id, { onDelete: "set null" }),
+    /** Invoices only: the provider's invoice number and the page where it can be read and paid. */
+    invoiceNumber: text("invoice_number"),
+    invoiceUrl: text("invoice_url"),
+    /** Set when the e-mailed receipt has gone out, so it goes out once. */
+    receiptSentAt: timestamp("receipt_sent_at", { withTimezone: true }),
   },
   (t) => [index("seat_purchases_org_year").on(t.organisationId, t.schoolYear)],
 );
+
+/**
+ * One student holding one seat of an organisation for one school year. Enrolling in a class (or a
+ * parent creating a child account) takes a seat; leaving the last class of that year frees it.
+ */
+export const seatAssignments = pgTable(
+  "seat_assignments",
+  {
+    organisationId: uuid("organisation_id")
+      .notNull()
+      .references(() => organisations.id, { onDelete: "cascade" }),
+    schoolYear: text("school_year").notNull(),
+    studentId: uuid("student_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organisationId, t.schoolYear, t.studentId] }),
+    index("seat_assignments_student").on(t.studentId),
+  ],
+);
+
+/** Every signed event from the payment provider, kept once by its id so a repeat changes nothing. */
+export const paymentEvents = pgTable("payment_events", {
+  /** The provider's event id (evt_…). */
+  id: text("id").primaryKey(),
+  type: text("type").notNull(),
+  /** The checkout session or invoice the event is about. */
+  objectId: text("object_id"),
+  receivedAt: timestamp("received_at", { withTimezone: true }).notNull().defaultNow(),
+  /** Set once the event has been acted on; a delivery of a processed event is answered and ignored. */
+  processedAt: timestamp("processed_at", { withTimezone: true }),
+  /** What acting on it did, e.g. "seats-added", "already-fulfilled", "ignored". */
+  outcome: text("outcome"),
+  deliveries: integer("deliveries").notNull().default(1),
+  lastError: text("last_error"),
+});
+
+/** The payment provider's customer record for an organisation, made on its first invoice. */
+export const paymentCustomers = pgTable("payment_customers", {
+  organisationId: uuid("organisation_id")
+    .primaryKey()
+    .references(() => organisations.id, { onDelete: "cascade" }),
+  providerCustomerId: text("provider_customer_id").notNull().unique(),
+  createdAt: createdAt(),
+});
 
 /** Failed sign-ins, kept in PostgreSQL so throttling holds across app processes. */
 export const signInFailures = pgTable(
