@@ -342,7 +342,7 @@ export const lessonVisits = pgTable(
       .notNull()
       .references(() => users.id, { onDelete: "cascade" }),
     lessonSlug: text("lesson_slug").notNull(),
-    /** the id of the last part worked on (an exercise, readings table or written answer) */
+    /** the page anchor of the last part worked on, e.g. "exercise-stiffness-one-reading" */
     lastPlace: text("last_place"),
     completedAt: timestamp("completed_at", { withTimezone: true }),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),

@@ -1,0 +1,92 @@
+// A force–deformation chart drawn as SVG (on the server and in the browser alike): the points, the best
+// line through the origin and the best line with a free intercept.
+import type { AnalysisResult, Mode } from "~/lib/science";
+import { analyseReadings } from "~/lib/science";
+import { parseCsv } from "./data-table";
+
+const W = 520;
+const H = 320;
+const PAD = { left: 56, right: 20, top: 20, bottom: 48 };
+
+function niceMax(value: number): number {
+  if (!(value > 0)) return 1;
+  const exponent = Math.floor(Math.log10(value));
+  const base = 10 ** exponent;
+  for (const step of [1, 2, 2.5, 5, 10]) if (value <= step * base) return step * base;
+  return 10 * base;
+}
+
+function ticks(max: number): number[] {
+  const step = max / 5;
+  return Array.from({ length: 6 }, (_, i) => Number((i * step).toPrecision(6)));
+}
+
+export function ForceChartFromAnalysis({ analysis, title }: { analysis: AnalysisResult; title: string }) {
+  const points = analysis.points.filter((p) => p.deformationCm !== null) as { forceN: number; deformationCm: number }[];
+  const xMax = niceMax(Math.max(0, ...points.map((p) => p.deformationCm)) * 1.1);
+  const yMax = niceMax(Math.max(0, ...points.map((p) => p.forceN)) * 1.1);
+  const x = (cm: number) => PAD.left + (cm / xMax) * (W - PAD.left - PAD.right);
+  const y = (n: number) => H - PAD.bottom - (n / yMax) * (H - PAD.top - PAD.bottom);
+  const origin = analysis.fit.throughOrigin.slope;
+  const free = analysis.fit.withIntercept;
+  const describe = `${points.length} points. ${
+    origin !== null ? `Best line through the origin: slope ${origin.toPrecision(3)} N/cm.` : ""
+  } ${free.slope !== null && free.intercept !== null ? `Best line with intercept: slope ${free.slope.toPrecision(3)} N/cm, intercept ${free.intercept.toPrecision(3)} N.` : ""}`;
+  return (
+    <figure className="my-6">
+      <svg viewBox={`0 0 ${W} ${H}`} className="w-full max-w-xl" role="img" aria-label={`${title}. ${describe}`}>
+        <rect x="0" y="0" width={W} height={H} fill="#fff" />
+        {ticks(xMax).map((t) => (
+          <g key={`x${t}`}>
+            <line x1={x(t)} x2={x(t)} y1={PAD.top} y2={H - PAD.bottom} stroke="#e7e1d4" />
+            <text x={x(t)} y={H - PAD.bottom + 18} fontSize="12" textAnchor="middle" fill="#46524f">{t}</text>
+          </g>
+        ))}
+        {ticks(yMax).map((t) => (
+          <g key={`y${t}`}>
+            <line x1={PAD.left} x2={W - PAD.right} y1={y(t)} y2={y(t)} stroke="#e7e1d4" />
+            <text x={PAD.left - 8} y={y(t) + 4} fontSize="12" textAnchor="end" fill="#46524f">{t}</text>
+          </g>
+        ))}
+        <line x1={PAD.left} x2={W - PAD.right} y1={y(0)} y2={y(0)} stroke="#46524f" />
+        <line x1={x(0)} x2={x(0)} y1={PAD.top} y2={H - PAD.bottom} stroke="#46524f" />
+        <text x={(W + PAD.left) / 2} y={H - 8} fontSize="13" textAnchor="middle" fill="#1c2726">Deformation (cm)</text>
+        <text x={16} y={(H - PAD.bottom) / 2} fontSize="13" textAnchor="middle" fill="#1c2726" transform={`rotate(-90 16 ${(H - PAD.bottom) / 2})`}>Force (N)</text>
+        {origin !== null && (
+          <line x1={x(0)} y1={y(0)} x2={x(Math.min(xMax, yMax / origin))} y2={y(Math.min(yMax, origin * xMax))} stroke="#0d5c57" strokeWidth="2.5" />
+        )}
+        {free.slope !== null && free.intercept !== null && (
+          <line x1={x(0)} y1={y(free.intercept)} x2={x(xMax)} y2={y(free.intercept + free.slope * xMax)} stroke="#a8401a" strokeWidth="2" strokeDasharray="7 5" />
+        )}
+        {points.map((p, i) => (
+          <circle key={i} cx={x(p.deformationCm)} cy={y(p.forceN)} r="5" fill="#1c2726" />
+        ))}
+      </svg>
+      <figcaption className="mt-2 font-ui text-[length:var(--text-step--1)] text-ink-soft">
+        <span className="font-bold">{title}.</span> Solid line: best line through the origin. Dashed line: best line with a free intercept.
+      </figcaption>
+    </figure>
+  );
+}
+
+/** The chart for a CSV data set of a lesson. */
+export function ForceChart({ csv, mode = "bend", unloadedCm, resolutionCm = 0.1, title = "Force against deformation" }: {
+  csv: string;
+  mode?: Mode;
+  unloadedCm?: number;
+  resolutionCm?: number;
+  title?: string;
+}) {
+  const { columns, rows } = parseCsv(csv);
+  const column = (name: string) => columns.indexOf(name);
+  const num = (row: string[], name: string) => (column(name) >= 0 && row[column(name)] !== "" ? Number(row[column(name)]) : undefined);
+  const points = rows.map((row) => ({
+    forceN: num(row, "forceN") ?? 0,
+    readingCm: num(row, "readingCm"),
+    deformationCm: num(row, "deformationCm"),
+    returnReadingCm: num(row, "returnReadingCm"),
+    broke: column("broke") >= 0 ? row[column("broke")] === "true" : undefined,
+  }));
+  const analysis = analyseReadings({ mode, unloadedCm, resolutionCm, points });
+  return <ForceChartFromAnalysis analysis={analysis} title={title} />;
+}

@@ -1,0 +1,23 @@
+// Every component a lesson's MDX can use, by the name it uses.
+import { DataTable } from "./data-table";
+import { Equation } from "./equation";
+import { Exercise } from "./exercise";
+import { ForceChart } from "./force-chart";
+import { Caution, Hint } from "./notes";
+import { PhotoUpload } from "./photo-upload";
+import { Prediction } from "./prediction";
+import { ReadingsEntry } from "./readings-entry";
+import { WrittenAnswer } from "./written-answer";
+
+export const lessonComponents = {
+  Caution,
+  DataTable,
+  Equation,
+  Exercise,
+  ForceChart,
+  Hint,
+  PhotoUpload,
+  Prediction,
+  ReadingsEntry,
+  WrittenAnswer,
+};

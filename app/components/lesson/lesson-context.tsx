@@ -1,0 +1,18 @@
+// What the lesson's components read: the student's state for this lesson, from the route's loader.
+import { createContext, useContext } from "react";
+import type { LessonState } from "~/lib/course.server";
+
+export interface LessonContextValue {
+  slug: string;
+  /** false for adults looking at a lesson: they see it, but nothing is saved */
+  canAnswer: boolean;
+  state: LessonState;
+}
+
+export const LessonContext = createContext<LessonContextValue | null>(null);
+
+export function useLesson(): LessonContextValue {
+  const value = useContext(LessonContext);
+  if (!value) throw new Error("A lesson component was used outside a lesson page.");
+  return value;
+}

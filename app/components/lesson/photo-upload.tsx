@@ -1,0 +1,45 @@
+// A photo of the student's set-up: a JPEG, PNG or WebP file of at most 5 MB, checked on the server.
+import { useFetcher } from "react-router";
+import { PHOTO_MAX_BYTES } from "~/lib/photo-rules";
+import { useLesson } from "./lesson-context";
+
+export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id: string; prompt?: string }) {
+  const { state, canAnswer, slug } = useLesson();
+  const fetcher = useFetcher<{ photoId?: string; error?: string; saved?: boolean }>();
+  const mine = fetcher.data?.photoId === id ? fetcher.data : undefined;
+  const photos = state.photos[id] ?? [];
+  return (
+    <section id={`photo-${id}`} className="card my-8 scroll-mt-6 font-ui" aria-labelledby={`photo-${id}-title`}>
+      <h3 id={`photo-${id}-title`} className="mb-2 font-reading text-[length:var(--text-step-1)]">
+        Photo of your set-up
+      </h3>
+      <p className="mb-3">{prompt} Keep faces out of the picture.</p>
+      {canAnswer && (
+        <fetcher.Form method="post" encType="multipart/form-data">
+          <input type="hidden" name="intent" value="photo" />
+          <input type="hidden" name="photoId" value={id} />
+          <label className="block">
+            <span className="mb-1 block font-bold">Choose a photo (JPEG, PNG or WebP, up to {PHOTO_MAX_BYTES / 1024 / 1024} MB)</span>
+            <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" required className="block" />
+          </label>
+          <button type="submit" className="btn mt-3" disabled={fetcher.state !== "idle"}>
+            {fetcher.state !== "idle" ? "Uploading…" : "Upload the photo"}
+          </button>
+        </fetcher.Form>
+      )}
+      <div aria-live="polite">
+        {mine?.error && <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert">{mine.error}</p>}
+        {mine?.saved && <p className="mt-2 font-bold text-ok">Photo saved.</p>}
+      </div>
+      {photos.length > 0 && (
+        <ul className="mt-3 flex flex-wrap gap-3">
+          {photos.map((p) => (
+            <li key={p.id}>
+              <img src={`/photos/${p.id}`} alt={`Your set-up photo for ${slug}`} className="h-32 rounded border border-rule object-cover" />
+            </li>
+          ))}
+        </ul>
+      )}
+    </section>
+  );
+}

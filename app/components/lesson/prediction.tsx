@@ -1,0 +1,48 @@
+// A prediction the student commits before the data is shown; it is kept as first given.
+import { useFetcher } from "react-router";
+import { useLesson } from "./lesson-context";
+
+export function Prediction({ id, question, options, children }: {
+  id: string;
+  question: string;
+  options: { value: string; label: string }[];
+  children: React.ReactNode;
+}) {
+  const { state, canAnswer } = useLesson();
+  const fetcher = useFetcher<{ predictionId?: string; error?: string }>();
+  const committed = state.predictions[id] ?? (fetcher.formData?.get("predictionId") === id ? String(fetcher.formData.get("choice")) : undefined);
+  const chosen = options.find((o) => o.value === committed);
+  if (committed || !canAnswer) {
+    return (
+      <div id={`prediction-${id}`} className="my-6">
+        {chosen && (
+          <p className="rounded bg-spruce-wash p-3 font-ui">
+            <span className="font-bold">Your prediction: </span>
+            {chosen.label}. Now compare it with the data.
+          </p>
+        )}
+        {children}
+      </div>
+    );
+  }
+  return (
+    <fetcher.Form method="post" id={`prediction-${id}`} className="card my-6 font-ui">
+      <input type="hidden" name="intent" value="predict" />
+      <input type="hidden" name="predictionId" value={id} />
+      <fieldset>
+        <legend className="mb-2 font-reading text-[length:var(--text-step-1)] font-semibold">Predict first</legend>
+        <p className="mb-3">{question}</p>
+        {options.map((o) => (
+          <label key={o.value} className="mb-1 flex items-center gap-2">
+            <input type="radio" name="choice" value={o.value} required className="h-5 w-5" />
+            {o.label}
+          </label>
+        ))}
+      </fieldset>
+      {fetcher.data?.error && <p className="mt-2 text-danger">{fetcher.data.error}</p>}
+      <button type="submit" className="btn mt-3">
+        Commit my prediction and show the data
+      </button>
+    </fetcher.Form>
+  );
+}

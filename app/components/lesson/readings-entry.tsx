@@ -1,0 +1,170 @@
+// The student's own readings: a table saved to the server, analysed by the science module (the same
+// analysis as POST /api/analysis), with its chart.
+import { useState } from "react";
+import { useFetcher } from "react-router";
+import type { SavedReadings } from "~/lib/course.server";
+import { analyseReadings, formatForStudent, type Mode } from "~/lib/science";
+import { ForceChartFromAnalysis } from "./force-chart";
+import { useLesson } from "./lesson-context";
+
+interface Row {
+  forceN: string;
+  readingCm: string;
+  returnReadingCm: string;
+  broke: boolean;
+}
+
+const emptyRow = (): Row => ({ forceN: "", readingCm: "", returnReadingCm: "", broke: false });
+const text = (n: number | undefined) => (n === undefined || n === null ? "" : String(n));
+
+function rowsFrom(saved: SavedReadings | undefined): Row[] {
+  const rows = (saved?.points ?? []).map((p) => ({
+    forceN: text(p.forceN),
+    readingCm: text(p.readingCm),
+    returnReadingCm: text(p.returnReadingCm),
+    broke: Boolean(p.broke),
+  }));
+  while (rows.length < 6) rows.push(emptyRow());
+  return rows;
+}
+
+export function ReadingsEntry({ id, mode = "bend", resolutionCm = 0.1 }: { id: string; mode?: Mode; resolutionCm?: number }) {
+  const { state, canAnswer } = useLesson();
+  const saved = state.readings[id];
+  const fetcher = useFetcher<{ readingsId?: string; errors?: string[]; saved?: boolean }>();
+  const [rows, setRows] = useState<Row[]>(() => rowsFrom(saved));
+  const [unloaded, setUnloaded] = useState(text(saved?.unloadedCm ?? undefined));
+  const [material, setMaterial] = useState(saved?.material ?? "");
+  const errors = fetcher.data?.readingsId === id ? fetcher.data.errors : undefined;
+  const update = (i: number, patch: Partial<Row>) => setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
+  const analysis = saved
+    ? analyseReadings({ mode: saved.mode, unloadedCm: saved.unloadedCm ?? undefined, resolutionCm: saved.resolutionCm, points: saved.points })
+    : null;
+  const loadedLabel = mode === "bend" ? "Loaded reading (cm)" : "Loaded length (cm)";
+
+  return (
+    <section id={`readings-${id}`} className="card my-8 scroll-mt-6 font-ui" aria-labelledby={`readings-${id}-title`}>
+      <h3 id={`readings-${id}-title`} className="mb-2 font-reading text-[length:var(--text-step-1)]">
+        Your readings
+      </h3>
+      <p className="mb-3 text-ink-soft">
+        Read the ruler to {resolutionCm} cm. Leave a row empty to skip it. Tick “broke” for the load at which the piece broke.
+      </p>
+      <fetcher.Form method="post">
+        <input type="hidden" name="intent" value="save-readings" />
+        <input type="hidden" name="readingsId" value={id} />
+        <input type="hidden" name="mode" value={mode} />
+        <input type="hidden" name="resolutionCm" value={resolutionCm} />
+        <div className="mb-3 grid gap-3 sm:grid-cols-2">
+          <label className="block">
+            <span className="mb-1 block font-bold">What you tested</span>
+            <input name="material" className="field" maxLength={80} value={material} onChange={(e) => setMaterial(e.target.value)} disabled={!canAnswer} placeholder="e.g. a plastic ruler" />
+          </label>
+          <label className="block">
+            <span className="mb-1 block font-bold">{mode === "bend" ? "Unloaded reading (cm)" : "Unloaded length (cm)"}</span>
+            <input name="unloadedCm" className="field" inputMode="decimal" value={unloaded} onChange={(e) => setUnloaded(e.target.value)} disabled={!canAnswer} required />
+          </label>
+        </div>
+        <div className="overflow-x-auto">
+          <table className="border-collapse">
+            <thead>
+              <tr>
+                <th scope="col" className="px-2 text-left">Force (N)</th>
+                <th scope="col" className="px-2 text-left">{loadedLabel}</th>
+                <th scope="col" className="px-2 text-left">After unloading (cm)</th>
+                <th scope="col" className="px-2 text-left">Broke</th>
+              </tr>
+            </thead>
+            <tbody>
+              {rows.map((row, i) => (
+                <tr key={i}>
+                  <td className="px-1 py-1">
+                    <input name="forceN" aria-label={`Force, row ${i + 1}`} className="field w-24" inputMode="decimal" value={row.forceN} onChange={(e) => update(i, { forceN: e.target.value })} disabled={!canAnswer} />
+                  </td>
+                  <td className="px-1 py-1">
+                    <input name="readingCm" aria-label={`${loadedLabel}, row ${i + 1}`} className="field w-28" inputMode="decimal" value={row.readingCm} onChange={(e) => update(i, { readingCm: e.target.value })} disabled={!canAnswer} />
+                  </td>
+                  <td className="px-1 py-1">
+                    <input name="returnReadingCm" aria-label={`Reading after unloading, row ${i + 1}`} className="field w-28" inputMode="decimal" value={row.returnReadingCm} onChange={(e) => update(i, { returnReadingCm: e.target.value })} disabled={!canAnswer} />
+                  </td>
+                  <td className="px-1 py-1 text-center">
+                    <input type="checkbox" aria-label={`Broke at this load, row ${i + 1}`} className="h-5 w-5" checked={row.broke} onChange={(e) => update(i, { broke: e.target.checked })} disabled={!canAnswer} />
+                    <input type="hidden" name="broke" value={row.broke ? "1" : "0"} />
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+        {canAnswer && (
+          <div className="mt-3 flex flex-wrap gap-3">
+            <button type="button" className="btn btn-quiet" onClick={() => setRows((rs) => [...rs, emptyRow()])} disabled={rows.length >= 40}>
+              Add a row
+            </button>
+            <button type="submit" className="btn" disabled={fetcher.state !== "idle"}>
+              {fetcher.state !== "idle" ? "Saving…" : "Save and analyse"}
+            </button>
+          </div>
+        )}
+      </fetcher.Form>
+      <div aria-live="polite">
+        {errors && errors.length > 0 && (
+          <div className="mt-3 rounded bg-ember-wash p-3 text-danger" role="alert">
+            <p className="font-bold">Nothing was saved yet. Please fix:</p>
+            <ul className="list-disc pl-5 text-ink">
+              {errors.map((e) => (
+                <li key={e}>{e}</li>
+              ))}
+            </ul>
+          </div>
+        )}
+        {fetcher.data?.saved && fetcher.data.readingsId === id && <p className="mt-3 text-ok font-bold">Saved.</p>}
+      </div>
+      {analysis && <ReadingsAnalysis analysis={analysis} />}
+    </section>
+  );
+}
+
+function ReadingsAnalysis({ analysis }: { analysis: ReturnType<typeof analyseReadings> }) {
+  const origin = analysis.fit.throughOrigin;
+  const free = analysis.fit.withIntercept;
+  return (
+    <div className="mt-5" data-testid="readings-analysis">
+      <h4 className="mb-2 font-bold">What your readings say</h4>
+      <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1">
+        <dt>Stiffness (best line through the origin)</dt>
+        <dd data-testid="stiffness-through-origin">{origin.slope !== null ? `${formatForStudent(origin.slope)} N/cm` : "—"}</dd>
+        <dt>R² of that line</dt>
+        <dd>{origin.r2 !== null ? formatForStudent(origin.r2, "", 4) : "—"}</dd>
+        <dt>Best line with an intercept</dt>
+        <dd>
+          {free.slope !== null && free.intercept !== null
+            ? `slope ${formatForStudent(free.slope)} N/cm, intercept ${formatForStudent(free.intercept)} N`
+            : "—"}
+        </dd>
+        <dt>Proportional?</dt>
+        <dd>{analysis.proportional ? "Yes, within your reading resolution" : "No"}</dd>
+        {analysis.elasticLimitN !== null && (
+          <>
+            <dt>Elastic limit</dt>
+            <dd>{formatForStudent(analysis.elasticLimitN)} N</dd>
+          </>
+        )}
+        {analysis.breakingLoadN !== null && (
+          <>
+            <dt>Breaking load</dt>
+            <dd>{formatForStudent(analysis.breakingLoadN)} N</dd>
+          </>
+        )}
+      </dl>
+      {analysis.notes.length > 0 && (
+        <ul className="mt-2 list-disc pl-5 text-ink-soft">
+          {analysis.notes.map((n) => (
+            <li key={n}>{n}</li>
+          ))}
+        </ul>
+      )}
+      <ForceChartFromAnalysis analysis={analysis} title="Your readings" />
+    </div>
+  );
+}

@@ -1,0 +1,53 @@
+// A written claim–evidence–reasoning answer: saved as a draft, then handed in; the teacher's comment shows here.
+import { useFetcher } from "react-router";
+import { useLesson } from "./lesson-context";
+
+export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
+  const { state, canAnswer } = useLesson();
+  const saved = state.writtenAnswers[id];
+  const fetcher = useFetcher<{ answerId?: string; errors?: Record<string, string>; saved?: "draft" | "handed-in" }>();
+  const mine = fetcher.data?.answerId === id ? fetcher.data : undefined;
+  const handedIn = saved?.handedIn || mine?.saved === "handed-in";
+  const field = (name: "claim" | "evidence" | "reasoning", label: string, help: string) => (
+    <label className="mb-3 block">
+      <span className="block font-bold">{label}</span>
+      <span className="mb-1 block text-[length:var(--text-step--1)] text-ink-soft">{help}</span>
+      <textarea name={name} rows={3} maxLength={4000} className="field" defaultValue={saved?.[name] ?? ""} disabled={!canAnswer} aria-invalid={Boolean(mine?.errors?.[name])} />
+      {mine?.errors?.[name] && <span className="text-danger">{mine.errors[name]}</span>}
+    </label>
+  );
+  return (
+    <section id={`answer-${id}`} className="card my-8 scroll-mt-6 font-ui" aria-labelledby={`answer-${id}-title`}>
+      <h3 id={`answer-${id}-title`} className="mb-2 font-reading text-[length:var(--text-step-1)]">
+        Claim, evidence, reasoning
+      </h3>
+      <p className="mb-4 font-reading">{prompt}</p>
+      <fetcher.Form method="post">
+        <input type="hidden" name="intent" value="written-answer" />
+        <input type="hidden" name="answerId" value={id} />
+        {field("claim", "Claim", "One sentence that answers the question.")}
+        {field("evidence", "Evidence", "Numbers from your data that support the claim.")}
+        {field("reasoning", "Reasoning", "Why the evidence supports the claim: the science that links them.")}
+        {canAnswer && (
+          <div className="flex flex-wrap gap-3">
+            <button type="submit" name="handIn" value="0" className="btn btn-quiet" disabled={fetcher.state !== "idle"}>
+              Save a draft
+            </button>
+            <button type="submit" name="handIn" value="1" className="btn" disabled={fetcher.state !== "idle"}>
+              {handedIn ? "Hand in again" : "Hand in"}
+            </button>
+          </div>
+        )}
+      </fetcher.Form>
+      <p aria-live="polite" className="mt-2 font-bold text-ok">
+        {mine?.saved === "draft" ? "Draft saved." : handedIn ? "Handed in. Your teacher can read it now." : ""}
+      </p>
+      {saved?.reviewComment && (
+        <div className="mt-3 rounded bg-spruce-wash p-3" data-testid="review-comment">
+          <p className="font-bold">Your teacher's comment</p>
+          <p>{saved.reviewComment}</p>
+        </div>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,467 @@
+// The course model: a student's exercise instances, attempts, predictions, own readings, written
+// answers, photos and progress. Functions take `{ db }` so tests can call them directly.
+import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import type { AnyPgColumn } from "drizzle-orm/pg-core";
+import type { Database } from "~/db/client.server";
+import {
+  exerciseAttempts,
+  lessonVisits,
+  photos,
+  predictions,
+  readingSets,
+  writtenAnswers,
+} from "~/db/schema.server";
+import { checkAnswer, type CheckResult } from "./answer-checker";
+import {
+  DEFAULT_ATTEMPTS,
+  promptOf,
+  type ExerciseDefinition,
+  type ExerciseInstance,
+  type ExercisePrompt,
+  type GeneratorContext,
+} from "./exercises";
+import { lessonExercises, listLessons } from "./lessons.server";
+import { analyseReadings, type Mode } from "./science";
+import { exerciseSeed, seededRandom } from "./seeded-random";
+
+type Db = { db: Database };
+
+export type ExerciseStatus = "open" | "right" | "used-up";
+
+/** What the student's page gets for one exercise: never the expected answer while attempts remain. */
+export interface ExerciseState {
+  id: string;
+  kind: ExerciseDefinition["kind"];
+  title: string;
+  required: boolean;
+  prompt: ExercisePrompt;
+  attemptsUsed: number;
+  attemptsAllowed: number;
+  status: ExerciseStatus;
+  lastAnswer: string | null;
+  lastFeedback: Feedback | null;
+  /** the worked solution, once the exercise is right or out of attempts */
+  solution: string | null;
+}
+
+export interface Feedback {
+  outcome: CheckResult["outcome"];
+  right: boolean;
+  message: string;
+  /** the exercise's hint, after a wrong answer */
+  hint: string | null;
+  slipCode: string | null;
+}
+
+export interface SavedReadings {
+  readingsId: string;
+  mode: Mode;
+  material: string;
+  unloadedCm: number | null;
+  resolutionCm: number;
+  points: { forceN: number; readingCm?: number; returnReadingCm?: number; broke?: boolean }[];
+}
+
+// ───────────────────────────── Exercise instances ─────────────────────────────
+
+export function findExercise(slug: string, exerciseId: string): ExerciseDefinition | undefined {
+  return lessonExercises(slug).exercises.find((e) => e.id === exerciseId);
+}
+
+/** The student's own numbers for an exercise: the same on every visit, seeded by (student, lesson, exercise, variant). */
+export function exerciseInstance(
+  studentId: string,
+  slug: string,
+  definition: ExerciseDefinition,
+  readings: SavedReadings[],
+  variant = 0,
+): ExerciseInstance {
+  const random = seededRandom(exerciseSeed(studentId, slug, definition.id, variant));
+  return definition.generate(random, generatorContext(definition, readings));
+}
+
+function generatorContext(definition: ExerciseDefinition, readings: SavedReadings[]): GeneratorContext {
+  if (definition.kind !== "own-data") return { ownData: null };
+  const set = readings.find((r) => r.readingsId === definition.readingsId) ?? readings[0];
+  if (!set) return { ownData: null };
+  const analysis = analyseReadings({
+    mode: set.mode,
+    unloadedCm: set.unloadedCm ?? undefined,
+    resolutionCm: set.resolutionCm,
+    points: set.points,
+  });
+  return { ownData: { ...analysis, mode: set.mode, unloadedCm: set.unloadedCm } };
+}
+
+/** How many tries a student has at an exercise (a teacher's accommodation may raise it later). */
+export function attemptsAllowed(): number {
+  return DEFAULT_ATTEMPTS;
+}
+
+// ───────────────────────────── Checking an answer ─────────────────────────────
+
+export type Submission =
+  | { kind: "text"; answer: string }
+  | { kind: "choice"; choice: string; reason: string }
+  | { kind: "cells"; cells: string[] };
+
+/** Checks a submission against the instance; the outcome of a table is right only when every cell is. */
+export function judge(instance: ExerciseInstance, definition: ExerciseDefinition, submission: Submission): {
+  result: CheckResult;
+  raw: string;
+} {
+  if (definition.kind === "choice") {
+    const choice = submission.kind === "choice" ? submission.choice : "";
+    const reason = submission.kind === "choice" ? submission.reason : "";
+    const right = choice === instance.correctChoice;
+    const known = instance.choices?.some((c) => c.value === choice);
+    return {
+      raw: JSON.stringify({ choice, reason }),
+      result: known
+        ? { outcome: right ? "correct" : "incorrect", parsed: null, message: right ? "Right." : "That is not the best choice." }
+        : { outcome: "unreadable", parsed: null, message: "Pick one of the options." },
+    };
+  }
+  if (definition.kind === "table") {
+    const cells = submission.kind === "cells" ? submission.cells : [];
+    const expectedCells = instance.cells ?? [];
+    const results = expectedCells.map((expected, i) => checkAnswer(cells[i] ?? "", expected));
+    const firstWrong = results.findIndex((r) => r.outcome !== "correct");
+    const raw = JSON.stringify(cells);
+    if (firstWrong === -1) return { raw, result: { outcome: "correct", parsed: null, message: "Every cell is right." } };
+    const wrong = results[firstWrong];
+    return { raw, result: { ...wrong, message: `Row ${firstWrong + 1}: ${wrong.message}` } };
+  }
+  const answer = submission.kind === "text" ? submission.answer : "";
+  if (!instance.expected) {
+    return { raw: answer, result: { outcome: "unreadable", parsed: null, message: "Save your readings first; this question uses them." } };
+  }
+  return { raw: answer, result: checkAnswer(answer, instance.expected) };
+}
+
+/** Outcomes that do not use up an attempt: we could not read it, or the exercise itself is at fault. */
+const FREE_OUTCOMES = new Set(["unreadable", "not-checkable"]);
+
+export async function recordAttempt(
+  { db }: Db,
+  input: {
+    studentId: string;
+    slug: string;
+    definition: ExerciseDefinition;
+    submission: Submission;
+  },
+): Promise<{ feedback: Feedback; counted: boolean } | { refused: string }> {
+  const { studentId, slug, definition } = input;
+  const readings = await loadReadings({ db }, studentId, slug);
+  const instance = exerciseInstance(studentId, slug, definition, readings);
+  if (instance.waitingForReadings) return { refused: "Save your readings first; this question uses them." };
+
+  const past = await db
+    .select({ correct: exerciseAttempts.correct, outcome: exerciseAttempts.outcome })
+    .from(exerciseAttempts)
+    .where(
+      and(
+        eq(exerciseAttempts.studentId, studentId),
+        eq(exerciseAttempts.lessonSlug, slug),
+        eq(exerciseAttempts.exerciseId, definition.id),
+      ),
+    );
+  const used = past.filter((a) => !FREE_OUTCOMES.has(a.outcome)).length;
+  if (past.some((a) => a.correct === 1)) return { refused: "You already have this one right." };
+  if (used >= attemptsAllowed()) return { refused: "You have used every attempt at this exercise." };
+
+  const { result, raw } = judge(instance, definition, input.submission);
+  const right = result.outcome === "correct";
+  const counted = !FREE_OUTCOMES.has(result.outcome);
+  await db.insert(exerciseAttempts).values({
+    studentId,
+    lessonSlug: slug,
+    exerciseId: definition.id,
+    rawAnswer: raw.slice(0, 2000),
+    parsedValue: result.parsed && Number.isFinite(result.parsed.value) ? result.parsed.value : null,
+    parsedUnit: result.parsed?.unit ?? null,
+    outcome: result.outcome,
+    correct: right ? 1 : 0,
+    slipCode: result.slip?.code ?? null,
+  });
+  await touchVisit({ db }, studentId, slug, `exercise-${definition.id}`);
+  return {
+    counted,
+    feedback: {
+      outcome: result.outcome,
+      right,
+      message: result.message,
+      hint: right ? null : instance.hint,
+      slipCode: result.slip?.code ?? null,
+    },
+  };
+}
+
+// ───────────────────────────── The lesson page's state ─────────────────────────────
+
+export async function loadReadings({ db }: Db, studentId: string, slug: string): Promise<SavedReadings[]> {
+  const rows = await db
+    .select()
+    .from(readingSets)
+    .where(and(eq(readingSets.studentId, studentId), eq(readingSets.lessonSlug, slug)));
+  return rows.map((r) => ({
+    readingsId: r.readingsId,
+    mode: r.mode,
+    material: r.material,
+    unloadedCm: r.unloadedCm,
+    resolutionCm: r.resolutionCm,
+    points: r.points as SavedReadings["points"],
+  }));
+}
+
+export interface LessonState {
+  exercises: Record<string, ExerciseState>;
+  predictions: Record<string, string>;
+  readings: Record<string, SavedReadings>;
+  writtenAnswers: Record<string, { claim: string; evidence: string; reasoning: string; handedIn: boolean; reviewComment: string | null; reviewScores: unknown }>;
+  photos: Record<string, { id: string; contentType: string; bytes: number }[]>;
+  lastPlace: string | null;
+  complete: boolean;
+}
+
+/** Everything a student's lesson page shows, in a fixed, small number of queries. */
+export async function loadLessonState({ db }: Db, studentId: string, slug: string): Promise<LessonState> {
+  const where = (t: { studentId: AnyPgColumn; lessonSlug: AnyPgColumn }) =>
+    and(eq(t.studentId, studentId), eq(t.lessonSlug, slug));
+  const [attemptRows, predictionRows, readings, answerRows, photoRows, visitRows] = await Promise.all([
+    db.select().from(exerciseAttempts).where(where(exerciseAttempts)).orderBy(asc(exerciseAttempts.createdAt)),
+    db.select().from(predictions).where(where(predictions)),
+    loadReadings({ db }, studentId, slug),
+    db.select().from(writtenAnswers).where(where(writtenAnswers)),
+    db.select().from(photos).where(where(photos)).orderBy(asc(photos.createdAt)),
+    db.select().from(lessonVisits).where(where(lessonVisits)),
+  ]);
+
+  const { exercises: definitions, writtenAnswers: requiredAnswers = [] } = lessonExercises(slug);
+  const exercises: Record<string, ExerciseState> = {};
+  for (const definition of definitions) {
+    const instance = exerciseInstance(studentId, slug, definition, readings);
+    const mine = attemptRows.filter((a) => a.exerciseId === definition.id);
+    exercises[definition.id] = exerciseState(definition, instance, mine);
+  }
+
+  const answers: LessonState["writtenAnswers"] = {};
+  for (const a of answerRows) {
+    answers[a.answerId] = {
+      claim: a.claim,
+      evidence: a.evidence,
+      reasoning: a.reasoning,
+      handedIn: a.handedInAt !== null,
+      reviewComment: a.reviewComment,
+      reviewScores: a.reviewScores,
+    };
+  }
+  const photoMap: LessonState["photos"] = {};
+  for (const p of photoRows) (photoMap[p.photoId] ??= []).push({ id: p.id, contentType: p.contentType, bytes: p.bytes });
+
+  const complete =
+    Object.values(exercises).every((e) => !e.required || e.status !== "open") &&
+    requiredAnswers.every((id) => answers[id]?.handedIn);
+
+  return {
+    exercises,
+    predictions: Object.fromEntries(predictionRows.map((p) => [p.predictionId, p.choice])),
+    readings: Object.fromEntries(readings.map((r) => [r.readingsId, r])),
+    writtenAnswers: answers,
+    photos: photoMap,
+    lastPlace: visitRows[0]?.lastPlace ?? null,
+    complete,
+  };
+}
+
+function exerciseState(
+  definition: ExerciseDefinition,
+  instance: ExerciseInstance,
+  attempts: (typeof exerciseAttempts.$inferSelect)[],
+): ExerciseState {
+  const counted = attempts.filter((a) => !FREE_OUTCOMES.has(a.outcome));
+  const right = attempts.some((a) => a.correct === 1);
+  const allowed = attemptsAllowed();
+  const status: ExerciseStatus = right ? "right" : counted.length >= allowed ? "used-up" : "open";
+  const last = attempts.at(-1);
+  let lastFeedback: Feedback | null = null;
+  if (last) {
+    const again = judge(instance, definition, submissionFromRaw(definition, last.rawAnswer));
+    lastFeedback = {
+      outcome: again.result.outcome,
+      right: last.correct === 1,
+      message: again.result.message,
+      hint: last.correct === 1 ? null : instance.hint,
+      slipCode: last.slipCode,
+    };
+  }
+  return {
+    id: definition.id,
+    kind: definition.kind,
+    title: definition.title,
+    required: definition.required ?? true,
+    prompt: promptOf(instance),
+    attemptsUsed: counted.length,
+    attemptsAllowed: allowed,
+    status,
+    lastAnswer: last?.rawAnswer ?? null,
+    lastFeedback,
+    solution: status === "open" ? null : instance.solution,
+  };
+}
+
+/** Rebuilds a submission from what was stored, to show the last feedback again after a reload. */
+function submissionFromRaw(definition: ExerciseDefinition, raw: string): Submission {
+  try {
+    if (definition.kind === "choice") {
+      const { choice, reason } = JSON.parse(raw) as { choice: string; reason: string };
+      return { kind: "choice", choice: String(choice), reason: String(reason ?? "") };
+    }
+    if (definition.kind === "table") return { kind: "cells", cells: (JSON.parse(raw) as unknown[]).map(String) };
+  } catch {
+    // An unreadable stored answer shows as unreadable feedback.
+  }
+  return { kind: "text", answer: raw };
+}
+
+// ───────────────────────────── Saving the other parts ─────────────────────────────
+
+export async function touchVisit({ db }: Db, studentId: string, slug: string, place: string | null) {
+  await db
+    .insert(lessonVisits)
+    .values({ studentId, lessonSlug: slug, lastPlace: place })
+    .onConflictDoUpdate({
+      target: [lessonVisits.studentId, lessonVisits.lessonSlug],
+      set: { lastPlace: place ?? sql`${lessonVisits.lastPlace}`, updatedAt: sql`now()` },
+    });
+}
+
+export async function savePrediction({ db }: Db, studentId: string, slug: string, predictionId: string, choice: string) {
+  // A committed prediction is kept as it was: the first one stands.
+  await db.insert(predictions).values({ studentId, lessonSlug: slug, predictionId, choice }).onConflictDoNothing();
+  await touchVisit({ db }, studentId, slug, `prediction-${predictionId}`);
+}
+
+export async function saveReadings({ db }: Db, studentId: string, slug: string, set: SavedReadings) {
+  const values = {
+    studentId,
+    lessonSlug: slug,
+    readingsId: set.readingsId,
+    mode: set.mode,
+    material: set.material,
+    unloadedCm: set.unloadedCm,
+    resolutionCm: set.resolutionCm,
+    points: set.points,
+  };
+  await db
+    .insert(readingSets)
+    .values(values)
+    .onConflictDoUpdate({
+      target: [readingSets.studentId, readingSets.lessonSlug, readingSets.readingsId],
+      set: { ...values, updatedAt: sql`now()` },
+    });
+  await touchVisit({ db }, studentId, slug, `readings-${set.readingsId}`);
+}
+
+export async function saveWrittenAnswer(
+  { db }: Db,
+  studentId: string,
+  slug: string,
+  answerId: string,
+  text: { claim: string; evidence: string; reasoning: string },
+  handIn: boolean,
+) {
+  const values = { studentId, lessonSlug: slug, answerId, ...text, handedInAt: handIn ? new Date() : null };
+  await db
+    .insert(writtenAnswers)
+    .values(values)
+    .onConflictDoUpdate({
+      target: [writtenAnswers.studentId, writtenAnswers.lessonSlug, writtenAnswers.answerId],
+      set: {
+        ...text,
+        // Handing in stamps the time; saving a draft after handing in keeps the stamp.
+        handedInAt: handIn ? sql`coalesce(${writtenAnswers.handedInAt}, now())` : sql`${writtenAnswers.handedInAt}`,
+        updatedAt: sql`now()`,
+      },
+    });
+  await touchVisit({ db }, studentId, slug, `answer-${answerId}`);
+}
+
+// ───────────────────────────── The course path ─────────────────────────────
+
+export interface LessonProgress {
+  slug: string;
+  number: number;
+  title: string;
+  summary: string;
+  minutes: number;
+  requiredDone: number;
+  requiredTotal: number;
+  complete: boolean;
+  started: boolean;
+  lastPlace: string | null;
+  updatedAt: Date | null;
+}
+
+/** Progress through every lesson for one student, in three queries whatever the course size. */
+export async function courseProgress({ db }: Db, studentId: string): Promise<LessonProgress[]> {
+  const lessons = listLessons();
+  const slugs = lessons.map((l) => l.slug);
+  if (slugs.length === 0) return [];
+  const [attemptRows, answerRows, visitRows] = await Promise.all([
+    db
+      .select({
+        lessonSlug: exerciseAttempts.lessonSlug,
+        exerciseId: exerciseAttempts.exerciseId,
+        right: sql<number>`max(${exerciseAttempts.correct})`,
+        counted: sql<number>`count(*) filter (where ${exerciseAttempts.outcome} not in ('unreadable', 'not-checkable'))`,
+      })
+      .from(exerciseAttempts)
+      .where(and(eq(exerciseAttempts.studentId, studentId), inArray(exerciseAttempts.lessonSlug, slugs)))
+      .groupBy(exerciseAttempts.lessonSlug, exerciseAttempts.exerciseId),
+    db
+      .select({ lessonSlug: writtenAnswers.lessonSlug, answerId: writtenAnswers.answerId, handedInAt: writtenAnswers.handedInAt })
+      .from(writtenAnswers)
+      .where(eq(writtenAnswers.studentId, studentId)),
+    db.select().from(lessonVisits).where(eq(lessonVisits.studentId, studentId)),
+  ]);
+  const allowed = attemptsAllowed();
+  return lessons.map((lesson) => {
+    const { exercises, writtenAnswers: required = [] } = lessonExercises(lesson.slug);
+    const requiredExercises = exercises.filter((e) => e.required ?? true);
+    const done = requiredExercises.filter((e) => {
+      const row = attemptRows.find((a) => a.lessonSlug === lesson.slug && a.exerciseId === e.id);
+      return row && (Number(row.right) === 1 || Number(row.counted) >= allowed);
+    }).length;
+    const handedIn = required.filter((id) =>
+      answerRows.some((a) => a.lessonSlug === lesson.slug && a.answerId === id && a.handedInAt),
+    ).length;
+    const visit = visitRows.find((v) => v.lessonSlug === lesson.slug);
+    const requiredTotal = requiredExercises.length + required.length;
+    const requiredDone = done + handedIn;
+    return {
+      slug: lesson.slug,
+      number: lesson.number,
+      title: lesson.title,
+      summary: lesson.summary,
+      minutes: lesson.minutes,
+      requiredDone,
+      requiredTotal,
+      complete: requiredDone === requiredTotal,
+      started: Boolean(visit) || requiredDone > 0,
+      lastPlace: visit?.lastPlace ?? null,
+      updatedAt: visit?.updatedAt ?? null,
+    };
+  });
+}
+
+/** Where "continue" goes: the lesson last worked on that is not complete (or the first not complete), at its last place. */
+export function continueTarget(progress: LessonProgress[]): { slug: string; place: string | null } | null {
+  const open = progress.filter((p) => !p.complete);
+  if (open.length === 0) return null;
+  const recent = open
+    .filter((p) => p.updatedAt)
+    .sort((a, b) => (b.updatedAt?.getTime() ?? 0) - (a.updatedAt?.getTime() ?? 0))[0];
+  const target = recent ?? open[0];
+  return { slug: target.slug, place: target.lastPlace };
+}

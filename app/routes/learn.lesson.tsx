@@ -1,0 +1,256 @@
+// A lesson page: the compiled MDX with this student's exercises, predictions, readings, written
+// answers and photos. The action checks answers and saves each part (sent with fetchers, no reload).
+import "katex/dist/katex.min.css";
+import { data, Link } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/learn.lesson";
+import { db } from "~/db/client.server";
+import { assertSameOrigin, requireRole, requireUser } from "~/lib/auth.server";
+import { lessonComponents } from "~/components/lesson";
+import { LessonContext } from "~/components/lesson/lesson-context";
+import { parseAnalysisRequest } from "~/lib/analysis-request";
+import {
+  findExercise,
+  loadLessonState,
+  recordAttempt,
+  savePrediction,
+  saveReadings,
+  saveWrittenAnswer,
+  touchVisit,
+  type Submission,
+} from "~/lib/course.server";
+import { lessonCodeUrl, registerLessonOnServer } from "~/lib/lesson-code.server";
+import { lessonComponent, loadLessonScript } from "~/lib/lesson-scope";
+import { compiledLesson, findLesson, listLessons } from "~/lib/lessons.server";
+import { photoStorage, readPhotoForm, recordPhoto } from "~/lib/photo-store.server";
+
+const idSchema = z.string().min(1).max(80).regex(/^[a-z0-9-]+$/);
+
+const intentSchema = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("answer"), exerciseId: idSchema }),
+  z.object({ intent: z.literal("predict"), predictionId: idSchema, choice: z.string().min(1, "Pick one of the options.").max(80) }),
+  z.object({ intent: z.literal("save-readings"), readingsId: idSchema }),
+  z.object({
+    intent: z.literal("written-answer"),
+    answerId: idSchema,
+    claim: z.string().max(4000, "Keep it under 4000 characters."),
+    evidence: z.string().max(4000, "Keep it under 4000 characters."),
+    reasoning: z.string().max(4000, "Keep it under 4000 characters."),
+    handIn: z.enum(["0", "1"]),
+  }),
+]);
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const lesson = findLesson(params.slug);
+  if (!lesson) throw data("There is no lesson at this address.", { status: 404 });
+  const compiled = await compiledLesson(lesson.slug);
+  registerLessonOnServer(compiled);
+  const isStudent = user.memberships.some((m) => m.role === "student");
+  // Adults see the lesson with numbers of their own, and nothing they type is saved.
+  const state = await loadLessonState({ db }, user.id, lesson.slug);
+  const lessons = listLessons();
+  const index = lessons.findIndex((l) => l.slug === lesson.slug);
+  return {
+    lesson,
+    hash: compiled.hash,
+    codeUrl: lessonCodeUrl(compiled),
+    state,
+    canAnswer: isStudent,
+    previous: index > 0 ? { slug: lessons[index - 1].slug, title: lessons[index - 1].title } : null,
+    next: index < lessons.length - 1 ? { slug: lessons[index + 1].slug, title: lessons[index + 1].title } : null,
+  };
+}
+
+export async function clientLoader({ serverLoader }: Route.ClientLoaderArgs) {
+  const loaded = await serverLoader();
+  // On client-side navigation the lesson's script is not in the page yet.
+  await loadLessonScript(loaded.codeUrl, loaded.hash);
+  return loaded;
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  assertSameOrigin(request);
+  const { user } = await requireRole(request, ["student"]);
+  const lesson = findLesson(params.slug);
+  if (!lesson) throw data("There is no lesson at this address.", { status: 404 });
+  const slug = lesson.slug;
+
+  if ((request.headers.get("content-type") ?? "").startsWith("multipart/form-data")) {
+    return photoAction(request, user.id, slug);
+  }
+  const form = await request.formData();
+  const parsed = intentSchema.safeParse(Object.fromEntries(form));
+  if (!parsed.success) {
+    return data({ error: parsed.error.issues[0]?.message ?? "That request was not understood." }, { status: 400 });
+  }
+  const input = parsed.data;
+
+  switch (input.intent) {
+    case "answer": {
+      const definition = findExercise(slug, input.exerciseId);
+      if (!definition) return data({ exerciseId: input.exerciseId, error: "This exercise is not part of the lesson." }, { status: 404 });
+      const submission: Submission =
+        definition.kind === "choice"
+          ? { kind: "choice", choice: String(form.get("choice") ?? ""), reason: String(form.get("reason") ?? "").slice(0, 1000) }
+          : definition.kind === "table"
+            ? { kind: "cells", cells: form.getAll("cell").map((c) => String(c).slice(0, 200)).slice(0, 50) }
+            : { kind: "text", answer: String(form.get("answer") ?? "") };
+      const outcome = await recordAttempt({ db }, { studentId: user.id, slug, definition, submission });
+      if ("refused" in outcome) return data({ exerciseId: input.exerciseId, error: outcome.refused }, { status: 409 });
+      return { exerciseId: input.exerciseId, feedback: outcome.feedback };
+    }
+    case "predict": {
+      await savePrediction({ db }, user.id, slug, input.predictionId, input.choice);
+      return { predictionId: input.predictionId };
+    }
+    case "save-readings":
+      return saveReadingsAction(form, user.id, slug, input.readingsId);
+    case "written-answer": {
+      const handIn = input.handIn === "1";
+      const text = { claim: input.claim.trim(), evidence: input.evidence.trim(), reasoning: input.reasoning.trim() };
+      if (handIn) {
+        const errors: Record<string, string> = {};
+        if (!text.claim) errors.claim = "Write your claim before handing in.";
+        if (!text.evidence) errors.evidence = "Give your evidence before handing in.";
+        if (!text.reasoning) errors.reasoning = "Explain your reasoning before handing in.";
+        if (Object.keys(errors).length > 0) {
+          // Keep what was written as a draft, so nothing is lost.
+          await saveWrittenAnswer({ db }, user.id, slug, input.answerId, text, false);
+          return data({ answerId: input.answerId, errors }, { status: 400 });
+        }
+      }
+      await saveWrittenAnswer({ db }, user.id, slug, input.answerId, text, handIn);
+      return { answerId: input.answerId, saved: handIn ? ("handed-in" as const) : ("draft" as const) };
+    }
+  }
+}
+
+/** Rows left entirely empty are skipped; every other problem is named by row and column. */
+async function saveReadingsAction(form: FormData, studentId: string, slug: string, readingsId: string) {
+  const column = (name: string) => form.getAll(name).map((v) => String(v).trim().replace(",", "."));
+  const forces = column("forceN");
+  const readings = column("readingCm");
+  const returns = column("returnReadingCm");
+  const broke = column("broke");
+  const number = (text: string) => (text === "" ? undefined : Number(text));
+  const points = forces
+    .map((f, i) => ({ f, r: readings[i] ?? "", back: returns[i] ?? "", broke: broke[i] === "1", row: i + 1 }))
+    .filter((p) => p.f !== "" || p.r !== "" || p.back !== "");
+  const errors: string[] = [];
+  for (const p of points) {
+    if (p.f === "") errors.push(`Row ${p.row}: the force is missing.`);
+    else if (!Number.isFinite(Number(p.f))) errors.push(`Row ${p.row}: the force “${p.f}” is not a number.`);
+    if (p.r === "") errors.push(`Row ${p.row}: the loaded reading is missing.`);
+    else if (!Number.isFinite(Number(p.r))) errors.push(`Row ${p.row}: the reading “${p.r}” is not a number.`);
+    if (p.back !== "" && !Number.isFinite(Number(p.back))) errors.push(`Row ${p.row}: the reading after unloading “${p.back}” is not a number.`);
+  }
+  const unloadedText = String(form.get("unloadedCm") ?? "").trim().replace(",", ".");
+  if (unloadedText === "" || !Number.isFinite(Number(unloadedText))) errors.push("The unloaded reading must be a number in cm.");
+  if (points.length < 2) errors.push("Enter at least two rows of readings.");
+  if (errors.length > 0) return data({ readingsId, errors }, { status: 400 });
+
+  const mode = form.get("mode") === "stretch" ? "stretch" : "bend";
+  const body = {
+    mode,
+    unloadedCm: Number(unloadedText),
+    resolutionCm: Number(form.get("resolutionCm") ?? 0.1) || 0.1,
+    points: points.map((p) => ({
+      forceN: Number(p.f),
+      readingCm: Number(p.r),
+      ...(p.back !== "" ? { returnReadingCm: number(p.back) } : {}),
+      ...(p.broke ? { broke: true } : {}),
+    })),
+  };
+  // The same validation as POST /api/analysis, so the saved set always analyses the same way.
+  const checked = parseAnalysisRequest(body);
+  if (!checked.ok) return data({ readingsId, errors: checked.errors.map(rowWords) }, { status: 400 });
+  await saveReadings({ db }, studentId, slug, {
+    readingsId,
+    mode,
+    material: String(form.get("material") ?? "").trim().slice(0, 80),
+    unloadedCm: body.unloadedCm,
+    resolutionCm: body.resolutionCm,
+    points: body.points,
+  });
+  return { readingsId, saved: true };
+}
+
+/** "points[2].forceN: …" → "Row 3, forceN: …" for a student. */
+function rowWords(problem: string): string {
+  return problem.replace(/points\[(\d+)\]\.?/, (_m, i) => `Row ${Number(i) + 1}, `);
+}
+
+async function photoAction(request: Request, studentId: string, slug: string) {
+  const upload = await readPhotoForm(request);
+  if (!upload.ok) return data({ photoId: "", error: upload.error }, { status: 400 });
+  const photoId = idSchema.safeParse(upload.form.get("photoId"));
+  if (!photoId.success || !upload.photo) {
+    if (upload.photo) await photoStorage().remove(upload.photo.key);
+    return data({ photoId: photoId.success ? photoId.data : "", error: "Choose a photo to upload." }, { status: 400 });
+  }
+  await recordPhoto({ db }, { studentId, lessonSlug: slug, photoId: photoId.data, ...upload.photo });
+  await touchVisit({ db }, studentId, slug, `photo-${photoId.data}`);
+  return { photoId: photoId.data, saved: true };
+}
+
+export default function LessonPage({ loaderData }: Route.ComponentProps) {
+  const { lesson, hash, codeUrl, state, canAnswer, previous, next } = loaderData;
+  const Lesson = lessonComponent(hash);
+  const exercises = Object.values(state.exercises);
+  const done = exercises.filter((e) => e.status !== "open").length;
+  return (
+    <article className="mx-auto max-w-3xl px-5 py-10">
+      {/* The lesson's compiled code, from our own origin; it runs before hydration (see lesson-code.server.ts). */}
+      <script src={codeUrl} />
+      <nav aria-label="Course" className="mb-6 font-ui text-[length:var(--text-step--1)]">
+        <Link to="/learn">← Your course</Link>
+      </nav>
+      <header className="mb-8">
+        <p className="font-ui font-bold uppercase tracking-wider text-ember text-[length:var(--text-step--1)]">
+          Lesson {lesson.number} · about {lesson.minutes} minutes
+        </p>
+        <h1 className="mt-1 mb-3 text-[length:var(--text-step-3)]">{lesson.title}</h1>
+        <p className="prose-reading text-[length:var(--text-step-1)] text-ink-soft">{lesson.summary}</p>
+        <p className="mt-3 font-ui text-[length:var(--text-step--1)] text-ink-soft" data-testid="lesson-progress">
+          {done} of {exercises.length} exercises finished{state.complete ? " · lesson complete" : ""}
+        </p>
+      </header>
+      {lesson.materials.length > 0 && (
+        <section aria-labelledby="materials" className="card mb-6 font-ui">
+          <h2 id="materials" className="mb-2 text-[length:var(--text-step-1)]">You will need</h2>
+          <ul className="list-disc pl-5">
+            {lesson.materials.map((m) => (
+              <li key={m}>{m}</li>
+            ))}
+          </ul>
+        </section>
+      )}
+      {lesson.safety.length > 0 && (
+        <section aria-labelledby="safety" className="mb-8 rounded-lg border-l-8 border-caution bg-caution-wash px-5 py-4 font-ui">
+          <h2 id="safety" className="mb-2 text-[length:var(--text-step-1)] text-caution">Safety for this lesson</h2>
+          <ul className="list-disc pl-5">
+            {lesson.safety.map((s) => (
+              <li key={s}>{s}</li>
+            ))}
+          </ul>
+          <p className="mt-2">Your school's lab-safety policy and local rules come first; at home, work with an adult.</p>
+        </section>
+      )}
+      <div className="prose-reading lesson-body">
+        <LessonContext.Provider value={{ slug: lesson.slug, canAnswer, state }}>
+          {Lesson ? <Lesson components={lessonComponents} /> : <p>The lesson is loading…</p>}
+        </LessonContext.Provider>
+      </div>
+      <nav aria-label="Lessons" className="mt-12 flex flex-wrap justify-between gap-4 font-ui">
+        {previous ? <Link to={`/learn/${previous.slug}`}>← Lesson: {previous.title}</Link> : <span />}
+        {next && <Link to={`/learn/${next.slug}`}>Next lesson: {next.title} →</Link>}
+      </nav>
+    </article>
+  );
+}
+
+export const meta: Route.MetaFunction = ({ data: loaded }) => [
+  { title: loaded ? `${loaded.lesson.title} — Bendwise` : "Lesson — Bendwise" },
+];
+

@@ -1,0 +1,27 @@
+// Serves a set-up photo to those who may see the student's work; everyone else gets 404.
+import { data } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/photos";
+import { db } from "~/db/client.server";
+import { requireUser } from "~/lib/auth.server";
+import { findPhoto, photoStorage } from "~/lib/photo-store.server";
+import { canSeeStudentWork } from "~/lib/student-access.server";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const id = z.string().uuid().safeParse(params.id);
+  const photo = id.success ? await findPhoto({ db }, id.data) : null;
+  if (!photo || !(await canSeeStudentWork({ db }, user.id, photo.studentId))) {
+    throw data("There is no photo at this address.", { status: 404 });
+  }
+  const file = await photoStorage().get(photo.storageKey);
+  if (!file) throw data("The photo file is missing.", { status: 404 });
+  return new Response(file.stream(), {
+    headers: {
+      "Content-Type": photo.contentType,
+      "Content-Length": String(photo.bytes),
+      "Cache-Control": "private, max-age=3600",
+      "X-Content-Type-Options": "nosniff",
+    },
+  });
+}

@@ -1,0 +1,206 @@
+// The course model against a real database: per-student numbers, checking and recording answers,
+// attempts and worked solutions, own readings, written answers, progress, and the compile cache.
+import { mkdtempSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { and, eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { exerciseAttempts, users } from "~/db/schema.server";
+import {
+  continueTarget,
+  courseProgress,
+  exerciseInstance,
+  findExercise,
+  loadLessonState,
+  recordAttempt,
+  saveReadings,
+  saveWrittenAnswer,
+} from "~/lib/course.server";
+import { analyseReadings } from "~/lib/science";
+import { checkLessonFrontmatter, compileCount, compiledLesson, lessonExercises, lessonFolders } from "~/lib/lessons.server";
+
+process.env.BENDWISE_LESSON_CACHE_DIR = mkdtempSync(path.join(tmpdir(), "bendwise-lesson-cache-"));
+
+const LESSON = "02-force-and-deformation";
+let amira: string;
+let ben: string;
+
+async function studentId(username: string) {
+  const [row] = await db.select({ id: users.id }).from(users).where(eq(users.username, username));
+  return row.id;
+}
+
+beforeAll(async () => {
+  amira = await studentId("amira.k");
+  ben = await studentId("ben.t");
+});
+
+describe("per-student exercise numbers", () => {
+  it("gives a student the same numbers on every visit and the student beside them other numbers", () => {
+    const definition = findExercise(LESSON, "deformation-from-readings")!;
+    const first = exerciseInstance(amira, LESSON, definition, []);
+    const again = exerciseInstance(amira, LESSON, definition, []);
+    const other = exerciseInstance(ben, LESSON, definition, []);
+    expect(again.prompt).toBe(first.prompt);
+    expect(other.prompt).not.toBe(first.prompt);
+  });
+});
+
+describe("answering an exercise", () => {
+  it("accepts the right value in another unit (mm for cm) and records the attempt", async () => {
+    const definition = findExercise(LESSON, "deformation-from-readings")!;
+    const instance = exerciseInstance(amira, LESSON, definition, []);
+    const mm = Number((instance.expected!.value * 10).toFixed(1));
+    const result = await recordAttempt({ db }, { studentId: amira, slug: LESSON, definition, submission: { kind: "text", answer: `${mm} mm` } });
+    expect("feedback" in result && result.feedback.right).toBe(true);
+    const rows = await db.select().from(exerciseAttempts).where(and(eq(exerciseAttempts.studentId, amira), eq(exerciseAttempts.exerciseId, definition.id)));
+    expect(rows).toHaveLength(1);
+    expect(rows[0]).toMatchObject({ rawAnswer: `${mm} mm`, outcome: "correct", parsedUnit: "mm", correct: 1 });
+  });
+
+  it("answers a wrong value with the hint, names the slip, and shows the worked solution after the last try", async () => {
+    const definition = findExercise(LESSON, "deformation-from-readings")!;
+    const instance = exerciseInstance(ben, LESSON, definition, []);
+    const loaded = instance.expected!.context!.loadedReadingCm!;
+    const first = await recordAttempt({ db }, { studentId: ben, slug: LESSON, definition, submission: { kind: "text", answer: `${loaded} cm` } });
+    expect("feedback" in first && first.feedback).toMatchObject({ right: false, slipCode: "loaded-reading-as-deformation" });
+    expect("feedback" in first && first.feedback.hint).toBe(instance.hint);
+
+    let state = await loadLessonState({ db }, ben, LESSON);
+    expect(state.exercises[definition.id]).toMatchObject({ status: "open", attemptsUsed: 1, solution: null });
+
+    // An unreadable answer does not use up a try.
+    const unreadable = await recordAttempt({ db }, { studentId: ben, slug: LESSON, definition, submission: { kind: "text", answer: "about a bit" } });
+    expect("feedback" in unreadable && unreadable.counted).toBe(false);
+
+    for (let i = 0; i < 2; i++) {
+      await recordAttempt({ db }, { studentId: ben, slug: LESSON, definition, submission: { kind: "text", answer: "99 cm" } });
+    }
+    state = await loadLessonState({ db }, ben, LESSON);
+    expect(state.exercises[definition.id]).toMatchObject({ status: "used-up", attemptsUsed: 3 });
+    expect(state.exercises[definition.id].solution).toBe(instance.solution);
+    const refused = await recordAttempt({ db }, { studentId: ben, slug: LESSON, definition, submission: { kind: "text", answer: "1 cm" } });
+    expect(refused).toEqual({ refused: "You have used every attempt at this exercise." });
+  });
+
+  it("never puts an expected answer or an unearned solution into the page's state", async () => {
+    const state = await loadLessonState({ db }, await studentId("carmen.l"), LESSON);
+    const json = JSON.stringify(state);
+    for (const key of ["expected", "cells", "correctChoice", "knownWrongAnswers"]) expect(json).not.toContain(`"${key}"`);
+    for (const exercise of Object.values(state.exercises)) expect(exercise.solution).toBeNull();
+    const kinds = new Set(Object.values(state.exercises).map((e) => e.kind));
+    expect(kinds).toEqual(new Set(["number", "table", "choice"]));
+  });
+
+  it("checks a table cell by cell and a choice by its option", async () => {
+    const student = await studentId("dev.p");
+    const table = findExercise(LESSON, "complete-the-table")!;
+    const tableInstance = exerciseInstance(student, LESSON, table, []);
+    const cells = tableInstance.cells!.map((c) => `${c.value} cm`);
+    const wrongCells = [...cells.slice(0, 2), "0 cm"];
+    const wrong = await recordAttempt({ db }, { studentId: student, slug: LESSON, definition: table, submission: { kind: "cells", cells: wrongCells } });
+    expect("feedback" in wrong && wrong.feedback.message).toMatch(/^Row 3/);
+    const right = await recordAttempt({ db }, { studentId: student, slug: LESSON, definition: table, submission: { kind: "cells", cells } });
+    expect("feedback" in right && right.feedback.right).toBe(true);
+
+    const choice = findExercise(LESSON, "same-stiffness-choice")!;
+    const choiceInstance = exerciseInstance(student, LESSON, choice, []);
+    const result = await recordAttempt({
+      db },
+      { studentId: student, slug: LESSON, definition: choice, submission: { kind: "choice", choice: choiceInstance.correctChoice!, reason: "I divided each force by its deformation." } },
+    );
+    expect("feedback" in result && result.feedback.right).toBe(true);
+  });
+});
+
+describe("own readings", () => {
+  it("saves a readings table and analyses it exactly as the analysis function does", async () => {
+    const student = await studentId("elif.s");
+    // Invented readings for the test.
+    const set = {
+      readingsId: "home-lab-a",
+      mode: "bend" as const,
+      material: "plastic ruler",
+      unloadedCm: 20,
+      resolutionCm: 0.1,
+      points: [1, 2, 3, 4, 5, 6].map((f) => ({ forceN: f, readingCm: Number((20 - f * 0.42).toFixed(1)) })),
+    };
+    await saveReadings({ db }, student, LESSON, set);
+    const state = await loadLessonState({ db }, student, LESSON);
+    expect(state.readings["home-lab-a"]).toEqual(set);
+    expect(state.lastPlace).toBe("readings-home-lab-a");
+    const direct = analyseReadings({ mode: "bend", unloadedCm: 20, resolutionCm: 0.1, points: set.points });
+    const saved = state.readings["home-lab-a"];
+    expect(analyseReadings({ mode: saved.mode, unloadedCm: saved.unloadedCm!, resolutionCm: saved.resolutionCm, points: saved.points })).toEqual(direct);
+  });
+});
+
+describe("progress", () => {
+  it("completes a lesson when every required exercise is finished and the written answer handed in", async () => {
+    const student = await studentId("finn.o");
+    const { exercises } = lessonExercises(LESSON);
+    for (const definition of exercises) {
+      for (let i = 0; i < 3; i++) {
+        await recordAttempt({ db }, { studentId: student, slug: LESSON, definition, submission: definition.kind === "table" ? { kind: "cells", cells: ["1 cm", "1 cm", "1 cm"] } : definition.kind === "choice" ? { kind: "choice", choice: "nonsense-not-an-option", reason: "" } : { kind: "text", answer: "12345 N" } });
+      }
+    }
+    let progress = await courseProgress({ db }, student);
+    let lesson2 = progress.find((p) => p.slug === LESSON)!;
+    // A choice that is not one of the options is unreadable and uses no try, so that one stays open.
+    expect(lesson2.complete).toBe(false);
+
+    const choice = exercises.find((e) => e.kind === "choice")!;
+    const instance = exerciseInstance(student, LESSON, choice, []);
+    await recordAttempt({ db }, { studentId: student, slug: LESSON, definition: choice, submission: { kind: "choice", choice: instance.correctChoice!, reason: "" } });
+    await saveWrittenAnswer({ db }, student, LESSON, "cer-stiffness", { claim: "c", evidence: "e", reasoning: "r" }, false);
+    progress = await courseProgress({ db }, student);
+    expect(progress.find((p) => p.slug === LESSON)!.complete).toBe(false);
+
+    await saveWrittenAnswer({ db }, student, LESSON, "cer-stiffness", { claim: "c", evidence: "e", reasoning: "r" }, true);
+    progress = await courseProgress({ db }, student);
+    lesson2 = progress.find((p) => p.slug === LESSON)!;
+    expect(lesson2).toMatchObject({ complete: true, requiredDone: lesson2.requiredTotal });
+    expect((await loadLessonState({ db }, student, LESSON)).complete).toBe(true);
+  });
+
+  it("continues where the student stopped", async () => {
+    const student = await studentId("grace.w");
+    const definition = findExercise(LESSON, "stiffness-one-reading")!;
+    await recordAttempt({ db }, { studentId: student, slug: LESSON, definition, submission: { kind: "text", answer: "1 N" } });
+    expect(continueTarget(await courseProgress({ db }, student))).toEqual({ slug: LESSON, place: "exercise-stiffness-one-reading" });
+  });
+});
+
+describe("every lesson folder", () => {
+  it("has frontmatter the pipeline accepts", () => {
+    for (const slug of lessonFolders()) {
+      const checked = checkLessonFrontmatter(slug);
+      expect(checked.ok ? [] : checked.problems, slug).toEqual([]);
+    }
+  });
+});
+
+describe("the lesson compile cache", () => {
+  it("compiles a lesson once, not per request", async () => {
+    const before = compileCount();
+    const results = await Promise.all([compiledLesson(LESSON), compiledLesson(LESSON), compiledLesson(LESSON)]);
+    await compiledLesson(LESSON);
+    expect(compileCount() - before).toBe(1);
+    expect(new Set(results.map((r) => r.hash)).size).toBe(1);
+    expect(results[0].code).toContain("Equation");
+  });
+
+  it("keeps generators and expected answers out of the compiled bundle", async () => {
+    const { code } = await compiledLesson(LESSON);
+    expect(code).not.toContain("generate(");
+    expect(code).not.toContain("expected");
+    expect(code).not.toContain("solution");
+  });
+
+  it("renders math with MathML for screen readers", async () => {
+    const { code } = await compiledLesson(LESSON);
+    expect(code).toContain("math");
+    expect(code).toMatch(/annotation/);
+  });
+});
