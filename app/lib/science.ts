@@ -1,0 +1,878 @@
+/**
+ * The science of Bendwise: how strips, sticks and bundles deform under load.
+ *
+ * Pure TypeScript: no React, no database, no I/O. Lessons, the answer checker, the teacher's tools
+ * and `POST /api/analysis` all call these functions, so each one is tested against a published
+ * reference where one exists (see tests/unit/science.test.ts).
+ *
+ * Unit conventions, the same everywhere in this file:
+ * - classroom readings: force in N, ruler readings and deformations in cm, stiffness in N/cm;
+ * - beam formulas (the "Beams" section): SI only — N, m, Pa (N/m²), m⁴.
+ *
+ * Map of the file:
+ *   1. constants and small helpers
+ *   2. readings → deformation, stiffness of one reading, permanent set
+ *   3. least-squares fits (through the origin, with a free intercept) — NIST StRD conventions
+ *   4. proportionality verdict (the written rule)
+ *   5. elastic limit, breaking load
+ *   6. specimens together: ratio, side by side, glued stack, in series
+ *   7. beams: second moment of area, midspan deflection, Young's modulus, scaling
+ *   8. weight from mass, reading uncertainty carried into stiffness
+ *   9. design check
+ *  10. analyseReadings — the `POST /api/analysis` contract
+ */
+
+// ───────────────────────────── 1. constants and small helpers ─────────────────────────────
+
+/**
+ * Gravitational field strength used throughout Bendwise: 9.81 N/kg (the value every lesson and
+ * exercise uses; standard gravity is 9.806 65 m/s², rounded to three significant figures).
+ */
+export const G_N_PER_KG = 9.81;
+
+/** Whether a reading goes down (a beam bends) or up (a band stretches) as load is added. */
+export type Mode = "bend" | "stretch";
+
+/** One force–deformation pair: force in N, deformation in cm. */
+export interface ForceDeformation {
+  forceN: number;
+  deformationCm: number;
+}
+
+/**
+ * A finite number, or null: every value leaving this module is one or the other (never NaN).
+ * −0 becomes 0, so an answer reads the same before and after a JSON round trip.
+ */
+function finiteOrNull(x: number): number | null {
+  if (!Number.isFinite(x)) return null;
+  return x === 0 ? 0 : x;
+}
+
+/**
+ * Comparisons against the ruler's resolution allow for binary rounding noise: 20.0 − 19.9 is
+ * 0.10000000000000142 in floating point, which must still count as "within 0.1 cm".
+ */
+function withinResolution(distanceCm: number, resolutionCm: number): boolean {
+  return Math.abs(distanceCm) <= resolutionCm * (1 + 1e-9) + 1e-12;
+}
+
+/**
+ * The difference of two readings, cleaned of binary noise: rounded to 12 significant digits of
+ * the larger reading (a ruler never gives more), so 20.3 − 19.9 is 0.4, not 0.400000000000002.
+ */
+function readingDifference(a: number, b: number): number {
+  const diff = a - b;
+  const scale = Math.max(Math.abs(a), Math.abs(b));
+  if (!Number.isFinite(diff) || scale === 0) return diff;
+  const decimals = Math.min(100, Math.max(0, 12 - Math.floor(Math.log10(scale))));
+  return Number(diff.toFixed(decimals));
+}
+
+/**
+ * A number written for a student: `sig` significant figures, "× 10^n" instead of "e+n", and a
+ * space before the unit (NIST SP 811 §7.2: a space separates the numerical value and the unit).
+ */
+export function formatForStudent(value: number, unit = "", sig = 3): string {
+  if (!Number.isFinite(value)) return "—";
+  // toPrecision keeps trailing zeros (2.00 has three significant figures) and switches to
+  // "1.23e+5" for large and small numbers, which we write the way a student would.
+  const [mantissa, exponent] = value.toPrecision(sig).split("e");
+  const number = exponent === undefined ? mantissa : `${mantissa} × 10^${Number(exponent)}`;
+  return unit ? `${number} ${unit}` : number;
+}
+
+/** A value the student gave (a force, a reading, a difference of readings) written as given, up to 6 figures: "5 N", "0.3 cm". */
+function formatGiven(value: number, unit: string): string {
+  if (!Number.isFinite(value)) return "—";
+  const short = Number(value.toPrecision(6));
+  const plain = short === 0 || (Math.abs(short) >= 1e-4 && Math.abs(short) < 1e9);
+  return plain ? `${short} ${unit}` : formatForStudent(short, unit, 6);
+}
+
+// ───────────────── 2. readings → deformation, stiffness of one reading, permanent set ─────────────────
+
+/**
+ * Deformation in cm from two ruler readings in cm: bend = unloaded − loaded (the beam sags, the
+ * height drops), stretch = loaded − unloaded (the band gets longer).
+ */
+export function deformationCm(mode: Mode, unloadedCm: number, loadedCm: number): number {
+  return mode === "bend" ? readingDifference(unloadedCm, loadedCm) : readingDifference(loadedCm, unloadedCm);
+}
+
+/** Stiffness of one reading in N/cm = force (N) ÷ deformation (cm); null when the deformation is 0. */
+export function stiffnessNPerCm(forceN: number, deformationCmValue: number): number | null {
+  if (deformationCmValue === 0) return null;
+  return finiteOrNull(forceN / deformationCmValue);
+}
+
+/**
+ * Permanent set in cm: how far the piece stays deformed after the load is removed — the return
+ * reading's offset from the unloaded reading, with the same sign rule as the deformation.
+ */
+export function permanentSetCm(mode: Mode, unloadedCm: number, returnReadingCm: number): number {
+  return deformationCm(mode, unloadedCm, returnReadingCm);
+}
+
+// ───────────────────── 3. least-squares fits (force on deformation) ─────────────────────
+
+/**
+ * A straight line through the origin, force = slope × deformation (slope in N/cm).
+ * `null` marks a value that cannot be computed from the data given (see the fit functions).
+ */
+export interface FitThroughOrigin {
+  /** number of points used */
+  n: number;
+  /** stiffness in N/cm: Σxy / Σx² */
+  slope: number | null;
+  /** standard error of the slope in N/cm; null with fewer than 2 points */
+  slopeSE: number | null;
+  /** residual standard deviation in N, on n − 1 degrees of freedom; null with fewer than 2 points */
+  residualSD: number | null;
+  /** uncentred R² = 1 − RSS / Σy²; null when every force is 0 */
+  r2: number | null;
+}
+
+/** A straight line with a free intercept, force = intercept + slope × deformation. */
+export interface FitWithIntercept {
+  n: number;
+  /** N/cm */
+  slope: number | null;
+  /** N: the force the line gives at zero deformation */
+  intercept: number | null;
+  /** N/cm; null with fewer than 3 points */
+  slopeSE: number | null;
+  /** N; null with fewer than 3 points */
+  interceptSE: number | null;
+  /** N, on n − 2 degrees of freedom; null with fewer than 3 points */
+  residualSD: number | null;
+  /** centred R² = 1 − RSS / Σ(y − ȳ)²; null when every force is the same */
+  r2: number | null;
+}
+
+/**
+ * Least-squares line through the origin of force (N) on deformation (cm), with the conventions
+ * of the NIST StRD certified values for NoInt1: slope = Σxy/Σx², residual SD on n − 1
+ * degrees of freedom, uncentred R². Null fields where the data cannot give a value.
+ */
+export function fitThroughOrigin(points: readonly ForceDeformation[]): FitThroughOrigin {
+  const n = points.length;
+  let sxx = 0;
+  let sxy = 0;
+  let syy = 0;
+  for (const p of points) {
+    sxx += p.deformationCm * p.deformationCm;
+    sxy += p.deformationCm * p.forceN;
+    syy += p.forceN * p.forceN;
+  }
+  const empty: FitThroughOrigin = { n, slope: null, slopeSE: null, residualSD: null, r2: null };
+  if (n === 0 || !(sxx > 0) || !Number.isFinite(sxx) || !Number.isFinite(sxy)) return empty;
+
+  const slope = sxy / sxx;
+  // Residuals summed directly (two-pass) rather than Σy² − b·Σxy, which loses digits.
+  let rss = 0;
+  for (const p of points) {
+    const r = p.forceN - slope * p.deformationCm;
+    rss += r * r;
+  }
+  const dof = n - 1;
+  const residualSD = dof > 0 ? Math.sqrt(rss / dof) : null;
+  return {
+    n,
+    slope: finiteOrNull(slope),
+    slopeSE: residualSD === null ? null : finiteOrNull(residualSD / Math.sqrt(sxx)),
+    residualSD: residualSD === null ? null : finiteOrNull(residualSD),
+    r2: syy > 0 ? finiteOrNull(1 - rss / syy) : null,
+  };
+}
+
+/**
+ * Least-squares line with a free intercept of force (N) on deformation (cm), NIST StRD
+ * conventions as certified for Norris: residual SD on n − 2 degrees of freedom, centred R².
+ * Needs 2 points with different deformations for the line, 3 for standard errors.
+ */
+export function fitWithIntercept(points: readonly ForceDeformation[]): FitWithIntercept {
+  const n = points.length;
+  const empty: FitWithIntercept = {
+    n,
+    slope: null,
+    intercept: null,
+    slopeSE: null,
+    interceptSE: null,
+    residualSD: null,
+    r2: null,
+  };
+  if (n < 2) return empty;
+
+  let sumX = 0;
+  let sumY = 0;
+  for (const p of points) {
+    sumX += p.deformationCm;
+    sumY += p.forceN;
+  }
+  const meanX = sumX / n;
+  const meanY = sumY / n;
+  // Centred sums (two-pass) keep full precision when the data sit far from zero.
+  let sxx = 0;
+  let sxy = 0;
+  let syy = 0;
+  for (const p of points) {
+    const dx = p.deformationCm - meanX;
+    const dy = p.forceN - meanY;
+    sxx += dx * dx;
+    sxy += dx * dy;
+    syy += dy * dy;
+  }
+  if (!(sxx > 0) || !Number.isFinite(sxx) || !Number.isFinite(sxy)) return empty;
+
+  const slope = sxy / sxx;
+  const intercept = meanY - slope * meanX;
+  let rss = 0;
+  for (const p of points) {
+    const r = p.forceN - intercept - slope * p.deformationCm;
+    rss += r * r;
+  }
+  const dof = n - 2;
+  const residualSD = dof > 0 ? Math.sqrt(rss / dof) : null;
+  return {
+    n,
+    slope: finiteOrNull(slope),
+    intercept: finiteOrNull(intercept),
+    slopeSE: residualSD === null ? null : finiteOrNull(residualSD / Math.sqrt(sxx)),
+    interceptSE:
+      residualSD === null ? null : finiteOrNull(residualSD * Math.sqrt(1 / n + (meanX * meanX) / sxx)),
+    residualSD: residualSD === null ? null : finiteOrNull(residualSD),
+    r2: syy > 0 ? finiteOrNull(1 - rss / syy) : null,
+  };
+}
+
+// ───────────────────────────── 4. proportionality verdict ─────────────────────────────
+
+/**
+ * The verdict on "is force proportional to deformation?":
+ * - "proportional": a straight line through the origin fits;
+ * - "linear-not-proportional": a straight line fits, but it misses the origin;
+ * - "not-linear": no straight line fits the points;
+ * - "no-increase": force does not grow with deformation (slope zero or negative);
+ * - "too-few-points": fewer than 2 points with a deformation other than 0.
+ */
+export type ProportionalityKind =
+  | "proportional"
+  | "linear-not-proportional"
+  | "not-linear"
+  | "no-increase"
+  | "too-few-points";
+
+export interface ProportionalityVerdict {
+  proportional: boolean;
+  kind: ProportionalityKind;
+  /** the reason in plain words for a student */
+  reason: string;
+  /** cm: where the free line crosses zero force (−intercept ÷ slope); null when there is no line */
+  originOffsetCm: number | null;
+  /** cm: the largest sideways distance from a point to the line through the origin */
+  largestMissThroughOriginCm: number | null;
+  /** cm: the largest sideways distance from a point to the line with a free intercept */
+  largestMissWithInterceptCm: number | null;
+}
+
+/**
+ * Proportionality verdict for force (N) on deformation (cm), judged against the ruler's
+ * resolution (cm). THE RULE (our own, written down so teachers can check it):
+ *
+ * Each ruler reading is rounded to the nearest mark, so it is off by at most half a mark; a
+ * deformation is the difference of two readings, so it is off by at most one mark (one
+ * "resolution"). Distances are measured sideways, in cm of deformation, so they compare directly
+ * with the resolution. Force is proportional to deformation when BOTH:
+ *   (a) the least-squares line through the origin passes within one resolution of every point; and
+ *   (b) the line with a free intercept crosses zero force within one resolution of the origin
+ *       (|intercept ÷ slope| ≤ resolution), or its intercept is within two standard errors of 0.
+ * If the free line passes within one resolution of every point but (a) or (b) fails, the data are
+ * linear but not proportional (a straight line that misses the origin). Otherwise they are not
+ * linear. At least 2 points with a deformation other than 0 are needed for any verdict.
+ */
+export function proportionalityVerdict(
+  points: readonly ForceDeformation[],
+  resolutionCm: number,
+): ProportionalityVerdict {
+  const usable = points.filter((p) => Number.isFinite(p.forceN) && Number.isFinite(p.deformationCm));
+  const res = formatGiven(resolutionCm, "cm");
+  const none = { originOffsetCm: null, largestMissThroughOriginCm: null, largestMissWithInterceptCm: null };
+
+  if (usable.filter((p) => p.deformationCm !== 0).length < 2) {
+    return {
+      proportional: false,
+      kind: "too-few-points",
+      reason:
+        "There are fewer than two readings with a deformation other than 0, so there is no line to judge. Add more loads.",
+      ...none,
+    };
+  }
+
+  const origin = fitThroughOrigin(usable);
+  const free = fitWithIntercept(usable);
+  if (origin.slope === null || !(origin.slope > 0)) {
+    return {
+      proportional: false,
+      kind: "no-increase",
+      reason: "The force does not go up as the deformation goes up, so they cannot be proportional.",
+      ...none,
+    };
+  }
+
+  const k0 = origin.slope;
+  const missOrigin = Math.max(...usable.map((p) => Math.abs(p.deformationCm - p.forceN / k0)));
+  let missFree: number | null = null;
+  let offset: number | null = null;
+  if (free.slope !== null && free.slope > 0 && free.intercept !== null) {
+    const b1 = free.slope;
+    const b0 = free.intercept;
+    missFree = Math.max(...usable.map((p) => Math.abs(p.deformationCm - (p.forceN - b0) / b1)));
+    offset = -b0 / b1;
+  }
+  const result = {
+    originOffsetCm: offset === null ? null : finiteOrNull(offset),
+    largestMissThroughOriginCm: finiteOrNull(missOrigin),
+    largestMissWithInterceptCm: missFree === null ? null : finiteOrNull(missFree),
+  };
+
+  const originLineFits = withinResolution(missOrigin, resolutionCm);
+  const freeLineFits = missFree !== null && withinResolution(missFree, resolutionCm);
+  const twoSE =
+    free.intercept !== null && free.interceptSE !== null && Math.abs(free.intercept) <= 2 * free.interceptSE;
+  const originOnLine = offset === null || withinResolution(offset, resolutionCm) || twoSE;
+
+  if (originLineFits && originOnLine) {
+    return {
+      proportional: true,
+      kind: "proportional",
+      reason: `A straight line through the origin passes within one ruler step (${res}) of every reading: double the force gives double the deformation.`,
+      ...result,
+    };
+  }
+  if (freeLineFits) {
+    const why =
+      offset !== null && !originOnLine
+        ? `it crosses zero force at a deformation of ${formatForStudent(offset, "cm", 2)}, more than one ruler step (${res}) from 0`
+        : `a line forced through the origin misses a reading by ${formatForStudent(missOrigin, "cm", 2)}, more than one ruler step (${res})`;
+    return {
+      proportional: false,
+      kind: "linear-not-proportional",
+      reason: `The readings lie on a straight line, but the line misses the origin: ${why}. Force and deformation rise steadily together, yet double the force does not give double the deformation — linear, not proportional.`,
+      ...result,
+    };
+  }
+  return {
+    proportional: false,
+    kind: "not-linear",
+    reason: `No straight line passes within one ruler step (${res}) of every reading: the farthest reading is ${formatForStudent(missFree ?? missOrigin, "cm", 2)} from the best line. The graph curves — often a sign the piece went past its elastic limit, or that a reading slipped.`,
+    ...result,
+  };
+}
+
+// ───────────────────────────── 5. elastic limit, breaking load ─────────────────────────────
+
+/** A loading step as the elastic-limit rule sees it: force in N, permanent set in cm (null when not measured). */
+export interface ReturnCheck {
+  forceN: number;
+  permanentSetCm: number | null;
+  broke?: boolean;
+}
+
+export interface ElasticLimitResult {
+  /** N: the largest force after which the piece came back within resolution, before the first permanent set */
+  elasticLimitN: number | null;
+  /** N: the first force after which the piece did NOT come back (the first permanent set); null if none */
+  firstPermanentSetAtN: number | null;
+  /** cm: that permanent set */
+  firstPermanentSetCm: number | null;
+}
+
+/**
+ * Elastic limit in N from return readings, in the order the loads were applied: walk the steps;
+ * a step whose permanent set is within one resolution (cm) counts as "came back"; stop at the
+ * first step that did not come back, or at a break. Steps without a return reading are skipped.
+ */
+export function elasticLimit(steps: readonly ReturnCheck[], resolutionCm: number): ElasticLimitResult {
+  let limit: number | null = null;
+  for (const s of steps) {
+    if (s.broke) break;
+    if (s.permanentSetCm === null || !Number.isFinite(s.permanentSetCm) || !Number.isFinite(s.forceN)) continue;
+    if (withinResolution(s.permanentSetCm, resolutionCm)) {
+      limit = limit === null ? s.forceN : Math.max(limit, s.forceN);
+    } else {
+      return { elasticLimitN: limit, firstPermanentSetAtN: s.forceN, firstPermanentSetCm: s.permanentSetCm };
+    }
+  }
+  return { elasticLimitN: limit, firstPermanentSetAtN: null, firstPermanentSetCm: null };
+}
+
+/** Breaking load in N: the force of the first step (in loading order) marked broke; null if none broke. */
+export function breakingLoadN(steps: readonly { forceN: number; broke?: boolean }[]): number | null {
+  const first = steps.find((s) => s.broke === true);
+  return first === undefined ? null : finiteOrNull(first.forceN);
+}
+
+// ───────────── 6. specimens together: ratio, side by side, glued stack, in series ─────────────
+
+/** How many times stiffer specimen A is than specimen B (any one stiffness unit for both); null when B's is 0. */
+export function stiffnessRatio(stiffnessA: number, stiffnessB: number): number | null {
+  if (stiffnessB === 0) return null;
+  return finiteOrNull(stiffnessA / stiffnessB);
+}
+
+/**
+ * Stiffness of n identical strips side by side, loaded together (any stiffness unit): n × k.
+ * Each strip carries its share of the load at the same deflection, like springs in parallel.
+ */
+export function sideBySideStiffness(stripStiffness: number, stripCount: number): number {
+  return stripCount * stripStiffness;
+}
+
+/**
+ * Stiffness of n identical strips glued into one stack (any stiffness unit): n³ × k. Bending
+ * stiffness goes with thickness cubed (I = b·h³/12), and gluing makes one strip n times as
+ * thick. Assumes a perfect glue line with no slip between layers (common practice, no source).
+ */
+export function gluedStackStiffness(stripStiffness: number, stripCount: number): number {
+  return stripCount ** 3 * stripStiffness;
+}
+
+/**
+ * Stiffness of pieces (or springs) in series, one after the other (any one stiffness unit):
+ * 1/k = Σ 1/kᵢ. Null when the list is empty or a stiffness is not above 0.
+ */
+export function seriesStiffness(stiffnesses: readonly number[]): number | null {
+  if (stiffnesses.length === 0 || stiffnesses.some((k) => !(k > 0))) return null;
+  return finiteOrNull(1 / stiffnesses.reduce((sum, k) => sum + 1 / k, 0));
+}
+
+/** Stiffness of pieces (or springs) in parallel, sharing the load (any one stiffness unit): Σ kᵢ. */
+export function parallelStiffness(stiffnesses: readonly number[]): number {
+  return stiffnesses.reduce((sum, k) => sum + k, 0);
+}
+
+// ──────────────────────────── 7. beams (SI units: N, m, Pa, m⁴) ────────────────────────────
+
+function requirePositive(name: string, value: number): void {
+  if (!(value > 0) || !Number.isFinite(value)) {
+    throw new RangeError(`${name} must be a finite number above 0 (got ${value})`);
+  }
+}
+
+/** Second moment of area in m⁴ of a rectangle b (width, m) × h (thickness in the bending direction, m): b·h³/12. Throws RangeError unless both > 0. */
+export function secondMomentRectangleM4(widthM: number, thicknessM: number): number {
+  requirePositive("width", widthM);
+  requirePositive("thickness", thicknessM);
+  return (widthM * thicknessM ** 3) / 12;
+}
+
+/** Second moment of area in m⁴ of a round rod of diameter d (m): π·d⁴/64. Throws RangeError unless d > 0. */
+export function secondMomentRoundM4(diameterM: number): number {
+  requirePositive("diameter", diameterM);
+  return (Math.PI * diameterM ** 4) / 64;
+}
+
+/**
+ * Midspan deflection in m of a simply supported beam with a central load:
+ * δ = F·L³ / (48·E·I), with F in N, span L in m, E in Pa, I in m⁴. Throws RangeError on bad input.
+ */
+export function midspanDeflectionM(loadN: number, spanM: number, youngsModulusPa: number, secondMomentM4: number): number {
+  if (!Number.isFinite(loadN)) throw new RangeError(`load must be finite (got ${loadN})`);
+  requirePositive("span", spanM);
+  requirePositive("Young's modulus", youngsModulusPa);
+  requirePositive("second moment of area", secondMomentM4);
+  return (loadN * spanM ** 3) / (48 * youngsModulusPa * secondMomentM4);
+}
+
+/** Beam stiffness in N/m at midspan (force per deflection) of a simply supported beam: 48·E·I / L³. */
+export function beamStiffnessNPerM(spanM: number, youngsModulusPa: number, secondMomentM4: number): number {
+  requirePositive("span", spanM);
+  requirePositive("Young's modulus", youngsModulusPa);
+  requirePositive("second moment of area", secondMomentM4);
+  return (48 * youngsModulusPa * secondMomentM4) / spanM ** 3;
+}
+
+/**
+ * Young's modulus in Pa from a bending test (the deflection formula turned round):
+ * E = F·L³ / (48·I·δ), with F in N, L in m, I in m⁴, midspan deflection δ in m.
+ */
+export function youngsModulusFromTestPa(loadN: number, spanM: number, secondMomentM4: number, deflectionM: number): number {
+  requirePositive("load", loadN);
+  requirePositive("span", spanM);
+  requirePositive("second moment of area", secondMomentM4);
+  requirePositive("deflection", deflectionM);
+  return (loadN * spanM ** 3) / (48 * secondMomentM4 * deflectionM);
+}
+
+/**
+ * By how much a beam's stiffness changes when width, thickness and span are scaled by the given
+ * factors (new ÷ old, each default 1): width¹ × thickness³ ÷ span³ (from 48·E·b·h³/(12·L³)).
+ */
+export function beamStiffnessScale(change: { width?: number; thickness?: number; span?: number }): number {
+  const w = change.width ?? 1;
+  const t = change.thickness ?? 1;
+  const s = change.span ?? 1;
+  requirePositive("width factor", w);
+  requirePositive("thickness factor", t);
+  requirePositive("span factor", s);
+  return (w * t ** 3) / s ** 3;
+}
+
+// ─────────────── 8. weight from mass, reading uncertainty carried into stiffness ───────────────
+
+/** Weight in N of a mass in kg: m × g, with g = G_N_PER_KG (9.81 N/kg) unless another g is given. */
+export function weightN(massKg: number, gNPerKg: number = G_N_PER_KG): number {
+  return massKg * gNPerKg;
+}
+
+/**
+ * Standard uncertainty in cm of one ruler reading rounded to the nearest mark of the given
+ * resolution (cm): resolution ÷ (2√3) — a rectangular distribution of half-width resolution/2
+ * (JCGM 100:2008, the GUM, §F.2.2.1). Classroom practice often quotes "± half a mark" instead
+ * (common practice, no source); pass that to deformationUncertaintyCm if a lesson prefers it.
+ */
+export function readingUncertaintyCm(resolutionCm: number): number {
+  return resolutionCm / (2 * Math.sqrt(3));
+}
+
+/**
+ * Uncertainty in cm of a deformation found from two ruler readings, each with uncertainty
+ * u (cm): √2·u — the two independent reading uncertainties add in quadrature (GUM §5.1.2 with
+ * sensitivity coefficients ±1).
+ */
+export function deformationUncertaintyCm(readingUncertaintyCmValue: number): number {
+  return Math.SQRT2 * readingUncertaintyCmValue;
+}
+
+export interface StiffnessWithUncertainty {
+  /** N/cm */
+  stiffnessNPerCm: number;
+  /** N/cm, same kind of uncertainty as the inputs (standard or half-range) */
+  uncertaintyNPerCm: number;
+  /** the relative uncertainty, a plain number (0.05 = 5 %) */
+  relativeUncertainty: number;
+}
+
+/**
+ * Stiffness in N/cm with its uncertainty, from force F ± u_F (N) and deformation d ± u_d (cm):
+ * for a quotient the relative uncertainties add in quadrature, u_k/k = √((u_F/F)² + (u_d/d)²)
+ * (GUM §5.1.6, uncorrelated inputs). Null when F or d is 0 (no relative uncertainty exists).
+ */
+export function stiffnessWithUncertainty(
+  forceN: number,
+  forceUncertaintyN: number,
+  deformationCmValue: number,
+  deformationUncertaintyCmValue: number,
+): StiffnessWithUncertainty | null {
+  if (forceN === 0 || deformationCmValue === 0) return null;
+  const k = forceN / deformationCmValue;
+  const rel = Math.hypot(forceUncertaintyN / forceN, deformationUncertaintyCmValue / deformationCmValue);
+  if (!Number.isFinite(k) || !Number.isFinite(rel)) return null;
+  return { stiffnessNPerCm: k, uncertaintyNPerCm: Math.abs(k) * rel, relativeUncertainty: rel };
+}
+
+// ───────────────────────────────────── 9. design check ─────────────────────────────────────
+
+/** How several strips are combined: loose side by side (n × stiffness) or glued into one stack (n³ ×). */
+export type BundleArrangement = "side-by-side" | "glued-stack";
+
+/** A design to check, all SI: Pa, m, N. */
+export interface DesignCheckInput {
+  /** the material's Young's modulus, Pa */
+  youngsModulusPa: number;
+  /** one strip's width, m */
+  stripWidthM: number;
+  /** one strip's thickness (in the bending direction), m */
+  stripThicknessM: number;
+  /** distance between the supports, m */
+  spanM: number;
+  /** how many strips (a whole number ≥ 1) */
+  stripCount: number;
+  arrangement: BundleArrangement;
+  /** the load at midspan, N */
+  loadN: number;
+  /** the largest deflection allowed, m */
+  deflectionLimitM: number;
+  /** ≥ 1: the load is multiplied by this before checking */
+  safetyFactor: number;
+}
+
+export interface DesignCheckResult {
+  passes: boolean;
+  /** m⁴: second moment of area of the whole bundle */
+  secondMomentM4: number | null;
+  /** N/m: midspan stiffness of the bundle */
+  stiffnessNPerM: number | null;
+  /** N: load × safety factor */
+  factoredLoadN: number | null;
+  /** m: midspan deflection at the factored load */
+  deflectionAtFactoredLoadM: number | null;
+  /** m: deflection limit − deflection at factored load (negative when the design fails) */
+  marginM: number | null;
+  /** what is wrong with the input, in plain words; empty when the input was usable */
+  problems: string[];
+}
+
+/**
+ * Design check (SI: Pa, m, N): does this material and bundle keep the midspan deflection of a
+ * simply supported beam under the limit at the load × safety factor? Side by side: I = n·b·h³/12;
+ * glued stack: I = b·(n·h)³/12. Never throws: bad input gives passes = false and `problems`.
+ */
+export function designCheck(input: DesignCheckInput): DesignCheckResult {
+  const problems: string[] = [];
+  const positive: [string, number][] = [
+    ["Young's modulus", input.youngsModulusPa],
+    ["strip width", input.stripWidthM],
+    ["strip thickness", input.stripThicknessM],
+    ["span", input.spanM],
+    ["deflection limit", input.deflectionLimitM],
+  ];
+  for (const [name, value] of positive) {
+    if (!(typeof value === "number" && Number.isFinite(value) && value > 0)) problems.push(`${name} must be a number above 0`);
+  }
+  if (!(Number.isInteger(input.stripCount) && input.stripCount >= 1)) problems.push("number of strips must be a whole number, 1 or more");
+  if (!(typeof input.loadN === "number" && Number.isFinite(input.loadN) && input.loadN >= 0)) problems.push("load must be a number, 0 or more");
+  if (!(typeof input.safetyFactor === "number" && Number.isFinite(input.safetyFactor) && input.safetyFactor >= 1)) {
+    problems.push("safety factor must be a number, 1 or more");
+  }
+  if (input.arrangement !== "side-by-side" && input.arrangement !== "glued-stack") {
+    problems.push('arrangement must be "side-by-side" or "glued-stack"');
+  }
+  if (problems.length > 0) {
+    return {
+      passes: false,
+      secondMomentM4: null,
+      stiffnessNPerM: null,
+      factoredLoadN: null,
+      deflectionAtFactoredLoadM: null,
+      marginM: null,
+      problems,
+    };
+  }
+
+  const n = input.stripCount;
+  const I =
+    input.arrangement === "side-by-side"
+      ? n * secondMomentRectangleM4(input.stripWidthM, input.stripThicknessM)
+      : secondMomentRectangleM4(input.stripWidthM, n * input.stripThicknessM);
+  const factoredLoadN = input.loadN * input.safetyFactor;
+  const stiffness = beamStiffnessNPerM(input.spanM, input.youngsModulusPa, I);
+  const deflection = factoredLoadN / stiffness;
+  const margin = input.deflectionLimitM - deflection;
+  const values = [I, stiffness, factoredLoadN, deflection, margin];
+  if (values.some((v) => !Number.isFinite(v))) {
+    return {
+      passes: false,
+      secondMomentM4: finiteOrNull(I),
+      stiffnessNPerM: finiteOrNull(stiffness),
+      factoredLoadN: finiteOrNull(factoredLoadN),
+      deflectionAtFactoredLoadM: finiteOrNull(deflection),
+      marginM: finiteOrNull(margin),
+      problems: ["the numbers are too large or too small to compute with"],
+    };
+  }
+  return {
+    passes: deflection <= input.deflectionLimitM,
+    secondMomentM4: I,
+    stiffnessNPerM: stiffness,
+    factoredLoadN,
+    deflectionAtFactoredLoadM: deflection,
+    marginM: margin,
+    problems: [],
+  };
+}
+
+// ─────────────────────── 10. analyseReadings — the POST /api/analysis contract ───────────────────────
+
+/** One loading step as a student records it (force N, readings and deformation cm). */
+export interface ReadingPoint {
+  forceN: number;
+  /** the loaded ruler reading; or give deformationCm instead */
+  readingCm?: number;
+  deformationCm?: number;
+  /** the reading after this load was removed */
+  returnReadingCm?: number;
+  broke?: boolean;
+}
+
+/** The validated body of `POST /api/analysis` (see analysisRequestSchema in analysis-request.ts). */
+export interface AnalysisInput {
+  mode: Mode;
+  /** needed when any point gives readingCm or returnReadingCm */
+  unloadedCm?: number;
+  /** the smallest step the ruler is read to, cm (> 0) */
+  resolutionCm: number;
+  points: readonly ReadingPoint[];
+}
+
+/** One point of the answer. `deformationCm` is null only when it cannot be computed (no unloaded reading). */
+export interface AnalysedPoint {
+  forceN: number;
+  deformationCm: number | null;
+  /** null when the deformation is 0 (or unknown) */
+  stiffnessNPerCm: number | null;
+  /** null without returnReadingCm */
+  permanentSetCm: number | null;
+}
+
+/**
+ * The answer of `POST /api/analysis`. Numeric fit fields are `number | null`: null where the data
+ * cannot give a value (too few points, all deformations 0, ...), and a note says why.
+ */
+export interface AnalysisResult {
+  points: AnalysedPoint[];
+  fit: {
+    throughOrigin: { slope: number | null; slopeSE: number | null; residualSD: number | null; r2: number | null };
+    withIntercept: {
+      slope: number | null;
+      intercept: number | null;
+      slopeSE: number | null;
+      interceptSE: number | null;
+      residualSD: number | null;
+      r2: number | null;
+    };
+  };
+  proportional: boolean;
+  elasticLimitN: number | null;
+  breakingLoadN: number | null;
+  notes: string[];
+}
+
+/**
+ * Analyse a series of readings (force N, readings cm, resolution cm; slopes in N/cm) exactly as
+ * `POST /api/analysis` answers. Input is assumed validated by analysisRequestSchema, but the
+ * function still never throws and never returns NaN: impossible values are null, with a note.
+ * Points marked broke are left out of the fits. When a point gives both readingCm and
+ * deformationCm, the reading (the raw record) wins and a note flags any disagreement.
+ */
+export function analyseReadings(input: AnalysisInput): AnalysisResult {
+  const notes: string[] = [];
+  const mode: Mode = input.mode === "stretch" ? "stretch" : "bend";
+  const resolution = Number.isFinite(input.resolutionCm) && input.resolutionCm > 0 ? input.resolutionCm : 0.1;
+  const unloaded = typeof input.unloadedCm === "number" && Number.isFinite(input.unloadedCm) ? input.unloadedCm : null;
+  const raw = Array.isArray(input.points) ? input.points : [];
+
+  // Per point: deformation, stiffness of that reading, permanent set.
+  const points: AnalysedPoint[] = [];
+  let missingUnloaded = false;
+  for (const p of raw) {
+    let deformation: number | null = null;
+    if (typeof p.readingCm === "number" && Number.isFinite(p.readingCm)) {
+      if (unloaded === null) missingUnloaded = true;
+      else {
+        deformation = finiteOrNull(deformationCm(mode, unloaded, p.readingCm));
+        if (
+          deformation !== null &&
+          typeof p.deformationCm === "number" &&
+          Number.isFinite(p.deformationCm) &&
+          !withinResolution(p.deformationCm - deformation, resolution)
+        ) {
+          notes.push(
+            `At ${formatGiven(p.forceN, "N")} the deformation you gave (${formatGiven(p.deformationCm, "cm")}) does not match the readings (${formatGiven(deformation, "cm")}); the readings were used.`,
+          );
+        }
+      }
+    }
+    if (deformation === null && typeof p.deformationCm === "number") deformation = finiteOrNull(p.deformationCm);
+    let set: number | null = null;
+    if (typeof p.returnReadingCm === "number" && Number.isFinite(p.returnReadingCm)) {
+      if (unloaded === null) missingUnloaded = true;
+      else set = finiteOrNull(permanentSetCm(mode, unloaded, p.returnReadingCm));
+    }
+    // Validation guarantees a finite force ≥ 0; anything else is read as 0 rather than passed on.
+    const force = finiteOrNull(p.forceN) ?? 0;
+    points.push({
+      forceN: force,
+      deformationCm: deformation,
+      stiffnessNPerCm: deformation === null ? null : stiffnessNPerCm(force, deformation),
+      permanentSetCm: set,
+    });
+  }
+  if (missingUnloaded) {
+    notes.push("Some points give ruler readings but there is no unloaded reading, so their deformation or permanent set cannot be found.");
+  }
+
+  // Breaking load; broke points stay out of the fits.
+  const steps = raw.map((p, i) => ({ forceN: points[i].forceN, broke: p.broke === true, permanentSetCm: points[i].permanentSetCm }));
+  const breaking = breakingLoadN(steps);
+  const brokeCount = steps.filter((s) => s.broke).length;
+  if (breaking !== null) {
+    notes.push(
+      `The piece broke at ${formatGiven(breaking, "N")}: the breaking load. ${brokeCount === 1 ? "That point is" : `The ${brokeCount} points marked broke are`} left out of the fits.`,
+    );
+    const firstBreak = steps.findIndex((s) => s.broke);
+    if (steps.slice(firstBreak + 1).some((s) => !s.broke)) {
+      notes.push("Some points come after the break but are not marked broke; check the order of the readings.");
+    }
+  }
+
+  const fitPoints: ForceDeformation[] = [];
+  points.forEach((p, i) => {
+    if (!steps[i].broke && p.deformationCm !== null) fitPoints.push({ forceN: p.forceN, deformationCm: p.deformationCm });
+  });
+  const zeroDeformation = points.filter((p, i) => !steps[i].broke && p.deformationCm === 0 && p.forceN !== 0);
+  if (zeroDeformation.length > 0) {
+    notes.push(
+      `At ${zeroDeformation.map((p) => formatGiven(p.forceN, "N")).join(", ")} the deformation is 0, so that reading alone gives no stiffness.`,
+    );
+  }
+
+  // One point is not a series: with fewer than two, both fits stay empty (all null).
+  const series = fitPoints.length >= 2 ? fitPoints : [];
+  const origin = fitThroughOrigin(series);
+  const free = fitWithIntercept(series);
+  if (fitPoints.length < 2) {
+    notes.push("Fewer than two unbroken points have a deformation, so no line can be fitted. Add more loads.");
+  } else if (origin.slope === null) {
+    notes.push("Every deformation is 0, so no stiffness can be found: the piece did not move at the ruler's resolution.");
+  } else {
+    notes.push(`Stiffness from the line through the origin: ${formatForStudent(origin.slope, "N/cm")}.`);
+    if (free.slope === null) {
+      notes.push("All the deformations are the same, so a line with a free intercept cannot be fitted.");
+    } else if (free.slopeSE === null) {
+      notes.push("With only two points the standard errors and residual standard deviation of the line with a free intercept cannot be found; at least three are needed.");
+    }
+    if (free.slope !== null && free.intercept !== null) {
+      notes.push(
+        `The line with a free intercept has slope ${formatForStudent(free.slope, "N/cm")} and meets zero deformation at ${formatForStudent(free.intercept, "N")}.`,
+      );
+    }
+  }
+
+  const verdict = proportionalityVerdict(fitPoints, resolution);
+  notes.push(verdict.reason);
+
+  const limit = elasticLimit(steps, resolution);
+  const anyReturn = points.some((p) => p.permanentSetCm !== null);
+  if (anyReturn) {
+    if (limit.firstPermanentSetAtN !== null && limit.firstPermanentSetCm !== null) {
+      notes.push(
+        `After ${formatGiven(limit.firstPermanentSetAtN, "N")} the piece did not come back: a permanent set of ${formatGiven(limit.firstPermanentSetCm, "cm")}, more than one ruler step.`,
+      );
+    }
+    notes.push(
+      limit.elasticLimitN === null
+        ? "The piece never came back within one ruler step, so the elastic limit is below the smallest load tested."
+        : `Elastic limit: the piece came back within one ruler step after every load up to ${formatGiven(limit.elasticLimitN, "N")}.`,
+    );
+  }
+
+  return {
+    points,
+    fit: {
+      throughOrigin: { slope: origin.slope, slopeSE: origin.slopeSE, residualSD: origin.residualSD, r2: origin.r2 },
+      withIntercept: {
+        slope: free.slope,
+        intercept: free.intercept,
+        slopeSE: free.slopeSE,
+        interceptSE: free.interceptSE,
+        residualSD: free.residualSD,
+        r2: free.r2,
+      },
+    },
+    proportional: verdict.proportional,
+    elasticLimitN: limit.elasticLimitN,
+    breakingLoadN: breaking,
+    notes,
+  };
+}
