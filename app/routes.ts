@@ -4,8 +4,25 @@ import { type RouteConfig, index, route } from "@react-router/dev/routes";
 export default [
   index("routes/home.tsx"),
   route("healthz", "routes/healthz.ts"),
+  // Sign-in, homes and Auth.js's own endpoints
+  route("auth/*", "routes/auth.$.ts"),
+  route("sign-in", "routes/sign-in.tsx"),
+  route("sign-in/link", "routes/sign-in.link.tsx"),
+  route("sign-out", "routes/sign-out.tsx"),
+  route("reset-password", "routes/reset-password.tsx"),
+  route("reset-password/:token", "routes/reset-password.$token.tsx"),
+  route("learn", "routes/learn.tsx"),
+  route("teach", "routes/teach.tsx"),
+  route("teach/classes/:classId", "routes/teach.classes.$classId.tsx"),
+  route("school", "routes/school.tsx"),
+  route("family", "routes/family.tsx"),
   // The course
   route("learn/:slug", "routes/learn.lesson.tsx"),
   route("lesson-code/:file", "routes/lesson-code.ts"),
   route("photos/:id", "routes/photos.ts"),
+  // Open to everyone
+  route("api/analysis", "routes/api.analysis.ts"),
+  route("tools/analyse", "routes/tools.analyse.tsx"),
+  // Seats and payments
+  route("api/payments/webhook", "routes/api.payments.webhook.ts"),
 ] satisfies RouteConfig;

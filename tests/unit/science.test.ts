@@ -2,7 +2,6 @@
  * Unit tests of app/lib/science.ts, checked against outside sources where one exists (each named
  * beside its test). Readings marked "invented" are made up for the test, not measured.
  */
-import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import {
   G_N_PER_KG,
@@ -35,42 +34,9 @@ import {
   type AnalysisResult,
   type DesignCheckInput,
 } from "../../app/lib/science";
+import { readStrd } from "../fixtures/nist-strd";
 
 // ─────────────── NIST StRD fixtures: parsed from the files, nothing typed in by hand ───────────────
-
-interface StrdDataset {
-  x: number[];
-  y: number[];
-  /** certified estimate and standard deviation per parameter name (B0, B1) */
-  parameters: Record<string, { estimate: number; sd: number }>;
-  residualSD: number;
-  r2: number;
-}
-
-/**
- * Reads a NIST StRD linear-regression .dat file: the data section from the line range the header
- * names ("Data (lines 61 to 96)"), the certified values from the header's own lines.
- */
-function readStrd(name: string): StrdDataset {
-  const text = readFileSync(new URL(`../fixtures/nist-strd/${name}`, import.meta.url), "latin1");
-  const lines = text.split(/\r?\n/);
-  const range = /Data\s+\(lines (\d+) to (\d+)\)/.exec(text);
-  if (!range) throw new Error(`${name}: no data line range in the header`);
-  const x: number[] = [];
-  const y: number[] = [];
-  for (let i = Number(range[1]); i <= Number(range[2]); i++) {
-    const [yy, xx] = lines[i - 1].trim().split(/\s+/).map(Number);
-    y.push(yy);
-    x.push(xx);
-  }
-  const parameters: StrdDataset["parameters"] = {};
-  for (const m of text.matchAll(/^\s+(B\d)\s+(\S+)\s+(\S+)\s*$/gm)) {
-    parameters[m[1]] = { estimate: Number(m[2]), sd: Number(m[3]) };
-  }
-  const residualSD = Number(/Standard Deviation\s+([-+.\dE]+)\s*$/m.exec(text)?.[1]);
-  const r2 = Number(/R-Squared\s+([-+.\dE]+)/.exec(text)?.[1]);
-  return { x, y, parameters, residualSD, r2 };
-}
 
 /** |actual − certified| ≤ 1e-9 × |certified| */
 function expectRelative(actual: number | null, certified: number, rel = 1e-9): void {

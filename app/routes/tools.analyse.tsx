@@ -1,0 +1,195 @@
+// /tools/analyse — anyone can paste or type a table of readings and see the same analysis as
+// POST /api/analysis: deformations, stiffness of each reading, both fitted lines, the verdict, a chart.
+import { data, Form, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/tools.analyse";
+import { db } from "~/db/client.server";
+import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
+import { assertSameOrigin } from "~/lib/auth.server";
+import { clientAddress } from "~/lib/auth/throttle.server";
+import { parseAnalysisRequest } from "~/lib/analysis-request";
+import { hitRateLimit } from "~/lib/rate-limit.server";
+import { parseReadingsText } from "~/lib/readings-text";
+import { analyseReadings, formatForStudent, type AnalysisResult } from "~/lib/science";
+import { ANALYSIS_REQUESTS_PER_MINUTE } from "./api.analysis";
+
+const formSchema = z.object({
+  mode: z.enum(["bend", "stretch"]).default("bend"),
+  secondColumn: z.enum(["reading", "deformation"]).default("reading"),
+  unloadedCm: z.string().max(40).default(""),
+  resolutionCm: z.string().max(40).default("0.1"),
+  readings: z.string().max(60_000, "That is too much text: paste at most 1000 lines.").default(""),
+});
+type FormValues = z.infer<typeof formSchema>;
+
+const EXAMPLE = `force (N), loaded reading (cm)
+0, 21.0
+1, 20.6
+2, 20.1
+3, 19.7
+4, 19.2
+5, 18.8`;
+
+export async function action({ request }: Route.ActionArgs) {
+  assertSameOrigin(request);
+  const limit = await hitRateLimit({ db }, `analysis:${clientAddress(request)}`, ANALYSIS_REQUESTS_PER_MINUTE);
+  const parsed = formSchema.safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) return data({ values: null, problems: parsed.error.issues.map((i) => i.message), analysis: null }, { status: 400 });
+  const values = parsed.data;
+  if (!limit.allowed) {
+    return data({ values, problems: [`Too many analyses from here: try again in ${limit.retryAfter} seconds.`], analysis: null }, { status: 429 });
+  }
+  const { points, problems } = parseReadingsText(values.readings, values.secondColumn);
+  const unloaded = values.unloadedCm.trim() === "" ? undefined : Number(values.unloadedCm.replace(",", "."));
+  if (values.secondColumn === "reading" && unloaded === undefined) problems.push("Give the unloaded reading: deformations are worked out from it.");
+  if (unloaded !== undefined && !Number.isFinite(unloaded)) problems.push(`The unloaded reading “${values.unloadedCm}” is not a number.`);
+  const checked = parseAnalysisRequest({
+    mode: values.mode,
+    unloadedCm: unloaded,
+    resolutionCm: Number(values.resolutionCm.replace(",", ".")),
+    points,
+  });
+  if (problems.length > 0 || !checked.ok) {
+    const all = [...problems, ...(checked.ok ? [] : checked.errors.map((e) => e.replace(/points\[(\d+)\]\.?/, (_m, i) => `Line with the ${Number(i) + 1}. reading, `)))];
+    return data({ values, problems: all, analysis: null }, { status: 400 });
+  }
+  return { values, problems: [] as string[], analysis: analyseReadings(checked.data) };
+}
+
+export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
+  const values: FormValues = actionData?.values ?? { mode: "bend", secondColumn: "reading", unloadedCm: "21.0", resolutionCm: "0.1", readings: EXAMPLE };
+  const analysis = actionData?.analysis ?? null;
+  const busy = useNavigation().state !== "idle";
+  return (
+    <div className="mx-auto max-w-5xl px-5 py-10">
+      <h1 className="mb-2 text-[length:var(--text-step-3)]">Analyse your readings</h1>
+      <p className="prose-reading mb-6 text-ink-soft">
+        Paste or type one loading step per line: the force in newtons, then the ruler reading in centimetres, and — if you
+        took them — the reading after the load came off and the word “broke” where the piece broke. Nothing you type here is saved.
+      </p>
+      <Form method="post" className="card mb-8 grid gap-4 font-ui print:hidden md:grid-cols-2">
+        <label className="block md:row-span-4">
+          <span className="mb-1 block font-bold">Readings</span>
+          <textarea name="readings" rows={12} className="field font-mono" defaultValue={values.readings} spellCheck={false} />
+        </label>
+        <fieldset>
+          <legend className="mb-1 font-bold">What happens to the piece?</legend>
+          <label className="mr-4 inline-flex items-center gap-2">
+            <input type="radio" name="mode" value="bend" defaultChecked={values.mode === "bend"} className="h-5 w-5" /> It bends (reading goes down)
+          </label>
+          <label className="inline-flex items-center gap-2">
+            <input type="radio" name="mode" value="stretch" defaultChecked={values.mode === "stretch"} className="h-5 w-5" /> It stretches (length goes up)
+          </label>
+        </fieldset>
+        <fieldset>
+          <legend className="mb-1 font-bold">The second column is</legend>
+          <label className="mr-4 inline-flex items-center gap-2">
+            <input type="radio" name="secondColumn" value="reading" defaultChecked={values.secondColumn === "reading"} className="h-5 w-5" /> the ruler reading
+          </label>
+          <label className="inline-flex items-center gap-2">
+            <input type="radio" name="secondColumn" value="deformation" defaultChecked={values.secondColumn === "deformation"} className="h-5 w-5" /> the deformation
+          </label>
+        </fieldset>
+        <div className="grid grid-cols-2 gap-3">
+          <label className="block">
+            <span className="mb-1 block font-bold">Unloaded reading (cm)</span>
+            <input name="unloadedCm" className="field" inputMode="decimal" defaultValue={values.unloadedCm} />
+          </label>
+          <label className="block">
+            <span className="mb-1 block font-bold">Ruler read to (cm)</span>
+            <input name="resolutionCm" className="field" inputMode="decimal" defaultValue={values.resolutionCm} />
+          </label>
+        </div>
+        <div>
+          <button type="submit" className="btn" disabled={busy}>
+            {busy ? "Working it out…" : "Analyse"}
+          </button>
+        </div>
+      </Form>
+      {actionData && actionData.problems.length > 0 && (
+        <div role="alert" className="mb-8 rounded bg-ember-wash p-4 font-ui">
+          <p className="font-bold text-danger">Please fix these and try again:</p>
+          <ul className="list-disc pl-5">
+            {actionData.problems.map((p) => (
+              <li key={p}>{p}</li>
+            ))}
+          </ul>
+        </div>
+      )}
+      {analysis && <AnalysisReport analysis={analysis} />}
+    </div>
+  );
+}
+
+function AnalysisReport({ analysis }: { analysis: AnalysisResult }) {
+  const origin = analysis.fit.throughOrigin;
+  const free = analysis.fit.withIntercept;
+  const show = (v: number | null, unit = "", sig = 4) => (v === null ? "—" : formatForStudent(v, unit, sig));
+  return (
+    <section aria-labelledby="results" className="font-ui" data-testid="analysis-report">
+      <div className="mb-4 flex flex-wrap items-center justify-between gap-3">
+        <h2 id="results" className="text-[length:var(--text-step-2)]">What the readings say</h2>
+        <PrintButton />
+      </div>
+      <div className="grid gap-6 md:grid-cols-2">
+        <div>
+          <table className="mb-4 w-full border-collapse">
+            <caption className="mb-1 text-left font-bold">Each reading</caption>
+            <thead>
+              <tr>
+                <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Force (N)</th>
+                <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Deformation (cm)</th>
+                <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Stiffness (N/cm)</th>
+                <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Permanent set (cm)</th>
+              </tr>
+            </thead>
+            <tbody>
+              {analysis.points.map((p, i) => (
+                <tr key={i}>
+                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.forceN)}</td>
+                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.deformationCm)}</td>
+                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.stiffnessNPerCm)}</td>
+                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.permanentSetCm)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1">
+            <dt className="font-bold">Stiffness, line through the origin</dt>
+            <dd data-testid="slope-through-origin">{show(origin.slope, "N/cm")} (± {show(origin.slopeSE, "", 2)})</dd>
+            <dt className="font-bold">R² (through the origin)</dt>
+            <dd>{show(origin.r2, "", 5)}</dd>
+            <dt className="font-bold">Line with an intercept</dt>
+            <dd>slope {show(free.slope, "N/cm")}, intercept {show(free.intercept, "N")} (± {show(free.interceptSE, "", 2)})</dd>
+            <dt className="font-bold">R² (with intercept)</dt>
+            <dd>{show(free.r2, "", 5)}</dd>
+            <dt className="font-bold">Proportional?</dt>
+            <dd data-testid="proportional">{analysis.proportional ? "Yes" : "No"}</dd>
+            <dt className="font-bold">Elastic limit</dt>
+            <dd>{analysis.elasticLimitN === null ? "not found in these readings" : show(analysis.elasticLimitN, "N")}</dd>
+            <dt className="font-bold">Breaking load</dt>
+            <dd>{analysis.breakingLoadN === null ? "did not break" : show(analysis.breakingLoadN, "N")}</dd>
+          </dl>
+          {analysis.notes.length > 0 && (
+            <ul className="mt-4 list-disc pl-5">
+              {analysis.notes.map((n) => (
+                <li key={n}>{n}</li>
+              ))}
+            </ul>
+          )}
+        </div>
+        <ForceChartFromAnalysis analysis={analysis} title="Force against deformation" />
+      </div>
+    </section>
+  );
+}
+
+function PrintButton() {
+  return (
+    <button type="button" className="btn btn-quiet print:hidden" onClick={() => window.print()}>
+      Print this analysis
+    </button>
+  );
+}
+
+export const meta: Route.MetaFunction = () => [{ title: "Analyse your readings — Bendwise" }];
