@@ -6,7 +6,7 @@ import { drizzle } from "drizzle-orm/postgres-js";
 import postgres from "postgres";
 import { hashPassword } from "~/lib/passwords.server";
 import * as schema from "~/db/schema.server";
-import { classes, enrollments, memberships, organisations, seatPurchases, users } from "~/db/schema.server";
+import { classes, enrollments, memberships, organisations, seatAssignments, seatPurchases, users } from "~/db/schema.server";
 import type { Role } from "~/db/schema.server";
 
 type Db = PostgresJsDatabase<typeof schema>;
@@ -87,6 +87,9 @@ async function upsertClass(db: Db, values: typeof classes.$inferInsert) {
 
 async function enroll(db: Db, classId: string, studentId: string) {
   await db.insert(enrollments).values({ classId, studentId }).onConflictDoNothing();
+  // An enrolled student holds one of the school's seats for the class's school year.
+  const [klass] = await db.select({ organisationId: classes.organisationId, schoolYear: classes.schoolYear }).from(classes).where(eq(classes.id, classId));
+  await db.insert(seatAssignments).values({ ...klass, studentId }).onConflictDoNothing();
 }
 
 async function demoPurchase(db: Db, values: typeof seatPurchases.$inferInsert) {
@@ -146,6 +149,7 @@ export async function seedDemo(db: Db) {
   for (const [displayName, username, band] of [["Juno", "juno", "6-8"], ["Mika", "mika", "9-10"]] as const) {
     const child = await upsertChild(db, household.id, username, displayName, band, studentHash);
     await grant(db, child.id, household.id, "student");
+    await db.insert(seatAssignments).values({ organisationId: household.id, schoolYear: DEMO_SCHOOL_YEAR, studentId: child.id }).onConflictDoNothing();
   }
   await demoPurchase(db, {
     organisationId: household.id, schoolYear: DEMO_SCHOOL_YEAR, seats: 2, amountCents: 2 * 1400,
