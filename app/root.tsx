@@ -7,10 +7,18 @@ import "./app.css";
 
 import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
-import { SiteFooter, SiteHeader } from "~/components/site-chrome";
+import { SiteFooter, SiteHeader, type HeaderAccount } from "~/components/site-chrome";
+import { getUser, homesFor } from "~/lib/auth.server";
 import { useNonce } from "~/lib/nonce";
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
+
+/** Who is signed in, for the header: a display name and their homes. Nothing more goes to every page. */
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await getUser(request);
+  const account: HeaderAccount | null = user ? { displayName: user.displayName, homes: homesFor(user) } : null;
+  return { account };
+}
 
 export function Layout({ children }: { children: React.ReactNode }) {
   const nonce = useNonce();

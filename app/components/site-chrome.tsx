@@ -1,8 +1,37 @@
 // The header and footer around every page.
-import { Link } from "react-router";
+import { Form, Link, NavLink, useRouteLoaderData } from "react-router";
 import { BrandMark } from "./brand-mark";
 
+/** What the root loader tells the header about the signed-in person. */
+export interface HeaderAccount {
+  displayName: string;
+  homes: { path: string; label: string }[];
+}
+
+/** The signed-in person's homes, name and a sign-out button; a plain form post, so it works without JavaScript. */
+function AccountNav({ account }: { account: HeaderAccount }) {
+  return (
+    <>
+      {account.homes.map((home) => (
+        <NavLink key={home.path} to={home.path} className={({ isActive }) => (isActive ? "font-bold no-underline" : undefined)}>
+          {home.label}
+        </NavLink>
+      ))}
+      <span className="text-ink-soft">
+        Signed in as <strong className="text-ink">{account.displayName}</strong>
+      </span>
+      <Form method="post" action="/sign-out">
+        <input type="hidden" name="intent" value="here" />
+        <button type="submit" className="btn btn-quiet">
+          Sign out
+        </button>
+      </Form>
+    </>
+  );
+}
+
 export function SiteHeader({ children }: { children?: React.ReactNode }) {
+  const account = (useRouteLoaderData("root") as { account?: HeaderAccount | null } | undefined)?.account ?? null;
   return (
     <header className="border-b border-rule bg-paper">
       <div className="mx-auto flex max-w-6xl flex-wrap items-center justify-between gap-3 px-5 py-3">
@@ -11,15 +40,18 @@ export function SiteHeader({ children }: { children?: React.ReactNode }) {
           <span className="font-reading text-[length:var(--text-step-1)] font-semibold tracking-tight">Bendwise</span>
         </Link>
         <nav aria-label="Main" className="flex flex-wrap items-center gap-4 text-[length:var(--text-step--1)]">
-          {children ?? (
-            <>
-              <Link to="/tools/analyse">Analyse readings</Link>
-              <Link to="/#pricing">Pricing</Link>
-              <Link to="/sign-in" className="btn">
-                Sign in
-              </Link>
-            </>
-          )}
+          {children ??
+            (account ? (
+              <AccountNav account={account} />
+            ) : (
+              <>
+                <Link to="/tools/analyse">Analyse readings</Link>
+                <Link to="/#pricing">Pricing</Link>
+                <Link to="/sign-in" className="btn">
+                  Sign in
+                </Link>
+              </>
+            ))}
         </nav>
       </div>
     </header>

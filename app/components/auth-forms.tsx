@@ -1,0 +1,56 @@
+// Small pieces shared by the sign-in, sign-in link and password pages.
+import { useEffect, useId, useState } from "react";
+
+/** A labelled input with its error message tied to it for screen readers. */
+export function Field({
+  label,
+  hint,
+  error,
+  ...input
+}: { label: string; hint?: string; error?: string } & React.InputHTMLAttributes<HTMLInputElement> & { name: string }) {
+  const id = useId();
+  const hintId = `${id}-hint`;
+  const errorId = `${id}-error`;
+  const describedBy = [hint ? hintId : null, error ? errorId : null].filter(Boolean).join(" ") || undefined;
+  return (
+    <div className="mb-4">
+      <label htmlFor={id} className="mb-1 block font-bold">
+        {label}
+      </label>
+      {hint ? (
+        <p id={hintId} className="mb-1 text-[length:var(--text-step--1)] text-ink-soft">
+          {hint}
+        </p>
+      ) : null}
+      <input id={id} className="field" aria-invalid={error ? true : undefined} aria-describedby={describedBy} {...input} />
+      {error ? (
+        <p id={errorId} className="mt-1 text-[length:var(--text-step--1)] font-bold text-danger">
+          {error}
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
+/** A message box: "problem" for refusals, "done" for confirmations. */
+export function Notice({ tone, children }: { tone: "problem" | "done" | "info"; children: React.ReactNode }) {
+  const styles = {
+    problem: "border-danger bg-[#fdecee] text-ink",
+    done: "border-ok bg-[#e7f3ea] text-ink",
+    info: "border-spruce bg-spruce-wash text-ink",
+  }[tone];
+  return (
+    <div role={tone === "problem" ? "alert" : "status"} className={`mb-4 rounded-lg border-l-4 px-4 py-3 ${styles}`}>
+      {children}
+    </div>
+  );
+}
+
+/** A clock time: UTC from the server, the reader's own time zone once the page is live. */
+export function ClockTime({ iso }: { iso: string }) {
+  const [text, setText] = useState(() => `${new Date(iso).toISOString().slice(11, 16)} UTC`);
+  useEffect(() => {
+    setText(new Date(iso).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit", second: "2-digit" }));
+  }, [iso]);
+  return <time dateTime={iso}>{text}</time>;
+}

@@ -1,0 +1,75 @@
+// Every e-mail Bendwise sends goes through `sendMail`. Today it hands the message straight to the SMTP
+// server in SMTP_URL (the local catcher in development and tests); a later change puts a
+// PostgreSQL-backed queue behind this same function, so callers keep calling it as they do now.
+import nodemailer, { type Transporter } from "nodemailer";
+import { serverEnv } from "~/env.server";
+
+export interface OutgoingMail {
+  to: string;
+  subject: string;
+  /** Plain text, for every mail reader and for screen readers that prefer it. */
+  text: string;
+  html: string;
+}
+
+let transport: Transporter | undefined;
+
+function transporter(): Transporter {
+  transport ??= nodemailer.createTransport(serverEnv().SMTP_URL);
+  return transport;
+}
+
+export async function sendMail(mail: OutgoingMail): Promise<void> {
+  await transporter().sendMail({ from: serverEnv().MAIL_FROM, ...mail });
+}
+
+const escapeHtml = (s: string) =>
+  s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;").replace(/'/g, "&#39;");
+
+/**
+ * Bendwise's look for e-mail: paper background, the Literata-style serif heading, one spruce button,
+ * and the same words in plain text. Styles are inline because mail readers drop style sheets.
+ */
+export function renderEmail(parts: {
+  heading: string;
+  paragraphs: string[];
+  button?: { label: string; url: string };
+  /** Small print under the button, e.g. why this mail came and what to do if it was not asked for. */
+  footnote?: string;
+}): { text: string; html: string } {
+  const { heading, paragraphs, button, footnote } = parts;
+  const text = [
+    heading,
+    "",
+    ...paragraphs.flatMap((p) => [p, ""]),
+    ...(button ? [`${button.label}:`, button.url, ""] : []),
+    ...(footnote ? [footnote, ""] : []),
+    "— Bendwise: hands-on labs on how materials stretch, bend and break.",
+  ].join("\n");
+
+  const p = (s: string) =>
+    `<p style="margin:0 0 16px;font-size:17px;line-height:1.55;color:#1c2726">${escapeHtml(s)}</p>`;
+  const html = `<!doctype html>
+<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width,initial-scale=1"><title>${escapeHtml(heading)}</title></head>
+<body style="margin:0;padding:0;background:#fbf8f1;font-family:'Atkinson Hyperlegible','Segoe UI',Arial,sans-serif">
+<table role="presentation" width="100%" cellpadding="0" cellspacing="0" style="background:#fbf8f1"><tr><td align="center" style="padding:24px 12px">
+<table role="presentation" width="100%" cellpadding="0" cellspacing="0" style="max-width:560px;background:#ffffff;border:1px solid #d9d2c3;border-radius:12px">
+<tr><td style="padding:20px 24px;border-bottom:1px solid #d9d2c3">
+<span style="font-family:Literata,Georgia,'Times New Roman',serif;font-size:21px;font-weight:600;color:#0d5c57">Bendwise</span>
+</td></tr>
+<tr><td style="padding:24px">
+<h1 style="margin:0 0 16px;font-family:Literata,Georgia,'Times New Roman',serif;font-size:24px;line-height:1.25;color:#1c2726">${escapeHtml(heading)}</h1>
+${paragraphs.map(p).join("\n")}
+${
+  button
+    ? `<p style="margin:24px 0"><a href="${escapeHtml(button.url)}" style="display:inline-block;background:#0d5c57;color:#ffffff;font-weight:700;text-decoration:none;padding:12px 20px;border-radius:8px">${escapeHtml(button.label)}</a></p>
+<p style="margin:0 0 16px;font-size:14px;line-height:1.5;color:#46524f">If the button does not work, copy this address into your browser:<br><a href="${escapeHtml(button.url)}" style="color:#0d5c57;word-break:break-all">${escapeHtml(button.url)}</a></p>`
+    : ""
+}
+${footnote ? `<p style="margin:16px 0 0;font-size:14px;line-height:1.5;color:#46524f">${escapeHtml(footnote)}</p>` : ""}
+</td></tr>
+<tr><td style="padding:16px 24px;border-top:1px solid #d9d2c3;font-size:13px;color:#46524f">Bendwise — hands-on labs on how materials stretch, bend and break.</td></tr>
+</table></td></tr></table>
+</body></html>`;
+  return { text, html };
+}

@@ -1,0 +1,108 @@
+// /school: a school administrator's home. First version: seats bought and in use per school year,
+// the school's teachers and classes.
+import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
+import type { Route } from "./+types/school";
+import { db } from "~/db/client.server";
+import { classes, memberships, seatPurchases, users } from "~/db/schema.server";
+import { requireRole } from "~/lib/auth.server";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const { user } = await requireRole(request, ["school_admin"]);
+  const schools = user.memberships.filter((m) => m.role === "school_admin");
+  const ids = schools.map((m) => m.organisationId);
+  const [seats, students, teachers, classCounts] = await Promise.all([
+    db
+      .select({ organisationId: seatPurchases.organisationId, schoolYear: seatPurchases.schoolYear, seats: sql<number>`sum(${seatPurchases.seats})::int` })
+      .from(seatPurchases)
+      .where(and(inArray(seatPurchases.organisationId, ids), eq(seatPurchases.status, "paid")))
+      .groupBy(seatPurchases.organisationId, seatPurchases.schoolYear)
+      .orderBy(asc(seatPurchases.schoolYear)),
+    db
+      .select({ organisationId: memberships.organisationId, n: count() })
+      .from(memberships)
+      .where(and(inArray(memberships.organisationId, ids), eq(memberships.role, "student")))
+      .groupBy(memberships.organisationId),
+    db
+      .select({ organisationId: memberships.organisationId, name: users.displayName, email: users.email })
+      .from(memberships)
+      .innerJoin(users, eq(users.id, memberships.userId))
+      .where(and(inArray(memberships.organisationId, ids), eq(memberships.role, "teacher")))
+      .orderBy(asc(users.displayName)),
+    db
+      .select({ organisationId: classes.organisationId, n: count() })
+      .from(classes)
+      .where(inArray(classes.organisationId, ids))
+      .groupBy(classes.organisationId),
+  ]);
+  return {
+    displayName: user.displayName,
+    schools: schools.map((s) => ({
+      id: s.organisationId,
+      name: s.organisationName,
+      seats: seats.filter((r) => r.organisationId === s.organisationId).map(({ schoolYear, seats }) => ({ schoolYear, seats })),
+      students: students.find((r) => r.organisationId === s.organisationId)?.n ?? 0,
+      classes: classCounts.find((r) => r.organisationId === s.organisationId)?.n ?? 0,
+      teachers: teachers.filter((t) => t.organisationId === s.organisationId).map(({ name, email }) => ({ name, email })),
+    })),
+  };
+}
+
+export default function School({ loaderData }: Route.ComponentProps) {
+  const { displayName, schools } = loaderData;
+  return (
+    <div className="mx-auto max-w-5xl px-5 py-12">
+      <p className="mb-1 text-ink-soft">School administrator · {displayName}</p>
+      {schools.map((school) => (
+        <section key={school.id} aria-labelledby={`school-${school.id}`} className="mb-10">
+          <h1 id={`school-${school.id}`} className="mb-6 text-[length:var(--text-step-3)]">
+            {school.name}
+          </h1>
+          <div className="card mb-6">
+            <h2 className="mb-2 text-[length:var(--text-step-1)]">What you can do here</h2>
+            <ul className="list-disc space-y-1 pl-5">
+              <li>See how many student seats your school has bought for each school year, and how many are in use.</li>
+              <li>Soon: buy more seats by card or ask for an invoice, invite teachers, and download receipts.</li>
+            </ul>
+          </div>
+          <div className="grid gap-5 md:grid-cols-3">
+            <div className="card">
+              <h2 className="mb-2 text-[length:var(--text-step-1)]">Seats</h2>
+              {school.seats.length === 0 ? (
+                <p className="text-ink-soft">No seats bought yet.</p>
+              ) : (
+                <ul>
+                  {school.seats.map((s) => (
+                    <li key={s.schoolYear}>
+                      <strong>{s.seats}</strong> seats for {s.schoolYear}
+                    </li>
+                  ))}
+                </ul>
+              )}
+              <p className="mt-2 text-ink-soft">{school.students} students have accounts.</p>
+            </div>
+            <div className="card">
+              <h2 className="mb-2 text-[length:var(--text-step-1)]">Teachers</h2>
+              {school.teachers.length === 0 ? (
+                <p className="text-ink-soft">No teachers yet.</p>
+              ) : (
+                <ul>
+                  {school.teachers.map((t) => (
+                    <li key={t.email ?? t.name}>{t.name}</li>
+                  ))}
+                </ul>
+              )}
+            </div>
+            <div className="card">
+              <h2 className="mb-2 text-[length:var(--text-step-1)]">Classes</h2>
+              <p>
+                <strong>{school.classes}</strong> classes
+              </p>
+            </div>
+          </div>
+        </section>
+      ))}
+    </div>
+  );
+}
+
+export const meta: Route.MetaFunction = () => [{ title: "School — Bendwise" }];

@@ -1,0 +1,231 @@
+// /sign-in: one page, two doors. Adults (school staff, teachers, parents) use their e-mail address;
+// students use the code from their teacher or parent, their username and their password.
+import { Form, Link, data, redirect, useNavigation } from "react-router";
+import type { Route } from "./+types/sign-in";
+import { ClockTime, Field, Notice } from "~/components/auth-forms";
+import { getUser, homePathFor, safeRedirectTo } from "~/lib/auth.server";
+import { adultCredentials, signInThroughAuth, studentCredentials, SignInPaused } from "~/lib/auth/auth-config.server";
+import { assertSameOrigin } from "~/lib/auth/same-origin.server";
+import { loadUser } from "~/lib/auth/session.server";
+import { waitMessage } from "~/lib/auth/throttle.server";
+
+type Door = "adult" | "student";
+
+export type SignInActionData = {
+  door: Door;
+  values: { email?: string; code?: string; username?: string };
+  fieldErrors: Partial<Record<"email" | "code" | "username" | "password", string>>;
+  problem?: string;
+  /** When a wait is running: when it ends (ISO), for the clock time in the message. */
+  waitUntil?: string;
+};
+
+const AUTH_ERROR_MESSAGES: Record<string, string> = {
+  paused: "Too many wrong tries. Wait a few minutes, then try again.",
+  "link-not-valid": "That sign-in link has been used or has run out. Ask for a new one below.",
+};
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const url = new URL(request.url);
+  const user = await getUser(request);
+  // Auth's own endpoints send refusals here as ?error=…&code=….
+  const authError = url.searchParams.get("error");
+  return {
+    signedInAs: user ? { displayName: user.displayName, home: homePathFor(user) } : null,
+    redirectTo: safeRedirectTo(url.searchParams.get("redirectTo")) ?? "",
+    notice:
+      url.searchParams.get("notice") === "password-changed"
+        ? "Your new password is set. Sign in with it below."
+        : null,
+    authProblem: authError
+      ? (AUTH_ERROR_MESSAGES[url.searchParams.get("code") ?? ""] ??
+        "That sign-in did not work. Check what you typed and try again.")
+      : null,
+  };
+}
+
+function firstErrors(issues: { path: PropertyKey[]; message: string }[]) {
+  const errors: Record<string, string> = {};
+  for (const issue of issues) {
+    const key = String(issue.path[0] ?? "form");
+    errors[key] ??= issue.message;
+  }
+  return errors;
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  assertSameOrigin(request);
+  const form = await request.formData();
+  const door: Door = form.get("door") === "student" ? "student" : "adult";
+  const redirectTo = safeRedirectTo(form.get("redirectTo"));
+  const raw = Object.fromEntries([...form.entries()].filter(([, v]) => typeof v === "string")) as Record<string, string>;
+  const values =
+    door === "adult"
+      ? { email: (raw.email ?? "").trim() }
+      : { code: (raw.code ?? "").trim(), username: (raw.username ?? "").trim() };
+
+  const parsed = door === "adult" ? adultCredentials.safeParse(raw) : studentCredentials.safeParse(raw);
+  if (!parsed.success) {
+    return data<SignInActionData>({ door, values, fieldErrors: firstErrors(parsed.error.issues) }, { status: 400 });
+  }
+
+  const result = await signInThroughAuth(
+    request,
+    door === "adult" ? "adult-password" : "student-password",
+    parsed.data as Record<string, string>,
+  );
+  if (!result.ok) {
+    const refusal = result.refusal;
+    if (refusal instanceof SignInPaused) {
+      return data<SignInActionData>(
+        { door, values, fieldErrors: {}, problem: waitMessage(refusal.wait), waitUntil: refusal.wait.until.toISOString() },
+        { status: 429, headers: { "Retry-After": String(refusal.wait.seconds) } },
+      );
+    }
+    const problem =
+      door === "adult"
+        ? "That e-mail address and password do not match an account. Check both and try again."
+        : "That code, username and password do not match a student. Check all three and try again.";
+    return data<SignInActionData>({ door, values, fieldErrors: {}, problem }, { status: 400 });
+  }
+
+  const user = await loadUser(request, result.cookieHeader);
+  const headers = new Headers();
+  for (const cookie of result.setCookies) headers.append("Set-Cookie", cookie);
+  return redirect(redirectTo ?? (user ? homePathFor(user) : "/"), { headers });
+}
+
+export default function SignIn({ loaderData, actionData }: Route.ComponentProps) {
+  const navigation = useNavigation();
+  const busyDoor = navigation.state !== "idle" ? navigation.formData?.get("door") : null;
+  const result = actionData as SignInActionData | undefined;
+  const adult = result?.door === "adult" ? result : undefined;
+  const student = result?.door === "student" ? result : undefined;
+
+  return (
+    <div className="mx-auto max-w-5xl px-5 py-12">
+      <h1 className="mb-2 text-[length:var(--text-step-3)]">Sign in to Bendwise</h1>
+      <p className="mb-8 text-ink-soft">Grown-ups sign in on the left. Students sign in on the right, with no e-mail address needed.</p>
+
+      {loaderData.signedInAs ? (
+        <Notice tone="info">
+          You are signed in as <strong>{loaderData.signedInAs.displayName}</strong>.{" "}
+          <Link to={loaderData.signedInAs.home}>Go to your page</Link>, or sign in below as someone else.
+        </Notice>
+      ) : null}
+      {loaderData.notice ? <Notice tone="done">{loaderData.notice}</Notice> : null}
+      {loaderData.authProblem && !result ? <Notice tone="problem">{loaderData.authProblem}</Notice> : null}
+
+      <div className="grid gap-6 md:grid-cols-2">
+        <section aria-labelledby="adult-door" className="card">
+          <h2 id="adult-door" className="mb-1 text-[length:var(--text-step-2)]">
+            Adults
+          </h2>
+          <p className="mb-5 text-ink-soft">School administrators, teachers and parents: use your e-mail address.</p>
+          {adult?.problem ? (
+            <Notice tone="problem">
+              <p>{adult.problem}</p>
+              {adult.waitUntil ? (
+                <p className="mt-1">
+                  You can try again from <ClockTime iso={adult.waitUntil} />.
+                </p>
+              ) : null}
+            </Notice>
+          ) : null}
+          <Form method="post" noValidate>
+            <input type="hidden" name="door" value="adult" />
+            <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
+            <Field
+              label="E-mail address"
+              name="email"
+              type="email"
+              autoComplete="username"
+              inputMode="email"
+              spellCheck={false}
+              required
+              defaultValue={adult?.values.email ?? ""}
+              error={adult?.fieldErrors.email}
+            />
+            <Field
+              label="Password"
+              name="password"
+              type="password"
+              autoComplete="current-password"
+              required
+              error={adult?.fieldErrors.password}
+            />
+            <button type="submit" className="btn" disabled={busyDoor === "adult"}>
+              {busyDoor === "adult" ? "Signing in…" : "Sign in"}
+            </button>
+          </Form>
+          <ul className="mt-5 space-y-1 text-[length:var(--text-step--1)]">
+            <li>
+              <Link to="/sign-in/link">E-mail me a sign-in link instead</Link>
+            </li>
+            <li>
+              <Link to="/reset-password">Forgot your password?</Link>
+            </li>
+          </ul>
+        </section>
+
+        <section aria-labelledby="student-door" className="card">
+          <h2 id="student-door" className="mb-1 text-[length:var(--text-step-2)]">
+            Students
+          </h2>
+          <p className="mb-5 text-ink-soft">Use the code your teacher or parent gave you, your username and your password.</p>
+          {student?.problem ? (
+            <Notice tone="problem">
+              <p>{student.problem}</p>
+              {student.waitUntil ? (
+                <p className="mt-1">
+                  You can try again from <ClockTime iso={student.waitUntil} />.
+                </p>
+              ) : null}
+            </Notice>
+          ) : null}
+          <Form method="post" noValidate>
+            <input type="hidden" name="door" value="student" />
+            <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
+            <Field
+              label="Class or family code"
+              hint="For example MAPLE7A. Capitals or not, it does not matter."
+              name="code"
+              autoComplete="off"
+              autoCapitalize="characters"
+              spellCheck={false}
+              required
+              defaultValue={student?.values.code ?? ""}
+              error={student?.fieldErrors.code}
+            />
+            <Field
+              label="Username"
+              name="username"
+              autoComplete="username"
+              autoCapitalize="none"
+              spellCheck={false}
+              required
+              defaultValue={student?.values.username ?? ""}
+              error={student?.fieldErrors.username}
+            />
+            <Field
+              label="Password"
+              name="password"
+              type="password"
+              autoComplete="current-password"
+              required
+              error={student?.fieldErrors.password}
+            />
+            <button type="submit" className="btn" disabled={busyDoor === "student"}>
+              {busyDoor === "student" ? "Signing in…" : "Sign in"}
+            </button>
+          </Form>
+          <p className="mt-5 text-[length:var(--text-step--1)] text-ink-soft">
+            Forgot your password? Ask your teacher, or the parent who made your account: they can set a new one for you.
+          </p>
+        </section>
+      </div>
+    </div>
+  );
+}
+
+export const meta: Route.MetaFunction = () => [{ title: "Sign in — Bendwise" }];
