@@ -10,6 +10,7 @@ import {
   primaryKey,
   text,
   timestamp,
+  unique,
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
@@ -52,6 +53,8 @@ export const users = pgTable(
     username: text("username"),
     displayName: text("display_name").notNull(),
     gradeBand: gradeBand("grade_band"),
+    /** Children only, optional: the number the school's own records use, so exports line up. */
+    studentNumber: text("student_number"),
     passwordHash: text("password_hash"),
     /** Raised by "sign out everywhere" and by password changes; old sessions stop working. */
     sessionVersion: integer("session_version").notNull().default(1),
@@ -95,6 +98,8 @@ export const classes = pgTable(
     schoolYear: text("school_year").notNull(),
     /** Students of the class sign in with this code. */
     signInCode: text("sign_in_code").notNull().unique(),
+    /** An IANA time zone; due dates are entered and shown in it, so server and browser agree. */
+    timeZone: text("time_zone").notNull().default("UTC"),
     archivedAt: timestamp("archived_at", { withTimezone: true }),
     createdAt: createdAt(),
   },
@@ -348,4 +353,57 @@ export const lessonVisits = pgTable(
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [primaryKey({ columns: [t.studentId, t.lessonSlug] })],
+);
+
+
+// ───────────────────────── Teaching: lessons assigned to a class, and accommodations ─────────────────────────
+
+/** What happens to work done after the due date. */
+export const latePolicy = pgEnum("late_policy", ["accept", "penalty", "closed"]);
+export type LatePolicy = (typeof latePolicy.enumValues)[number];
+
+/** A lesson assigned to a class, with when it opens, when it is due and how late work counts. */
+export const assignments = pgTable(
+  "assignments",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    classId: uuid("class_id")
+      .notNull()
+      .references(() => classes.id, { onDelete: "cascade" }),
+    lessonSlug: text("lesson_slug").notNull(),
+    opensAt: timestamp("opens_at", { withTimezone: true }).notNull(),
+    dueAt: timestamp("due_at", { withTimezone: true }).notNull(),
+    latePolicy: latePolicy("late_policy").notNull().default("accept"),
+    /** "penalty" only: percentage points taken off an exercise's credit per day (or part of a day) late */
+    latePenaltyPercent: integer("late_penalty_percent").notNull().default(0),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("assignments_class_lesson").on(t.classId, t.lessonSlug)],
+);
+
+/**
+ * A quiet adjustment for one student in one class: more attempts at each exercise and more days
+ * before the due date. With no assignment it holds for every lesson assigned to the class; a row
+ * for one assignment replaces it for that lesson. Only the teacher and the student's own pages use it.
+ */
+export const accommodations = pgTable(
+  "accommodations",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    classId: uuid("class_id")
+      .notNull()
+      .references(() => classes.id, { onDelete: "cascade" }),
+    studentId: uuid("student_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    assignmentId: uuid("assignment_id").references(() => assignments.id, { onDelete: "cascade" }),
+    extraAttempts: integer("extra_attempts").notNull().default(0),
+    extraDays: integer("extra_days").notNull().default(0),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    unique("accommodations_scope").on(t.classId, t.studentId, t.assignmentId).nullsNotDistinct(),
+    index("accommodations_student").on(t.studentId),
+  ],
 );
