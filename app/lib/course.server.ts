@@ -23,6 +23,7 @@ import {
 import { lessonExercises, listLessons } from "./lessons.server";
 import { analyseReadings, type Mode } from "./science";
 import { exerciseSeed, seededRandom } from "./seeded-random";
+import { closedForAnswers, closedMessage, lessonPolicies, lessonPolicyFor, type LessonPolicy } from "./teaching/policy.server";
 
 type Db = { db: Database };
 
@@ -93,9 +94,37 @@ function generatorContext(definition: ExerciseDefinition, readings: SavedReading
   return { ownData: { ...analysis, mode: set.mode, unloadedCm: set.unloadedCm } };
 }
 
-/** How many tries a student has at an exercise (a teacher's accommodation may raise it later). */
-export function attemptsAllowed(): number {
-  return DEFAULT_ATTEMPTS;
+/**
+ * How many tries a student has at an exercise: the exercise's own number (DEFAULT_ATTEMPTS unless its
+ * definition says `attempts`), plus the extra tries of the student's accommodation for this lesson.
+ * The policy (student × lesson) comes from lessonPolicyFor/lessonPolicies, loaded alongside the
+ * other rows, so this stays a pure function and the lesson page's query count stays fixed.
+ */
+export function attemptsAllowed(policy?: Pick<LessonPolicy, "extraAttempts"> | null, exercise?: { id: string; attempts?: number }): number {
+  return (exercise?.attempts ?? DEFAULT_ATTEMPTS) + Math.max(0, policy?.extraAttempts ?? 0);
+}
+
+/** What the student's page says about the lesson's assignment: the due date is their own (with any extra days). */
+export interface AssignmentNotice {
+  dueAt: string;
+  opensAt: string;
+  timeZone: string;
+  latePolicy: LessonPolicy["latePolicy"];
+  latePenaltyPercent: number;
+  /** closed at the due date and past it: answers are refused */
+  closed: boolean;
+}
+
+function assignmentNotice(policy: LessonPolicy | null): AssignmentNotice | null {
+  if (!policy) return null;
+  return {
+    dueAt: policy.dueAt.toISOString(),
+    opensAt: policy.opensAt.toISOString(),
+    timeZone: policy.timeZone,
+    latePolicy: policy.latePolicy,
+    latePenaltyPercent: policy.latePenaltyPercent,
+    closed: closedForAnswers(policy),
+  };
 }
 
 // ───────────────────────────── Checking an answer ─────────────────────────────
@@ -152,7 +181,8 @@ export async function recordAttempt(
   },
 ): Promise<{ feedback: Feedback; counted: boolean } | { refused: string }> {
   const { studentId, slug, definition } = input;
-  const readings = await loadReadings({ db }, studentId, slug);
+  const [readings, policy] = await Promise.all([loadReadings({ db }, studentId, slug), lessonPolicyFor({ db }, studentId, slug)]);
+  if (closedForAnswers(policy)) return { refused: closedMessage(policy!) };
   const instance = exerciseInstance(studentId, slug, definition, readings);
   if (instance.waitingForReadings) return { refused: "Save your readings first; this question uses them." };
 
@@ -168,7 +198,7 @@ export async function recordAttempt(
     );
   const used = past.filter((a) => !FREE_OUTCOMES.has(a.outcome)).length;
   if (past.some((a) => a.correct === 1)) return { refused: "You already have this one right." };
-  if (used >= attemptsAllowed()) return { refused: "You have used every attempt at this exercise." };
+  if (used >= attemptsAllowed(policy, definition)) return { refused: "You have used every attempt at this exercise." };
 
   const { result, raw } = judge(instance, definition, input.submission);
   const right = result.outcome === "correct";
@@ -222,19 +252,22 @@ export interface LessonState {
   photos: Record<string, { id: string; contentType: string; bytes: number }[]>;
   lastPlace: string | null;
   complete: boolean;
+  /** the teacher's assignment of this lesson to the student, or null when it is not assigned */
+  assignment: AssignmentNotice | null;
 }
 
 /** Everything a student's lesson page shows, in a fixed, small number of queries. */
 export async function loadLessonState({ db }: Db, studentId: string, slug: string): Promise<LessonState> {
   const where = (t: { studentId: AnyPgColumn; lessonSlug: AnyPgColumn }) =>
     and(eq(t.studentId, studentId), eq(t.lessonSlug, slug));
-  const [attemptRows, predictionRows, readings, answerRows, photoRows, visitRows] = await Promise.all([
+  const [attemptRows, predictionRows, readings, answerRows, photoRows, visitRows, policy] = await Promise.all([
     db.select().from(exerciseAttempts).where(where(exerciseAttempts)).orderBy(asc(exerciseAttempts.createdAt)),
     db.select().from(predictions).where(where(predictions)),
     loadReadings({ db }, studentId, slug),
     db.select().from(writtenAnswers).where(where(writtenAnswers)),
     db.select().from(photos).where(where(photos)).orderBy(asc(photos.createdAt)),
     db.select().from(lessonVisits).where(where(lessonVisits)),
+    lessonPolicyFor({ db }, studentId, slug),
   ]);
 
   const { exercises: definitions, writtenAnswers: requiredAnswers = [] } = lessonExercises(slug);
@@ -242,7 +275,7 @@ export async function loadLessonState({ db }: Db, studentId: string, slug: strin
   for (const definition of definitions) {
     const instance = exerciseInstance(studentId, slug, definition, readings);
     const mine = attemptRows.filter((a) => a.exerciseId === definition.id);
-    exercises[definition.id] = exerciseState(definition, instance, mine);
+    exercises[definition.id] = exerciseState(definition, instance, mine, attemptsAllowed(policy, definition));
   }
 
   const answers: LessonState["writtenAnswers"] = {};
@@ -271,6 +304,7 @@ export async function loadLessonState({ db }: Db, studentId: string, slug: strin
     photos: photoMap,
     lastPlace: visitRows[0]?.lastPlace ?? null,
     complete,
+    assignment: assignmentNotice(policy),
   };
 }
 
@@ -278,10 +312,10 @@ function exerciseState(
   definition: ExerciseDefinition,
   instance: ExerciseInstance,
   attempts: (typeof exerciseAttempts.$inferSelect)[],
+  allowed: number,
 ): ExerciseState {
   const counted = attempts.filter((a) => !FREE_OUTCOMES.has(a.outcome));
   const right = attempts.some((a) => a.correct === 1);
-  const allowed = attemptsAllowed();
   const status: ExerciseStatus = right ? "right" : counted.length >= allowed ? "used-up" : "open";
   const last = attempts.at(-1);
   let lastFeedback: Feedback | null = null;
@@ -403,12 +437,12 @@ export interface LessonProgress {
   updatedAt: Date | null;
 }
 
-/** Progress through every lesson for one student, in three queries whatever the course size. */
+/** Progress through every lesson for one student, in four queries whatever the course size. */
 export async function courseProgress({ db }: Db, studentId: string): Promise<LessonProgress[]> {
   const lessons = listLessons();
   const slugs = lessons.map((l) => l.slug);
   if (slugs.length === 0) return [];
-  const [attemptRows, answerRows, visitRows] = await Promise.all([
+  const [attemptRows, answerRows, visitRows, policies] = await Promise.all([
     db
       .select({
         lessonSlug: exerciseAttempts.lessonSlug,
@@ -424,14 +458,15 @@ export async function courseProgress({ db }: Db, studentId: string): Promise<Les
       .from(writtenAnswers)
       .where(eq(writtenAnswers.studentId, studentId)),
     db.select().from(lessonVisits).where(eq(lessonVisits.studentId, studentId)),
+    lessonPolicies({ db }, studentId, slugs),
   ]);
-  const allowed = attemptsAllowed();
   return lessons.map((lesson) => {
+    const policy = policies.get(lesson.slug) ?? null;
     const { exercises, writtenAnswers: required = [] } = lessonExercises(lesson.slug);
     const requiredExercises = exercises.filter((e) => e.required ?? true);
     const done = requiredExercises.filter((e) => {
       const row = attemptRows.find((a) => a.lessonSlug === lesson.slug && a.exerciseId === e.id);
-      return row && (Number(row.right) === 1 || Number(row.counted) >= allowed);
+      return row && (Number(row.right) === 1 || Number(row.counted) >= attemptsAllowed(policy, e));
     }).length;
     const handedIn = required.filter((id) =>
       answerRows.some((a) => a.lessonSlug === lesson.slug && a.answerId === id && a.handedInAt),

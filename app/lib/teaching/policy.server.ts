@@ -1,0 +1,140 @@
+// What a teacher's assignment means for one student in one lesson: when it is due (with their own
+// extra days), how late work counts, and how many extra tries they have. The student's lesson page,
+// the answer check and /learn read it in one query, whatever the number of classes; nothing on the
+// student's page says that an accommodation exists, it simply applies.
+import { and, eq, inArray, isNull, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import type { Database } from "~/db/client.server";
+import { accommodations, assignments, classes, enrollments, type LatePolicy } from "~/db/schema.server";
+import { DAY_MS, formatDue } from "./time";
+
+export interface LessonPolicy {
+  assignmentId: string;
+  classId: string;
+  className: string;
+  lessonSlug: string;
+  opensAt: Date;
+  /** the class's due date */
+  classDueAt: Date;
+  /** the due date for this student: the class's plus their extra days */
+  dueAt: Date;
+  latePolicy: LatePolicy;
+  latePenaltyPercent: number;
+  extraAttempts: number;
+  timeZone: string;
+}
+
+type Queryable = Pick<Database, "select">;
+
+/**
+ * The policy of every assigned lesson for a student (or only `slugs`), one query. When two of the
+ * student's classes assign the same lesson, the more generous one holds (the later due date, the
+ * more tries).
+ */
+export async function lessonPolicies({ db }: { db: Queryable }, studentId: string, slugs?: string[]): Promise<Map<string, LessonPolicy>> {
+  if (slugs && slugs.length === 0) return new Map();
+  const general = alias(accommodations, "general_accommodation");
+  const specific = alias(accommodations, "specific_accommodation");
+  const rows = await db
+    .select({
+      assignmentId: assignments.id,
+      classId: classes.id,
+      className: classes.name,
+      lessonSlug: assignments.lessonSlug,
+      opensAt: assignments.opensAt,
+      dueAt: assignments.dueAt,
+      latePolicy: assignments.latePolicy,
+      latePenaltyPercent: assignments.latePenaltyPercent,
+      timeZone: classes.timeZone,
+      generalAttempts: general.extraAttempts,
+      generalDays: general.extraDays,
+      specificAttempts: specific.extraAttempts,
+      specificDays: specific.extraDays,
+    })
+    .from(enrollments)
+    .innerJoin(classes, and(eq(classes.id, enrollments.classId), isNull(classes.archivedAt)))
+    .innerJoin(assignments, eq(assignments.classId, classes.id))
+    .leftJoin(
+      general,
+      and(eq(general.classId, classes.id), eq(general.studentId, enrollments.studentId), isNull(general.assignmentId)),
+    )
+    .leftJoin(
+      specific,
+      and(eq(specific.classId, classes.id), eq(specific.studentId, enrollments.studentId), eq(specific.assignmentId, assignments.id)),
+    )
+    .where(
+      and(
+        eq(enrollments.studentId, studentId),
+        slugs ? inArray(assignments.lessonSlug, slugs) : sql`true`,
+      ),
+    );
+  const policies = new Map<string, LessonPolicy>();
+  for (const row of rows) {
+    const policy = toPolicy(row);
+    const held = policies.get(row.lessonSlug);
+    if (!held) {
+      policies.set(row.lessonSlug, policy);
+      continue;
+    }
+    const later = policy.dueAt > held.dueAt ? policy : held;
+    policies.set(row.lessonSlug, { ...later, extraAttempts: Math.max(policy.extraAttempts, held.extraAttempts) });
+  }
+  return policies;
+}
+
+export async function lessonPolicyFor({ db }: { db: Queryable }, studentId: string, slug: string): Promise<LessonPolicy | null> {
+  return (await lessonPolicies({ db }, studentId, [slug])).get(slug) ?? null;
+}
+
+/** An accommodation for one assignment replaces the class-wide one for that lesson. */
+export function effectiveAccommodation(
+  general: { extraAttempts: number; extraDays: number } | null | undefined,
+  specific: { extraAttempts: number; extraDays: number } | null | undefined,
+): { extraAttempts: number; extraDays: number } {
+  const chosen = specific ?? general;
+  return { extraAttempts: chosen?.extraAttempts ?? 0, extraDays: chosen?.extraDays ?? 0 };
+}
+
+function toPolicy(row: {
+  assignmentId: string;
+  classId: string;
+  className: string;
+  lessonSlug: string;
+  opensAt: Date;
+  dueAt: Date;
+  latePolicy: LatePolicy;
+  latePenaltyPercent: number;
+  timeZone: string;
+  generalAttempts: number | null;
+  generalDays: number | null;
+  specificAttempts: number | null;
+  specificDays: number | null;
+}): LessonPolicy {
+  const extra = effectiveAccommodation(
+    row.generalAttempts === null ? null : { extraAttempts: row.generalAttempts, extraDays: row.generalDays ?? 0 },
+    row.specificAttempts === null ? null : { extraAttempts: row.specificAttempts, extraDays: row.specificDays ?? 0 },
+  );
+  return {
+    assignmentId: row.assignmentId,
+    classId: row.classId,
+    className: row.className,
+    lessonSlug: row.lessonSlug,
+    opensAt: row.opensAt,
+    classDueAt: row.dueAt,
+    dueAt: new Date(row.dueAt.getTime() + extra.extraDays * DAY_MS),
+    latePolicy: row.latePolicy,
+    latePenaltyPercent: row.latePenaltyPercent,
+    extraAttempts: extra.extraAttempts,
+    timeZone: row.timeZone,
+  };
+}
+
+/** True once a lesson that is closed at its due date is past this student's due date. */
+export function closedForAnswers(policy: LessonPolicy | null | undefined, now: Date = new Date()): boolean {
+  return Boolean(policy && policy.latePolicy === "closed" && now.getTime() > policy.dueAt.getTime());
+}
+
+/** The sentence a student gets when answers are refused after the due date. */
+export function closedMessage(policy: LessonPolicy): string {
+  return `This lesson closed at its due date (${formatDue(policy.dueAt, policy.timeZone)}), so answers are no longer taken. Ask your teacher if you need more time.`;
+}

@@ -1,0 +1,105 @@
+// Dates for due dates, in the class's own time zone. A class keeps an IANA time zone (set from the
+// teacher's browser when the class is made), so the server renders "due Friday 5 pm" exactly as the
+// teacher typed it, and server and browser render the same text (no hydration mismatch).
+// Pure functions: no database, safe in the browser.
+
+/** True for a time zone this runtime knows, such as "America/Chicago" or "UTC". */
+export function isTimeZone(value: string): boolean {
+  if (!value || value.length > 64) return false;
+  try {
+    new Intl.DateTimeFormat("en-US", { timeZone: value });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** Milliseconds the zone's wall clock is ahead of UTC at `date`. */
+function offsetMs(date: Date, timeZone: string): number {
+  const parts = new Intl.DateTimeFormat("en-US", {
+    timeZone,
+    hourCycle: "h23",
+    year: "numeric",
+    month: "2-digit",
+    day: "2-digit",
+    hour: "2-digit",
+    minute: "2-digit",
+    second: "2-digit",
+  }).formatToParts(date);
+  const get = (type: string) => Number(parts.find((p) => p.type === type)?.value ?? 0);
+  const wall = Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second"));
+  return wall - Math.floor(date.getTime() / 1000) * 1000;
+}
+
+const LOCAL_INPUT = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})$/;
+
+/**
+ * "2026-12-11T17:00" read as a wall-clock time in `timeZone` → the instant. Null when unreadable.
+ * In the hour skipped by a clock change the later reading is taken.
+ */
+export function zonedInputToDate(local: string, timeZone: string): Date | null {
+  const m = LOCAL_INPUT.exec(local.trim());
+  if (!m) return null;
+  const [, y, mo, d, h, mi] = m.map(Number);
+  const asUtc = Date.UTC(y, mo - 1, d, h, mi);
+  const check = new Date(asUtc);
+  if (check.getUTCMonth() !== mo - 1 || check.getUTCDate() !== d || h > 23 || mi > 59) return null;
+  let guess = asUtc - offsetMs(new Date(asUtc), timeZone);
+  const second = offsetMs(new Date(guess), timeZone);
+  guess = asUtc - second;
+  return new Date(guess);
+}
+
+/** The instant as a value for <input type="datetime-local"> in the zone. */
+export function dateToZonedInput(date: Date | string, timeZone: string): string {
+  const instant = new Date(date);
+  const shifted = new Date(instant.getTime() + offsetMs(instant, timeZone));
+  return shifted.toISOString().slice(0, 16);
+}
+
+/** "Fri 11 Dec, 5:00 pm" in the zone (with the year when it is not the current one). */
+export function formatDue(date: Date | string, timeZone: string, now: Date = new Date()): string {
+  const instant = new Date(date);
+  const sameYear =
+    new Intl.DateTimeFormat("en-GB", { timeZone, year: "numeric" }).format(instant) ===
+    new Intl.DateTimeFormat("en-GB", { timeZone, year: "numeric" }).format(now);
+  return new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    weekday: "short",
+    day: "numeric",
+    month: "short",
+    ...(sameYear ? {} : { year: "numeric" }),
+    hour: "numeric",
+    minute: "2-digit",
+    hour12: true,
+  }).format(instant);
+}
+
+/** "11 Dec 2026, 16:05:09" for lists of attempts. */
+export function formatMoment(date: Date | string, timeZone: string): string {
+  return new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    day: "numeric",
+    month: "short",
+    year: "numeric",
+    hour: "2-digit",
+    minute: "2-digit",
+    second: "2-digit",
+    hourCycle: "h23",
+  }).format(new Date(date));
+}
+
+export const DAY_MS = 24 * 60 * 60 * 1000;
+
+/** Whole days (a part of a day counts as one) from `due` to `at`; 0 when on time. */
+export function daysLate(at: Date | string, due: Date | string): number {
+  const late = new Date(at).getTime() - new Date(due).getTime();
+  return late > 0 ? Math.ceil(late / DAY_MS) : 0;
+}
+
+/** The time zones offered when making a class (the runtime's list, or a short fallback). */
+export function timeZoneChoices(): string[] {
+  const intl = Intl as unknown as { supportedValuesOf?: (key: string) => string[] };
+  const list = intl.supportedValuesOf?.("timeZone") ?? [];
+  return list.length > 0 ? (list.includes("UTC") ? list : ["UTC", ...list]) : ["UTC"];
+}
