@@ -24,5 +24,12 @@ export default [
   route("api/analysis", "routes/api.analysis.ts"),
   route("tools/analyse", "routes/tools.analyse.tsx"),
   // Seats and payments
+  route("school/seats", "routes/school.seats.tsx"),
+  route("school/seats/buy", "routes/school.seats.buy.tsx"),
+  route("family/seats", "routes/family.seats.tsx"),
+  route("receipts/:purchaseId", "routes/receipts.$purchaseId.tsx"),
+  route("payments/confirming", "routes/payments.confirming.tsx"),
+  route("payments/stopped", "routes/payments.stopped.tsx"),
+  route("api/payments/status", "routes/api.payments.status.ts"),
   route("api/payments/webhook", "routes/api.payments.webhook.ts"),
 ] satisfies RouteConfig;

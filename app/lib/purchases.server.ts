@@ -127,7 +127,20 @@ export async function abandonCheckout({ db, stripe }: PaymentsDeps, purchaseId: 
   const [purchase] = await db.select().from(seatPurchases).where(eq(seatPurchases.id, purchaseId));
   if (!purchase || purchase.method !== "card" || purchase.status !== "pending" || !purchase.providerRef) return;
   const session = await stripe.checkout.sessions.retrieve(purchase.providerRef);
-  if (session.status === "open") await stripe.checkout.sessions.expire(session.id);
+  if (session.status !== "open") return;
+  await stripe.checkout.sessions.expire(session.id);
+  // An expired session can never be paid, so the row can close now; the expiry event agrees later.
+  await db.update(seatPurchases).set({ status: "void" }).where(and(eq(seatPurchases.id, purchase.id), eq(seatPurchases.status, "pending")));
+}
+
+/** The organisation's seat page, where the buyer goes back to. */
+export function seatsPagePath(kind: "school" | "household"): string {
+  return kind === "school" ? "/school/seats" : "/family/seats";
+}
+
+/** The organisation ids whose purchases a user may see: where they are a school administrator or a parent. */
+export function buyerOrganisationIds(user: { memberships: Array<{ organisationId: string; role: string }> }): string[] {
+  return user.memberships.filter((m) => m.role === "school_admin" || m.role === "parent").map((m) => m.organisationId);
 }
 
 /** Where to continue paying an unfinished checkout, if it can still be paid. */
@@ -418,9 +431,10 @@ export interface EventHandling extends FulfilmentResult {
  * was already processed does nothing. A failure leaves the event unprocessed and is thrown, so the
  * webhook answers 500 and the provider delivers it again later.
  */
-export async function handlePaymentEvent(deps: PaymentsDeps, event: Pick<Stripe.Event, "id" | "type"> & { data: { object: { id?: string } } }): Promise<EventHandling> {
+export async function handlePaymentEvent(deps: PaymentsDeps, event: { id: string; type: string; data: { object: object } }): Promise<EventHandling> {
   const { db } = deps;
-  const objectId = typeof event.data.object.id === "string" ? event.data.object.id : null;
+  const about = (event.data.object as { id?: unknown }).id;
+  const objectId = typeof about === "string" ? about : null;
   const [recorded] = await db
     .insert(paymentEvents)
     .values({ id: event.id, type: event.type, objectId })

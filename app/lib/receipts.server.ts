@@ -144,3 +144,46 @@ export function sendDueReceiptsSoon(deps: { db: Database; sendMail: SendMail; ap
 export async function receiptsSettled(): Promise<void> {
   while (inFlight.size > 0) await Promise.allSettled([...inFlight]);
 }
+
+export interface PurchaseSummary {
+  id: string;
+  orderedOn: string;
+  schoolYear: string;
+  seats: number;
+  amount: string;
+  howPaid: string;
+  purchaseOrder: string | null;
+  state: "paid" | "invoice-waiting" | "card-unfinished" | "cancelled";
+  stateText: string;
+  receiptUrl: string | null;
+  invoiceUrl: string | null;
+  /** For an unfinished card payment: the page to finish or drop it. */
+  unfinishedUrl: string | null;
+}
+
+/** One line of a purchase list, in words. */
+export function purchaseSummary(purchase: Purchase): PurchaseSummary {
+  const view = receiptView(purchase, "");
+  const state: PurchaseSummary["state"] =
+    purchase.status === "paid" ? "paid" : purchase.status === "void" ? "cancelled" : purchase.method === "invoice" ? "invoice-waiting" : "card-unfinished";
+  const stateText = {
+    paid: `Paid${view.paidOn ? ` on ${view.paidOn}` : ""}`,
+    "invoice-waiting": "Invoice sent; the seats are added when it is paid",
+    "card-unfinished": "Card payment not finished; no seats added yet",
+    cancelled: purchase.method === "invoice" ? "Invoice cancelled; no seats added" : "Stopped; no seats added",
+  }[state];
+  return {
+    id: purchase.id,
+    orderedOn: longDate(purchase.createdAt),
+    schoolYear: purchase.schoolYear,
+    seats: purchase.seats,
+    amount: view.amount,
+    howPaid: view.howPaid,
+    purchaseOrder: purchase.purchaseOrder,
+    state,
+    stateText,
+    receiptUrl: purchase.status === "paid" ? `/receipts/${purchase.id}` : null,
+    invoiceUrl: purchase.method === "invoice" && purchase.status === "pending" ? purchase.invoiceUrl : null,
+    unfinishedUrl: state === "card-unfinished" ? `/payments/stopped?${new URLSearchParams({ purchase: purchase.id })}` : null,
+  };
+}

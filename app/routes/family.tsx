@@ -1,6 +1,7 @@
 // /family: a parent's home. First version: the household's children (name, username, grade band),
 // the code they sign in with, and the seats bought.
 import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { Link } from "react-router";
 import type { Route } from "./+types/family";
 import { db } from "~/db/client.server";
 import { memberships, organisations, seatPurchases, users } from "~/db/schema.server";
@@ -51,7 +52,10 @@ export default function Family({ loaderData }: Route.ComponentProps) {
                 See your children's accounts. They sign in with the family code{" "}
                 <strong className="font-mono">{h.signInCode ?? "—"}</strong>, their username and their password.
               </li>
-              <li>Soon: buy a seat, add a child, set a new password for a child, and follow their progress lesson by lesson.</li>
+              <li>
+                <Link to="/family/seats">Buy a seat for each child and keep every receipt</Link>. Soon: add a child, set a new password for a
+                child, and follow their progress lesson by lesson.
+              </li>
             </ul>
           </div>
           <h2 className="mb-3 text-[length:var(--text-step-1)]">Children</h2>

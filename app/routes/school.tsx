@@ -1,6 +1,7 @@
 // /school: a school administrator's home. First version: seats bought and in use per school year,
 // the school's teachers and classes.
 import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
+import { Link } from "react-router";
 import type { Route } from "./+types/school";
 import { db } from "~/db/client.server";
 import { classes, memberships, seatPurchases, users } from "~/db/schema.server";
@@ -61,7 +62,9 @@ export default function School({ loaderData }: Route.ComponentProps) {
             <h2 className="mb-2 text-[length:var(--text-step-1)]">What you can do here</h2>
             <ul className="list-disc space-y-1 pl-5">
               <li>See how many student seats your school has bought for each school year, and how many are in use.</li>
-              <li>Soon: buy more seats by card or ask for an invoice, invite teachers, and download receipts.</li>
+              <li>
+                <Link to="/school/seats">Buy seats by card or ask for an invoice, and keep every receipt</Link>. Soon: invite teachers.
+              </li>
             </ul>
           </div>
           <div className="grid gap-5 md:grid-cols-3">
@@ -79,6 +82,9 @@ export default function School({ loaderData }: Route.ComponentProps) {
                 </ul>
               )}
               <p className="mt-2 text-ink-soft">{school.students} students have accounts.</p>
+              <p className="mt-2">
+                <Link to="/school/seats">Seat ledger, purchases and receipts</Link>
+              </p>
             </div>
             <div className="card">
               <h2 className="mb-2 text-[length:var(--text-step-1)]">Teachers</h2>

@@ -55,6 +55,13 @@ const matrix: Record<string, Row | Row[]> = {
   "/photos/:id":                row(`/photos/${NO_SUCH_ID}`,                       302, 404, 404, 404, 404, 404),
   "/api/analysis":              row("/api/analysis",                               405, 405, 405, 405, 405, 405),
   "/tools/analyse":             row("/tools/analyse",                              200, 200, 200, 200, 200, 200),
+  "/school/seats":              row("/school/seats",                               302, 200, 403, 403, 403, 403),
+  "/school/seats/buy":          row("/school/seats/buy",                           302, 200, 403, 403, 403, 403),
+  "/family/seats":              row("/family/seats",                               302, 403, 403, 403, 200, 403),
+  "/receipts/:purchaseId":      row(`/receipts/${NO_SUCH_ID}`,                     302, 404, 404, 404, 404, 404),
+  "/payments/confirming":       row(`/payments/confirming?purchase=${NO_SUCH_ID}`, 302, 404, 404, 404, 404, 404),
+  "/payments/stopped":          row(`/payments/stopped?purchase=${NO_SUCH_ID}`,    302, 404, 404, 404, 404, 404),
+  "/api/payments/status":       row(`/api/payments/status?purchase=${NO_SUCH_ID}`, 401, 404, 404, 404, 404, 404),
   "/api/payments/webhook":      row("/api/payments/webhook",                       405, 405, 405, 405, 405, 405),
 };
 
