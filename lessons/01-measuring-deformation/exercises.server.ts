@@ -8,6 +8,8 @@ import { formatForStudent, stiffnessNPerCm } from "~/lib/science";
 const cm1 = (value: number) => `${value.toFixed(1)} cm`;
 /** Rounded to one decimal place, cleaned of binary noise (18.3 − 17.1 → 1.2). */
 const tenth = (value: number) => Number(value.toFixed(1));
+/** A short number without false trailing zeros: 0.1, 0.05, 0.125. */
+const short = (value: number) => String(Number(value.toPrecision(3)));
 const ordinal = (n: number) => `${n}${n === 1 ? "st" : n === 2 ? "nd" : n === 3 ? "rd" : "th"}`;
 
 const STUDENTS = ["Priya", "Mateo", "Jonas", "Aiko", "Sefa", "Lena", "Tomas", "Nia"];
@@ -89,8 +91,8 @@ export const lesson: LessonExercises = {
                 ],
           },
           solution: ofDeformation
-            ? `Gap between marks (the resolution) = 1 cm ÷ ${marksPerCm} = ${formatForStudent(resolution)} cm. Each reading can be off by half of that, ${formatForStudent(resolution / 2)} cm, and the two errors can add up: ${formatForStudent(resolution / 2)} cm + ${formatForStudent(resolution / 2)} cm = ${formatForStudent(answer)} cm, one whole mark.`
-            : `Gap between marks (the resolution) = 1 cm ÷ ${marksPerCm} = ${formatForStudent(resolution)} cm. Rounded to the nearest mark, a reading is at most half a gap away: ${formatForStudent(resolution)} cm ÷ 2 = ${formatForStudent(answer)} cm.`,
+            ? `Gap between marks (the resolution) = 1 cm ÷ ${marksPerCm} = ${short(resolution)} cm. Each reading can be off by half of that, ${short(resolution / 2)} cm, and the two errors can add up: ${short(resolution / 2)} cm + ${short(resolution / 2)} cm = ${short(answer)} cm, one whole mark.`
+            : `Gap between marks (the resolution) = 1 cm ÷ ${marksPerCm} = ${short(resolution)} cm. Rounded to the nearest mark, a reading is at most half a gap away: ${short(resolution)} cm ÷ 2 = ${short(answer)} cm.`,
         };
       },
     },

@@ -9,11 +9,17 @@ const cm1 = (value: number) => `${value.toFixed(1)} cm`;
 const tenth = (value: number) => Number(value.toFixed(1));
 const fmt = (value: number, sig = 3) => formatForStudent(value, "", sig);
 
-/** Three or four loads and their deformations (cm, to 0.1 cm), roughly proportional with a little rounding scatter. */
+/**
+ * Three or four loads and their deformations (cm, to 0.1 cm), roughly proportional with a little
+ * rounding scatter. The stiffness is chosen so every deformation lies between 0.5 and 4 cm, where a
+ * scatter of one ruler step is small beside the reading.
+ */
 function nearlyProportional(random: SeededRandom, count: 3 | 4) {
-  const k = random.uniformStep(1.5, 4, 0.1);
   const forces = count === 3 ? random.pick([[2, 4, 6], [1, 3, 5], [2, 5, 8], [3, 6, 9]]) : random.pick([[1, 2, 3, 4], [2, 4, 6, 8], [1, 3, 5, 7]]);
-  const deformations = forces.map((f) => Math.max(0.1, tenth(f / k + random.pick([-0.1, 0, 0, 0.1]))));
+  const lowest = Math.ceil((forces[forces.length - 1] / 4) * 10) / 10;
+  const highest = Math.floor((forces[0] / 0.5) * 10) / 10;
+  const k = random.uniformStep(lowest, Math.max(lowest, highest), 0.1);
+  const deformations = forces.map((f) => Math.max(0.5, tenth(f / k + random.pick([-0.1, 0, 0, 0.1]))));
   return { k, forces, deformations };
 }
 

@@ -5,7 +5,7 @@ import type { LessonExercises } from "~/lib/exercises";
 import { formatForStudent, seriesStiffness, sideBySideStiffness, stiffnessRatio } from "~/lib/science";
 
 const fmt = (value: number, sig = 3) => formatForStudent(value, "", sig);
-const MATERIALS = ["craft sticks", "basswood strips", "bamboo skewers laid flat", "strips of thin plywood", "plastic coffee stirrers"];
+const MATERIALS = ["craft sticks", "basswood strips", "thin plywood strips", "plastic coffee stirrers", "wooden coffee stirrers"];
 
 export const lesson: LessonExercises = {
   writtenAnswers: ["cer-bundles"],
@@ -20,7 +20,7 @@ export const lesson: LessonExercises = {
         const n = random.integer(2, 6);
         const bundle = sideBySideStiffness(k, n);
         return {
-          prompt: `One of a set of identical ${material} has a stiffness of ${k.toFixed(1)} N/cm on supports 12 cm apart.\nEstimate the stiffness of ${n} of them laid side by side and loaded together. Give a unit.`,
+          prompt: `Each of a set of identical ${material} has a stiffness of ${k.toFixed(1)} N/cm on supports 12 cm apart.\nEstimate the stiffness of ${n} of them laid side by side and loaded together. Give a unit.`,
           hint: "Side by side, each strip carries its share of the load at the same deformation, so the stiffnesses add: n × k.",
           expected: {
             value: bundle,

@@ -116,7 +116,10 @@ export const lesson: LessonExercises = {
         const limit = random.integer(3, 6);
         const forces = Array.from({ length: limit + 3 }, (_, i) => i + 1);
         const growth = random.uniformStep(0.2, 0.3, 0.1);
-        const sets = forces.map((f) => (f <= limit ? random.pick([0, 0, 0.1]) : tenth(growth * (f - limit) + 0.1 * (f - limit - 1))));
+        // Within the elastic range the set stays 0, or reaches one ruler step (0.1 cm) and stays there;
+        // past the limit it grows with every load.
+        const firstTenth = random.integer(1, limit + 1);
+        const sets = forces.map((f) => (f <= limit ? (f >= firstTenth ? 0.1 : 0) : tenth(growth * (f - limit) + 0.1 * (f - limit - 1))));
         const returns = sets.map((s) => tenth(reference - s));
         const result = elasticLimit(
           forces.map((f, i) => ({ forceN: f, permanentSetCm: permanentSetCm("bend", reference, returns[i]) })),

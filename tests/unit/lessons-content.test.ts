@@ -12,6 +12,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { compile } from "@mdx-js/mdx";
 import matter from "gray-matter";
+import katex from "katex";
 import remarkMath from "remark-math";
 import { describe, expect, it } from "vitest";
 import {
@@ -209,6 +210,8 @@ const KNOWN_NGSS = new Set([
   "HS-ETS1-3",
   "HS-ETS1-4",
 ]);
+/** The components a lesson's MDX may use (app/components/lesson/index.ts). */
+const LESSON_COMPONENTS = new Set(["Caution", "DataTable", "Equation", "Exercise", "ForceChart", "Hint", "PhotoUpload", "Prediction", "ReadingsEntry", "WrittenAnswer"]);
 const ALL_KINDS: ExerciseKind[] = ["number", "ratio", "choice", "table", "own-data"];
 /** The readings columns the lesson components know (DataTable also shows a mass in grams). */
 const CSV_COLUMNS = new Set(["forceN", "readingCm", "deformationCm", "returnReadingCm", "broke", "massG"]);
@@ -289,6 +292,19 @@ for (const l of lessons) {
       await expect(compile(l.content, { remarkPlugins: [remarkMath] })).resolves.toBeDefined();
       for (const m of l.content.matchAll(/^import\s+\w+\s+from\s+"\.\/([^"]+)";?$/gm)) {
         expect(existsSync(path.join(l.dir, m[1])), `${l.folder}/${m[1]} exists`).toBe(true);
+      }
+    });
+
+    it("uses only the lesson components, with math KaTeX can render", () => {
+      for (const m of l.content.matchAll(/<([A-Z][A-Za-z]*)\b/g)) expect(LESSON_COMPONENTS.has(m[1]), `<${m[1]}> is a lesson component`).toBe(true);
+      const imported = new Set([...l.content.matchAll(/^import\s+(\w+)\s+from/gm)].map((m) => m[1]));
+      for (const m of l.content.matchAll(/\bcsv=\{(\w+)\}/g)) expect(imported.has(m[1]), `csv={${m[1]}} is imported`).toBe(true);
+      const tex = [
+        ...attributeValues(l.content, "Equation", "tex").map((t) => ({ t, displayMode: true })),
+        ...[...l.content.matchAll(/\$([^$\n]+)\$/g)].map((m) => ({ t: m[1], displayMode: false })),
+      ];
+      for (const { t, displayMode } of tex) {
+        expect(() => katex.renderToString(t, { throwOnError: true, displayMode }), `KaTeX renders ${t}`).not.toThrow();
       }
     });
 
