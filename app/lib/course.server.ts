@@ -83,7 +83,8 @@ export function exerciseInstance(
 
 function generatorContext(definition: ExerciseDefinition, readings: SavedReadings[]): GeneratorContext {
   if (definition.kind !== "own-data") return { ownData: null };
-  const set = readings.find((r) => r.readingsId === definition.readingsId) ?? readings[0];
+  // Only the set the exercise names: another material's readings would check the wrong numbers.
+  const set = definition.readingsId ? readings.find((r) => r.readingsId === definition.readingsId) : readings[0];
   if (!set) return { ownData: null };
   const analysis = analyseReadings({
     mode: set.mode,
