@@ -32,11 +32,12 @@ export async function seatLedgerForYear({ db }: { db: Queryable }, organisationI
   return ledgerRow(schoolYear, row.bought, row.in_use);
 }
 
-/** The ledger of every school year the organisation has bought or used seats in, newest first. */
+/** The ledger of every school year the organisation has paid for or used seats in, newest first. */
 export async function seatLedger({ db }: { db: Queryable }, organisationId: string): Promise<SeatLedgerRow[]> {
   const rows = await db.execute<{ school_year: string; bought: number; in_use: number }>(sql`
     with years as (
-      select ${seatPurchases.schoolYear} as school_year from ${seatPurchases} where ${seatPurchases.organisationId} = ${organisationId}
+      select ${seatPurchases.schoolYear} as school_year from ${seatPurchases}
+        where ${seatPurchases.organisationId} = ${organisationId} and ${seatPurchases.status} = 'paid'
       union
       select ${seatAssignments.schoolYear} from ${seatAssignments} where ${seatAssignments.organisationId} = ${organisationId}
     )

@@ -18,6 +18,14 @@ const MAX_SEATS_PER_ORDER = 5000;
 
 const blankToUndefined = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
 
+const purchaseOrderSchema = z
+  .string()
+  .trim()
+  .max(40, "A purchase-order number has at most 40 characters.")
+  .regex(/^[\p{L}\p{N} ./#_-]*$/u, "Use letters, digits, spaces and . / # _ - only.")
+  .default("");
+const methodSchema = z.enum(["card", "invoice"], { error: "Choose how the school will pay: by card now, or by invoice." });
+
 function seatOrderSchema(years: readonly string[]) {
   return z
     .object({
@@ -30,18 +38,14 @@ function seatOrderSchema(years: readonly string[]) {
           .max(MAX_SEATS_PER_ORDER, `Up to ${MAX_SEATS_PER_ORDER.toLocaleString("en-US")} seats in one order.`),
       ),
       schoolYear: z.string({ error: "Choose the school year." }).refine((y) => years.includes(y), `Choose ${years.join(" or ")}.`),
-      method: z.enum(["card", "invoice"], { error: "Choose how the school will pay: by card now, or by invoice." }),
-      purchaseOrder: z
-        .string()
-        .trim()
-        .max(40, "A purchase-order number has at most 40 characters.")
-        .regex(/^[\p{L}\p{N} ./#_-]*$/u, "Use letters, digits, spaces and . / # _ - only.")
-        .default(""),
+      method: methodSchema,
+      purchaseOrder: purchaseOrderSchema,
     })
-    .superRefine((order, ctx) => {
-      if (order.method === "invoice" && !order.purchaseOrder) {
-        ctx.addIssue({ code: "custom", path: ["purchaseOrder"], message: "Enter your purchase-order number; it is printed on the invoice." });
-      }
+    .refine((order) => order.method !== "invoice" || order.purchaseOrder !== "", {
+      path: ["purchaseOrder"],
+      message: "Enter your purchase-order number; it is printed on the invoice.",
+      // Say so even when another field is wrong too, so everything is explained at once.
+      when: (payload) => z.object({ method: methodSchema, purchaseOrder: purchaseOrderSchema }).safeParse(payload.value).success,
     });
 }
 
