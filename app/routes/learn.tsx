@@ -1,44 +1,53 @@
-// /learn: a student's home. First version: who they are, their classes (or family), what comes here.
+// /learn: a student's home — the course as a path with their progress, a "continue" that goes back
+// to exactly where they stopped, and their classes (or household).
 import { and, asc, eq } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { Route } from "./+types/learn";
 import { db } from "~/db/client.server";
 import { classes, enrollments, users } from "~/db/schema.server";
+import { ContinueCard, CoursePath } from "~/components/course-path";
 import { requireRole } from "~/lib/auth.server";
+import { continueTarget, courseProgress } from "~/lib/course.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const { user, membership } = await requireRole(request, ["student"]);
   const teacher = alias(users, "teacher");
-  const myClasses = await db
-    .select({ id: classes.id, name: classes.name, schoolYear: classes.schoolYear, teacherName: teacher.displayName })
-    .from(enrollments)
-    .innerJoin(classes, eq(classes.id, enrollments.classId))
-    .innerJoin(teacher, eq(teacher.id, classes.teacherId))
-    .where(and(eq(enrollments.studentId, user.id), eq(classes.organisationId, membership.organisationId)))
-    .orderBy(asc(classes.name));
+  const [myClasses, lessons] = await Promise.all([
+    db
+      .select({ id: classes.id, name: classes.name, schoolYear: classes.schoolYear, teacherName: teacher.displayName })
+      .from(enrollments)
+      .innerJoin(classes, eq(classes.id, enrollments.classId))
+      .innerJoin(teacher, eq(teacher.id, classes.teacherId))
+      .where(and(eq(enrollments.studentId, user.id), eq(classes.organisationId, membership.organisationId)))
+      .orderBy(asc(classes.name)),
+    courseProgress({ db }, user.id),
+  ]);
   return {
     displayName: user.displayName,
     organisationName: membership.organisationName,
     atHome: membership.organisationKind === "household",
     classes: myClasses,
+    lessons,
+    continueAt: continueTarget(lessons),
   };
 }
 
 export default function Learn({ loaderData }: Route.ComponentProps) {
-  const { displayName, organisationName, atHome, classes: myClasses } = loaderData;
+  const { displayName, organisationName, atHome, classes: myClasses, lessons, continueAt } = loaderData;
+  const finished = lessons.filter((l) => l.complete).length;
   return (
     <div className="mx-auto max-w-4xl px-5 py-12">
       <p className="mb-1 text-ink-soft">{atHome ? `Learning at home · ${organisationName}` : organisationName}</p>
-      <h1 className="mb-6 text-[length:var(--text-step-3)]">Hello, {displayName}</h1>
-      <section className="card mb-6" aria-labelledby="here-heading">
-        <h2 id="here-heading" className="mb-2 text-[length:var(--text-step-1)]">
-          What you can do here
+      <h1 className="mb-2 text-[length:var(--text-step-3)]">Hello, {displayName}</h1>
+      <p className="mb-6 text-ink-soft">
+        {finished} of {lessons.length} lessons finished. Predict first, then load, read the ruler, and check each calculation as you go.
+      </p>
+      <ContinueCard target={continueAt} lessons={lessons} />
+      <section aria-labelledby="path-heading" className="mb-10">
+        <h2 id="path-heading" className="mb-4 text-[length:var(--text-step-2)]">
+          Your course
         </h2>
-        <ul className="list-disc space-y-1 pl-5">
-          <li>Work through the Bendwise lessons at your own pace, and pick up where you left off.</li>
-          <li>Predict first, then load your strips, read the ruler and type in your own readings.</li>
-          <li>Get every calculation checked straight away, with a hint when something slipped.</li>
-        </ul>
+        <CoursePath lessons={lessons} />
       </section>
       {atHome ? null : (
         <section aria-labelledby="classes-heading">
