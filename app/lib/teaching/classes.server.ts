@@ -1,0 +1,151 @@
+// A teacher's classes: made, renamed, archived and restored, each with a sign-in code its students
+// type (renewable). Every look-up is scoped to the teacher in the WHERE clause, so another teacher's
+// class, or another school's, is simply not found.
+import { randomInt } from "node:crypto";
+import { and, asc, eq, inArray, isNotNull, isNull } from "drizzle-orm";
+import type { Database } from "~/db/client.server";
+import { classes, organisations } from "~/db/schema.server";
+import { isSchoolYear } from "~/lib/school-year";
+import { isTimeZone } from "./time";
+
+type Db = { db: Database };
+
+/**
+ * Class codes are read aloud in a classroom and typed by 11-year-olds: eight characters from an
+ * alphabet without look-alikes or sound-alikes (no 0/O, 1/I/L, 2/Z, 5/S, 8/B), shown as two groups
+ * of four. 25^8 ≈ 1.5 × 10^11 codes: far too many to guess, and a student also needs a username and
+ * a password. Sign-in ignores spaces and case.
+ */
+export const CLASS_CODE_ALPHABET = "ACDEFGHJKMNPQRTUVWXY34679";
+export const CLASS_CODE_LENGTH = 8;
+
+export function newClassCode(): string {
+  let code = "";
+  for (let i = 0; i < CLASS_CODE_LENGTH; i++) code += CLASS_CODE_ALPHABET[randomInt(CLASS_CODE_ALPHABET.length)];
+  return code;
+}
+
+/** "KTXQ9MWE" → "KTXQ 9MWE" for reading aloud; older short codes stay as they are. */
+export function spacedCode(code: string): string {
+  return code.length === CLASS_CODE_LENGTH ? `${code.slice(0, 4)} ${code.slice(4)}` : code;
+}
+
+export interface TeacherClass {
+  id: string;
+  name: string;
+  schoolYear: string;
+  signInCode: string;
+  timeZone: string;
+  organisationId: string;
+  schoolName: string;
+  archivedAt: Date | null;
+}
+
+const classColumns = {
+  id: classes.id,
+  name: classes.name,
+  schoolYear: classes.schoolYear,
+  signInCode: classes.signInCode,
+  timeZone: classes.timeZone,
+  organisationId: classes.organisationId,
+  schoolName: organisations.name,
+  archivedAt: classes.archivedAt,
+};
+
+/** One class of this teacher in one of their schools, or null. */
+export async function findTeacherClass({ db }: Db, teacher: { id: string; schoolIds: string[] }, classId: string): Promise<TeacherClass | null> {
+  if (teacher.schoolIds.length === 0) return null;
+  const [row] = await db
+    .select(classColumns)
+    .from(classes)
+    .innerJoin(organisations, eq(organisations.id, classes.organisationId))
+    .where(and(eq(classes.id, classId), eq(classes.teacherId, teacher.id), inArray(classes.organisationId, teacher.schoolIds)));
+  return row ?? null;
+}
+
+/** Every class of this teacher (active first, by school and name). */
+export async function listTeacherClasses({ db }: Db, teacher: { id: string; schoolIds: string[] }, which: "active" | "archived"): Promise<TeacherClass[]> {
+  if (teacher.schoolIds.length === 0) return [];
+  return db
+    .select(classColumns)
+    .from(classes)
+    .innerJoin(organisations, eq(organisations.id, classes.organisationId))
+    .where(
+      and(
+        eq(classes.teacherId, teacher.id),
+        inArray(classes.organisationId, teacher.schoolIds),
+        which === "active" ? isNull(classes.archivedAt) : isNotNull(classes.archivedAt),
+      ),
+    )
+    .orderBy(asc(organisations.name), asc(classes.schoolYear), asc(classes.name));
+}
+
+export type ClassChange = { ok: true; id: string } | { ok: false; field: "name" | "schoolYear" | "timeZone" | "form"; message: string };
+
+function isUniqueViolation(error: unknown, constraint: string): boolean {
+  const e = error as { code?: string; constraint_name?: string; cause?: { code?: string; constraint_name?: string } };
+  const code = e?.code ?? e?.cause?.code;
+  const name = e?.constraint_name ?? e?.cause?.constraint_name ?? "";
+  return code === "23505" && name.includes(constraint);
+}
+
+const nameTaken = (name: string, year: string) =>
+  `Your school already has a class called “${name}” in ${year}. Add a letter or a period to tell them apart.`;
+
+export async function createClass(
+  { db }: Db,
+  input: { organisationId: string; teacherId: string; name: string; schoolYear: string; timeZone: string },
+): Promise<ClassChange> {
+  const name = input.name.trim();
+  if (!isSchoolYear(input.schoolYear)) return { ok: false, field: "schoolYear", message: "Choose a school year such as 2026-27." };
+  const timeZone = isTimeZone(input.timeZone) ? input.timeZone : "UTC";
+  // A fresh code collides about never; try a few times before giving up with a message.
+  for (let attempt = 0; attempt < 5; attempt++) {
+    try {
+      const [row] = await db
+        .insert(classes)
+        .values({ organisationId: input.organisationId, teacherId: input.teacherId, name, schoolYear: input.schoolYear, timeZone, signInCode: newClassCode() })
+        .returning({ id: classes.id });
+      return { ok: true, id: row.id };
+    } catch (error) {
+      if (isUniqueViolation(error, "classes_org_year_name")) return { ok: false, field: "name", message: nameTaken(name, input.schoolYear) };
+      if (!isUniqueViolation(error, "sign_in_code")) throw error;
+    }
+  }
+  return { ok: false, field: "form", message: "No free class code was found just now. Please try again." };
+}
+
+export async function renameClass({ db }: Db, klass: TeacherClass, name: string): Promise<ClassChange> {
+  try {
+    await db.update(classes).set({ name: name.trim() }).where(eq(classes.id, klass.id));
+    return { ok: true, id: klass.id };
+  } catch (error) {
+    if (isUniqueViolation(error, "classes_org_year_name")) return { ok: false, field: "name", message: nameTaken(name.trim(), klass.schoolYear) };
+    throw error;
+  }
+}
+
+export async function setClassTimeZone({ db }: Db, klass: TeacherClass, timeZone: string): Promise<ClassChange> {
+  if (!isTimeZone(timeZone)) return { ok: false, field: "timeZone", message: "Choose a time zone from the list." };
+  await db.update(classes).set({ timeZone }).where(eq(classes.id, klass.id));
+  return { ok: true, id: klass.id };
+}
+
+/** A new code; the old one stops working at once (students already signed in stay signed in). */
+export async function renewClassCode({ db }: Db, klass: TeacherClass): Promise<string> {
+  for (let attempt = 0; attempt < 5; attempt++) {
+    const code = newClassCode();
+    try {
+      await db.update(classes).set({ signInCode: code }).where(eq(classes.id, klass.id));
+      return code;
+    } catch (error) {
+      if (!isUniqueViolation(error, "sign_in_code")) throw error;
+    }
+  }
+  throw new Error("no free class code after five tries");
+}
+
+/** Archived classes keep their students and work, but drop off the lists and their code stops working. */
+export async function setArchived({ db }: Db, klass: TeacherClass, archived: boolean) {
+  await db.update(classes).set({ archivedAt: archived ? new Date() : null }).where(eq(classes.id, klass.id));
+}

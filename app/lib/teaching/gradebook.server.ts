@@ -1,0 +1,319 @@
+// The gradebook: students × assigned lessons, each cell with completion, score, lateness and where a
+// student is stuck. Built for any number of classes at once in six SQL statements, whatever the
+// number of students, lessons or classes: students, assignments, accommodations, attempt totals per
+// (student, lesson, exercise), written answers and lesson visits, each one query; the rest is done
+// here in memory. The teacher's gradebook, its JSON route, its CSV export, the teaching home and the
+// school's overview all use it, so they always agree.
+//
+// The rules, in one place:
+// - a lesson is complete when each required exercise is right or out of tries and each required
+//   written answer is handed in (the same rule as the student's own progress);
+// - the score is the share of the lesson's required exercises answered right, each worth its late
+//   credit: full when right by the student's own due date (the class's plus their extra days), and
+//   after it full ("accept"), less the penalty per day or part of a day ("penalty", never below 0),
+//   or nothing ("closed");
+// - stuck: STUCK_AFTER_WRONG or more wrong answers to one exercise and no right one yet;
+// - late: past the student's due date without finishing, or finished after it;
+// - a student's average counts every lesson already open, a lesson not started as 0.
+import { and, eq, inArray, sql } from "drizzle-orm";
+import type { Database } from "~/db/client.server";
+import {
+  accommodations,
+  assignments,
+  enrollments,
+  exerciseAttempts,
+  lessonVisits,
+  users,
+  writtenAnswers,
+  type LatePolicy,
+} from "~/db/schema.server";
+import { attemptsAllowed } from "~/lib/course.server";
+import { lessonExercises, listLessons } from "~/lib/lessons.server";
+import { effectiveAccommodation } from "./policy.server";
+import { DAY_MS, daysLate } from "./time";
+
+type Db = { db: Database };
+
+export const STUCK_AFTER_WRONG = 2;
+const FREE = sql.raw(`('unreadable', 'not-checkable')`);
+
+export interface GradebookLesson {
+  assignmentId: string;
+  slug: string;
+  number: number | null;
+  title: string;
+  opensAt: string;
+  dueAt: string;
+  latePolicy: LatePolicy;
+  latePenaltyPercent: number;
+  opened: boolean;
+  exercises: { id: string; title: string; required: boolean }[];
+  /** false for a lesson that has left the course since it was assigned */
+  inCourse: boolean;
+}
+
+export type CellStatus = "not-started" | "working" | "complete";
+
+export interface GradebookCell {
+  status: CellStatus;
+  requiredDone: number;
+  requiredTotal: number;
+  /** 0–100, or null before the student starts */
+  score: number | null;
+  /** the student's own due date */
+  dueAt: string;
+  /** the student has an accommodation for this lesson (shown to the teacher only) */
+  accommodated: boolean;
+  overdue: boolean;
+  finishedLate: boolean;
+  /** ids of exercises the student is stuck on */
+  stuckOn: string[];
+  /** written answers handed in and not yet reviewed (or handed in again since) */
+  toReview: number;
+  lastActivity: string | null;
+}
+
+export interface GradebookStudent {
+  id: string;
+  displayName: string;
+  username: string | null;
+  studentNumber: string | null;
+}
+
+export interface GradebookRow {
+  student: GradebookStudent;
+  cells: Record<string, GradebookCell>;
+  lessonsComplete: number;
+  /** the mean score of every open lesson, a lesson not started counting 0; null with no open lesson */
+  averageScore: number | null;
+  notStarted: boolean;
+  late: boolean;
+  stuck: boolean;
+}
+
+export interface ClassSummary {
+  students: number;
+  lessons: number;
+  /** complete cells ÷ (students × lessons), 0–100 */
+  completePercent: number | null;
+  averageScore: number | null;
+  notStarted: number;
+  late: number;
+  stuck: number;
+  toReview: number;
+}
+
+export interface Gradebook {
+  classId: string;
+  lessons: GradebookLesson[];
+  rows: GradebookRow[];
+  summary: ClassSummary;
+  generatedAt: string;
+}
+
+export type GradebookFilter = "everyone" | "not-started" | "late" | "stuck";
+export const GRADEBOOK_FILTERS: { value: GradebookFilter; label: string }[] = [
+  { value: "everyone", label: "Everyone" },
+  { value: "not-started", label: "Not started" },
+  { value: "late", label: "Late" },
+  { value: "stuck", label: "Stuck" },
+];
+
+export function filterRows(rows: GradebookRow[], filter: GradebookFilter): GradebookRow[] {
+  if (filter === "not-started") return rows.filter((r) => r.notStarted);
+  if (filter === "late") return rows.filter((r) => r.late);
+  if (filter === "stuck") return rows.filter((r) => r.stuck);
+  return rows;
+}
+
+/** The credit (0–1) of a right answer given at `at` for a student whose due date is `due`. */
+export function lateCredit(at: Date, due: Date, policy: LatePolicy, penaltyPercent: number): number {
+  const days = daysLate(at, due);
+  if (days === 0 || policy === "accept") return 1;
+  if (policy === "closed") return 0;
+  return Math.max(0, 1 - (penaltyPercent / 100) * days);
+}
+
+/** The gradebooks of these classes, six statements in all. */
+export async function loadGradebooks({ db }: Db, classIds: string[], now: Date = new Date()): Promise<Map<string, Gradebook>> {
+  const books = new Map<string, Gradebook>();
+  if (classIds.length === 0) return books;
+  const enrolled = db.select({ id: enrollments.studentId }).from(enrollments).where(inArray(enrollments.classId, classIds));
+  const assigned = db.select({ slug: assignments.lessonSlug }).from(assignments).where(inArray(assignments.classId, classIds));
+  const [studentRows, assignmentRows, accommodationRows, attemptRows, answerRows, visitRows] = await Promise.all([
+    db
+      .select({
+        classId: enrollments.classId,
+        id: users.id,
+        displayName: users.displayName,
+        username: users.username,
+        studentNumber: users.studentNumber,
+      })
+      .from(enrollments)
+      .innerJoin(users, eq(users.id, enrollments.studentId))
+      .where(inArray(enrollments.classId, classIds)),
+    db.select().from(assignments).where(inArray(assignments.classId, classIds)),
+    db.select().from(accommodations).where(inArray(accommodations.classId, classIds)),
+    db
+      .select({
+        studentId: exerciseAttempts.studentId,
+        lessonSlug: exerciseAttempts.lessonSlug,
+        exerciseId: exerciseAttempts.exerciseId,
+        right: sql<number>`max(${exerciseAttempts.correct})`.mapWith(Number),
+        counted: sql<number>`count(*) filter (where ${exerciseAttempts.outcome} not in ${FREE})`.mapWith(Number),
+        wrong: sql<number>`count(*) filter (where ${exerciseAttempts.outcome} not in ${FREE} and ${exerciseAttempts.correct} = 0)`.mapWith(Number),
+        firstRightAt: sql<Date | null>`min(${exerciseAttempts.createdAt}) filter (where ${exerciseAttempts.correct} = 1)`.mapWith(exerciseAttempts.createdAt),
+        lastCountedAt: sql<Date | null>`max(${exerciseAttempts.createdAt}) filter (where ${exerciseAttempts.outcome} not in ${FREE})`.mapWith(exerciseAttempts.createdAt),
+        lastAt: sql<Date>`max(${exerciseAttempts.createdAt})`.mapWith(exerciseAttempts.createdAt),
+      })
+      .from(exerciseAttempts)
+      .where(and(inArray(exerciseAttempts.studentId, enrolled), inArray(exerciseAttempts.lessonSlug, assigned)))
+      .groupBy(exerciseAttempts.studentId, exerciseAttempts.lessonSlug, exerciseAttempts.exerciseId),
+    db
+      .select({
+        studentId: writtenAnswers.studentId,
+        lessonSlug: writtenAnswers.lessonSlug,
+        answerId: writtenAnswers.answerId,
+        handedInAt: writtenAnswers.handedInAt,
+        reviewedAt: writtenAnswers.reviewedAt,
+        updatedAt: writtenAnswers.updatedAt,
+      })
+      .from(writtenAnswers)
+      .where(and(inArray(writtenAnswers.studentId, enrolled), inArray(writtenAnswers.lessonSlug, assigned))),
+    db
+      .select({ studentId: lessonVisits.studentId, lessonSlug: lessonVisits.lessonSlug, updatedAt: lessonVisits.updatedAt })
+      .from(lessonVisits)
+      .where(and(inArray(lessonVisits.studentId, enrolled), inArray(lessonVisits.lessonSlug, assigned))),
+  ]);
+
+  const key = (...parts: (string | null)[]) => parts.join("|");
+  const attempts = new Map(attemptRows.map((a) => [key(a.studentId, a.lessonSlug, a.exerciseId), a]));
+  const answersBy = new Map<string, typeof answerRows>();
+  for (const a of answerRows) {
+    const k = key(a.studentId, a.lessonSlug);
+    answersBy.set(k, [...(answersBy.get(k) ?? []), a]);
+  }
+  const visits = new Map(visitRows.map((v) => [key(v.studentId, v.lessonSlug), v]));
+  const startedBy = new Set(attemptRows.map((a) => key(a.studentId, a.lessonSlug)));
+  const accommodationBy = new Map(accommodationRows.map((a) => [key(a.classId, a.studentId, a.assignmentId), a]));
+  const course = listLessons();
+
+  for (const classId of classIds) {
+    const lessons: GradebookLesson[] = assignmentRows
+      .filter((a) => a.classId === classId)
+      .map((a) => {
+        const summary = course.find((l) => l.slug === a.lessonSlug);
+        const { exercises } = lessonExercises(a.lessonSlug);
+        return {
+          assignmentId: a.id,
+          slug: a.lessonSlug,
+          number: summary?.number ?? null,
+          title: summary?.title ?? `${a.lessonSlug} (no longer in the course)`,
+          opensAt: a.opensAt.toISOString(),
+          dueAt: a.dueAt.toISOString(),
+          latePolicy: a.latePolicy,
+          latePenaltyPercent: a.latePenaltyPercent,
+          opened: a.opensAt.getTime() <= now.getTime(),
+          exercises: exercises.map((e) => ({ id: e.id, title: e.title, required: e.required ?? true })),
+          inCourse: Boolean(summary),
+        };
+      })
+      .sort((x, y) => (x.number ?? 99) - (y.number ?? 99) || x.slug.localeCompare(y.slug));
+    const assignmentById = new Map(assignmentRows.map((a) => [a.id, a]));
+
+    const students = studentRows
+      .filter((s) => s.classId === classId)
+      .sort((a, b) => a.displayName.localeCompare(b.displayName) || (a.username ?? "").localeCompare(b.username ?? ""));
+    const rows: GradebookRow[] = students.map(({ classId: _c, ...student }) => {
+      const cells: Record<string, GradebookCell> = {};
+      for (const lesson of lessons) {
+        const assignment = assignmentById.get(lesson.assignmentId)!;
+        const extra = effectiveAccommodation(
+          accommodationBy.get(key(classId, student.id, null)),
+          accommodationBy.get(key(classId, student.id, lesson.assignmentId)),
+        );
+        const due = new Date(assignment.dueAt.getTime() + extra.extraDays * DAY_MS);
+        const { exercises, writtenAnswers: requiredAnswers = [] } = lessonExercises(lesson.slug);
+        let done = 0;
+        let credit = 0;
+        let scored = 0;
+        let completedAt = 0;
+        let lastActivity = visits.get(key(student.id, lesson.slug))?.updatedAt.getTime() ?? 0;
+        const stuckOn: string[] = [];
+        for (const exercise of exercises) {
+          const agg = attempts.get(key(student.id, lesson.slug, exercise.id));
+          if (agg) lastActivity = Math.max(lastActivity, agg.lastAt.getTime());
+          if (agg && agg.right !== 1 && agg.wrong >= STUCK_AFTER_WRONG) stuckOn.push(exercise.id);
+          if (!(exercise.required ?? true)) continue;
+          scored++;
+          if (!agg) continue;
+          const right = agg.right === 1 && agg.firstRightAt;
+          if (right) credit += lateCredit(agg.firstRightAt!, due, assignment.latePolicy, assignment.latePenaltyPercent);
+          if (right || agg.counted >= attemptsAllowed(extra, exercise)) {
+            done++;
+            const at = right ? agg.firstRightAt! : agg.lastCountedAt ?? agg.lastAt;
+            completedAt = Math.max(completedAt, at.getTime());
+          }
+        }
+        const answers = answersBy.get(key(student.id, lesson.slug)) ?? [];
+        for (const id of requiredAnswers) {
+          const handed = answers.find((a) => a.answerId === id)?.handedInAt;
+          if (handed) {
+            done++;
+            completedAt = Math.max(completedAt, handed.getTime());
+          }
+        }
+        for (const a of answers) lastActivity = Math.max(lastActivity, a.updatedAt.getTime());
+        const toReview = answers.filter((a) => a.handedInAt && (!a.reviewedAt || a.reviewedAt < a.handedInAt)).length;
+        const requiredTotal = scored + requiredAnswers.length;
+        const started = startedBy.has(key(student.id, lesson.slug)) || visits.has(key(student.id, lesson.slug)) || answers.length > 0;
+        const complete = requiredTotal > 0 && done === requiredTotal;
+        cells[lesson.assignmentId] = {
+          status: complete ? "complete" : started ? "working" : "not-started",
+          requiredDone: done,
+          requiredTotal,
+          score: started && scored > 0 ? Math.round((100 * credit) / scored) : null,
+          dueAt: due.toISOString(),
+          accommodated: extra.extraAttempts > 0 || extra.extraDays > 0,
+          overdue: !complete && now.getTime() > due.getTime(),
+          finishedLate: complete && completedAt > due.getTime(),
+          stuckOn,
+          toReview,
+          lastActivity: lastActivity ? new Date(lastActivity).toISOString() : null,
+        };
+      }
+      const open = lessons.filter((l) => l.opened);
+      const list = Object.values(cells);
+      return {
+        student,
+        cells,
+        lessonsComplete: list.filter((c) => c.status === "complete").length,
+        averageScore: open.length > 0 ? Math.round(open.reduce((sum, l) => sum + (cells[l.assignmentId].score ?? 0), 0) / open.length) : null,
+        notStarted: open.some((l) => cells[l.assignmentId].status === "not-started"),
+        late: list.some((c) => c.overdue || c.finishedLate),
+        stuck: list.some((c) => c.stuckOn.length > 0),
+      };
+    });
+    books.set(classId, { classId, lessons, rows, summary: summarise(rows, lessons), generatedAt: now.toISOString() });
+  }
+  return books;
+}
+
+export async function loadGradebook({ db }: Db, classId: string, now: Date = new Date()): Promise<Gradebook> {
+  return (await loadGradebooks({ db }, [classId], now)).get(classId)!;
+}
+
+function summarise(rows: GradebookRow[], lessons: GradebookLesson[]): ClassSummary {
+  const cells = rows.flatMap((r) => Object.values(r.cells));
+  const averages = rows.map((r) => r.averageScore).filter((s): s is number => s !== null);
+  return {
+    students: rows.length,
+    lessons: lessons.length,
+    completePercent: cells.length > 0 ? Math.round((100 * cells.filter((c) => c.status === "complete").length) / cells.length) : null,
+    averageScore: averages.length > 0 ? Math.round(averages.reduce((a, b) => a + b, 0) / averages.length) : null,
+    notStarted: rows.filter((r) => r.notStarted).length,
+    late: rows.filter((r) => r.late).length,
+    stuck: rows.filter((r) => r.stuck).length,
+    toReview: cells.reduce((sum, c) => sum + c.toReview, 0),
+  };
+}
