@@ -59,11 +59,13 @@ export function SiteHeader({ children }: { children?: React.ReactNode }) {
 }
 
 export function SiteFooter() {
+  const account = (useRouteLoaderData("root") as { account?: HeaderAccount | null } | undefined)?.account ?? null;
   return (
     <footer className="border-t border-rule mt-16">
       <div className="mx-auto max-w-6xl px-5 py-8 text-[length:var(--text-step--1)] text-ink-soft flex flex-wrap gap-x-8 gap-y-2">
         <span>Bendwise — hands-on labs on how materials stretch, bend and break.</span>
         <span>No ads, no trackers. Children sign in without an e-mail address.</span>
+        {account ? <Link to="/sign-out">Signed in on a lost or shared device? Sign out everywhere</Link> : null}
       </div>
     </footer>
   );

@@ -41,8 +41,10 @@ export default function Teach({ loaderData }: Route.ComponentProps) {
         </h2>
         <ul className="list-disc space-y-1 pl-5">
           <li>See each class with the code its students sign in with, and open its list of students.</li>
-          <li>Soon: assign lessons with due dates, follow who has finished and who is stuck, and review written answers.</li>
-          <li>Set a new password for a student of yours who forgot theirs.</li>
+          <li>
+            Soon: assign lessons with due dates, follow who has finished and who is stuck, review written answers, and set a
+            new password for a student of yours who forgot theirs.
+          </li>
         </ul>
       </section>
       {rows.length === 0 ? (
