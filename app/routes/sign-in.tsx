@@ -1,6 +1,7 @@
 // /sign-in: one page, two doors. Adults (school staff, teachers, parents) use their e-mail address;
 // students use the code from their teacher or parent, their username and their password.
 import { Form, Link, data, redirect, useNavigation } from "react-router";
+import { z } from "zod";
 import type { Route } from "./+types/sign-in";
 import { ClockTime, Field, Notice } from "~/components/auth-forms";
 import { getUser, homePathFor, safeRedirectTo } from "~/lib/auth.server";
@@ -9,7 +10,9 @@ import { assertSameOrigin } from "~/lib/auth/same-origin.server";
 import { loadUser } from "~/lib/auth/session.server";
 import { waitMessage } from "~/lib/auth/throttle.server";
 
-type Door = "adult" | "student";
+// The door a form came through; an unknown one is treated as the adults' door.
+const doorSchema = z.enum(["adult", "student"]).catch("adult");
+type Door = z.infer<typeof doorSchema>;
 
 export type SignInActionData = {
   door: Door;
@@ -56,9 +59,9 @@ function firstErrors(issues: { path: PropertyKey[]; message: string }[]) {
 export async function action({ request }: Route.ActionArgs) {
   assertSameOrigin(request);
   const form = await request.formData();
-  const door: Door = form.get("door") === "student" ? "student" : "adult";
-  const redirectTo = safeRedirectTo(form.get("redirectTo"));
   const raw = Object.fromEntries([...form.entries()].filter(([, v]) => typeof v === "string")) as Record<string, string>;
+  const door: Door = doorSchema.parse(raw.door);
+  const redirectTo = safeRedirectTo(raw.redirectTo);
   const values =
     door === "adult"
       ? { email: (raw.email ?? "").trim() }

@@ -3,12 +3,16 @@
 // GET shows both choices, for people who arrive by link or without JavaScript.
 import { Form, Link, redirect } from "react-router";
 import { eq, sql } from "drizzle-orm";
+import { z } from "zod";
 import type { Route } from "./+types/sign-out";
 import { db } from "~/db/client.server";
 import { users } from "~/db/schema.server";
 import { getUser, homePathFor } from "~/lib/auth.server";
 import { signOutCookies } from "~/lib/auth/auth-config.server";
 import { assertSameOrigin } from "~/lib/auth/same-origin.server";
+
+// Anything but "everywhere" signs out here only: signing out never fails for a malformed form.
+const formSchema = z.object({ intent: z.enum(["here", "everywhere"]).catch("here") });
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getUser(request);
@@ -21,8 +25,8 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   assertSameOrigin(request);
-  const form = await request.formData();
-  const everywhere = form.get("intent") === "everywhere";
+  const { intent } = formSchema.parse(Object.fromEntries(await request.formData()));
+  const everywhere = intent === "everywhere";
   if (everywhere) {
     const user = await getUser(request);
     if (user) {

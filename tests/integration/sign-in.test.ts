@@ -137,6 +137,13 @@ describe("Auth's own endpoints under /auth", () => {
     expect(forged.setCookies.some((c) => c.includes("session-token="))).toBe(false);
   });
 
+  it("send people to our own pages instead of showing Auth's built-in ones", async () => {
+    const visit = async (path: string) => (await runRoute(authRoute.loader as never, get(path))).location ?? "";
+    expect(await visit("/auth/signin")).toMatch(/^\/sign-in(\?|$)/);
+    expect(await visit("/auth/signout")).toBe("/sign-out");
+    expect(await visit("/auth/error?error=Configuration")).toMatch(/^\/sign-in\?error=Configuration/);
+  });
+
   it("answer the session with the user id and version only", async () => {
     const cookie = await sessionCookieFor("student");
     const session = await runRoute(authRoute.loader as never, get("/auth/session", { cookie }));
