@@ -1,5 +1,8 @@
 // A displayed equation, rendered by KaTeX on the server with MathML beside the HTML for screen readers.
-import { BlockMath } from "react-katex";
+// react-katex is a CommonJS package: its default import is the module object on the server and in the browser.
+import ReactKatex from "react-katex";
+
+const { BlockMath } = ReactKatex;
 
 export function Equation({ tex }: { tex: string }) {
   return (

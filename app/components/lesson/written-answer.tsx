@@ -9,12 +9,26 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
   const mine = fetcher.data?.answerId === id ? fetcher.data : undefined;
   const handedIn = saved?.handedIn || mine?.saved === "handed-in";
   const field = (name: "claim" | "evidence" | "reasoning", label: string, help: string) => (
-    <label className="mb-3 block">
-      <span className="block font-bold">{label}</span>
-      <span className="mb-1 block text-[length:var(--text-step--1)] text-ink-soft">{help}</span>
-      <textarea name={name} rows={3} maxLength={4000} className="field" defaultValue={saved?.[name] ?? ""} disabled={!canAnswer} aria-invalid={Boolean(mine?.errors?.[name])} />
-      {mine?.errors?.[name] && <span className="text-danger">{mine.errors[name]}</span>}
-    </label>
+    <div className="mb-3">
+      <label htmlFor={`${id}-${name}`} className="block font-bold">
+        {label}
+      </label>
+      <p id={`${id}-${name}-help`} className="mb-1 text-[length:var(--text-step--1)] text-ink-soft">
+        {help}
+      </p>
+      <textarea
+        id={`${id}-${name}`}
+        name={name}
+        rows={3}
+        maxLength={4000}
+        className="field"
+        defaultValue={saved?.[name] ?? ""}
+        disabled={!canAnswer}
+        aria-describedby={`${id}-${name}-help`}
+        aria-invalid={Boolean(mine?.errors?.[name])}
+      />
+      {mine?.errors?.[name] && <p className="text-danger">{mine.errors[name]}</p>}
+    </div>
   );
   return (
     <section id={`answer-${id}`} className="card my-8 scroll-mt-6 font-ui" aria-labelledby={`answer-${id}-title`}>

@@ -1,0 +1,179 @@
+// A student's lesson in a real browser: per-student numbers, feedback with hints, answers in another
+// unit, progress kept across a reload, no expected answer anywhere the browser can see, a whole
+// lesson from start to finish, an accessibility scan, and math that carries MathML.
+import { readFileSync } from "node:fs";
+import { createRequire } from "node:module";
+import { eq } from "drizzle-orm";
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/db/client.server";
+import { users } from "~/db/schema.server";
+import { exerciseInstance } from "~/lib/course.server";
+import { lessonExercises } from "~/lib/lessons.server";
+import { demoSignIns } from "../../drizzle/scripts/seed";
+import { appUrl, launchBrowser, openPage } from "./browser";
+
+const LESSON = "02-force-and-deformation";
+let browser: Browser;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function signInStudent(page: Page, who: { code: string; username: string; password: string }) {
+  await page.goto("/sign-in");
+  const door = page.locator("section", { has: page.locator('input[name="door"][value="student"]') });
+  await door.getByLabel("Class or family code").fill(who.code);
+  await door.getByLabel("Username").fill(who.username);
+  await door.getByLabel("Password").fill(who.password);
+  await door.getByRole("button").click();
+  await page.waitForURL(/\/learn/);
+}
+
+async function studentIdOf(username: string) {
+  const [row] = await db.select({ id: users.id }).from(users).where(eq(users.username, username));
+  return row.id;
+}
+
+/** The right answer of each exercise for a student, worked out the way the server does. */
+async function answersFor(username: string) {
+  const id = await studentIdOf(username);
+  return lessonExercises(LESSON).exercises.map((definition) => ({ definition, instance: exerciseInstance(id, LESSON, definition, []) }));
+}
+
+const exercise = (page: Page, id: string) => page.locator(`[data-exercise="${id}"]`);
+
+describe("a lesson in the browser", () => {
+  it("shows each student their own numbers, hints a wrong answer, accepts mm for cm and keeps progress after a reload", async () => {
+    const amira = await openPage(browser);
+    await signInStudent(amira.page, demoSignIns.student);
+    await amira.page.goto(`/learn/${LESSON}`);
+    const amiraPrompt = await exercise(amira.page, "deformation-from-readings").getByTestId("exercise-prompt").first().innerText();
+
+    const ben = await openPage(browser);
+    await signInStudent(ben.page, demoSignIns.secondStudent);
+    await ben.page.goto(`/learn/${LESSON}`);
+    const benPrompt = await exercise(ben.page, "deformation-from-readings").getByTestId("exercise-prompt").first().innerText();
+    expect(benPrompt).not.toBe(amiraPrompt);
+    await ben.context.close();
+
+    // Amira's numbers: "Its unloaded reading is X cm … the ruler reads Y cm."
+    const [unloaded, loaded] = [...amiraPrompt.matchAll(/(\d+(?:\.\d+)?) cm/g)].map((m) => Number(m[1]));
+    const box = exercise(amira.page, "deformation-from-readings");
+    await box.getByLabel(/Your answer/).fill(`${loaded} cm`);
+    await box.getByRole("button", { name: "Check my answer" }).click();
+    await expect(box.getByTestId("exercise-hint").textContent()).resolves.toMatch(/unloaded reading − loaded reading/);
+    await expect(box.getByTestId("exercise-feedback").textContent()).resolves.toMatch(/ruler reading with the load on/);
+
+    const mm = Math.round((unloaded - loaded) * 100) / 10;
+    await box.getByLabel(/Your answer/).fill(`${mm} mm`);
+    await box.getByRole("button", { name: "Check my answer" }).click();
+    await box.getByText("That's right.").waitFor();
+
+    await amira.page.reload();
+    await expect(exercise(amira.page, "deformation-from-readings").getByTestId("exercise-status").innerText()).resolves.toBe("Right");
+    await expect(amira.page.getByTestId("lesson-progress").innerText()).resolves.toMatch(/^1 of 6 exercises finished/);
+
+    await amira.page.goto("/learn");
+    await expect(amira.page.getByTestId(`path-${LESSON}`).innerText()).resolves.toMatch(/1 of 7 done/);
+    expect(amira.consoleErrors).toEqual([]);
+    await amira.context.close();
+  });
+
+  it("never sends an expected answer or a worked solution to the student's browser: not in the page, the loader data or the lesson bundle", async () => {
+    const { page, context } = await openPage(browser);
+    await signInStudent(page, { ...demoSignIns.student, username: "carmen.l" });
+    const html = await (await page.goto(`/learn/${LESSON}`))!.text();
+    const loaderData = await page.evaluate(async (url) => (await fetch(url)).text(), `/learn/${LESSON}.data`);
+    const bundleUrl = await page.locator('script[src^="/lesson-code/"]').getAttribute("src");
+    const bundle = await page.evaluate(async (url) => (await fetch(url!)).text(), bundleUrl);
+    const kinds = new Set<string>();
+    for (const { definition, instance } of await answersFor("carmen.l")) {
+      kinds.add(definition.kind);
+      for (const [name, body] of [["page", html], ["loader data", loaderData], ["bundle", bundle]] as const) {
+        for (const line of instance.solution.split("\n")) expect(body, `${definition.id} solution in the ${name}`).not.toContain(line);
+        for (const key of ["correctChoice", "\"expected\"", "\"cells\""]) expect(body, `${key} in the ${name}`).not.toContain(key);
+      }
+    }
+    expect(kinds).toEqual(new Set(["number", "table", "choice"]));
+    await context.close();
+  });
+
+  it("goes through the whole lesson from the prediction to the handed-in written answer", async () => {
+    const student = { ...demoSignIns.student, username: "dev.p" };
+    const { page, context, consoleErrors } = await openPage(browser);
+    await signInStudent(page, student);
+    await page.goto(`/learn/${LESSON}`);
+
+    // The data stays hidden until a prediction is committed.
+    await expect(page.getByRole("table", { name: /Craft stick/ }).count()).resolves.toBe(0);
+    await page.getByLabel("Stay about the same").check();
+    await page.getByRole("button", { name: /Commit my prediction/ }).click();
+    await page.getByRole("table", { name: /Craft stick/ }).waitFor();
+    await expect(page.getByText("Your prediction:").count()).resolves.toBe(1);
+
+    for (const { definition, instance } of await answersFor(student.username)) {
+      const box = exercise(page, definition.id);
+      if (definition.kind === "choice") {
+        const label = instance.choices!.find((c) => c.value === instance.correctChoice)!.label;
+        await box.getByLabel(label).check();
+        await box.getByLabel(/Why\?/).fill("I divided each force by its deformation and compared them.");
+      } else if (definition.kind === "table") {
+        const cells = box.locator('input[name="cell"]');
+        for (const [i, cell] of instance.cells!.entries()) await cells.nth(i).fill(`${cell.value} ${cell.unit}`);
+      } else {
+        await box.getByLabel(/Your answer/).fill(`${Number(instance.expected!.value.toPrecision(4))} ${instance.expected!.unit}`);
+      }
+      await box.getByRole("button", { name: "Check my answer" }).click();
+      await box.getByText("That's right.").waitFor();
+    }
+
+    const answer = page.locator("#answer-cer-stiffness");
+    await answer.getByLabel("Claim", { exact: true }).fill("The stick's stiffness is about the same at every load.");
+    await answer.getByLabel("Evidence", { exact: true }).fill("Force ÷ deformation gives about 2.5 N/cm for each reading up to 6 N.");
+    await answer.getByLabel("Reasoning", { exact: true }).fill("If the ratio stays the same, force and deformation grow together.");
+    await answer.getByRole("button", { name: "Hand in" }).click();
+    await answer.getByText(/Handed in/).waitFor();
+
+    await page.reload();
+    await expect(page.getByTestId("lesson-progress").innerText()).resolves.toMatch(/6 of 6 exercises finished · lesson complete/);
+    expect(consoleErrors).toEqual([]);
+    await context.close();
+  });
+
+  it("passes an accessibility scan (axe-core) with no serious or critical violation, and its math carries MathML", async () => {
+    // The scan script is injected by the test, so this context alone may bypass the page's CSP.
+    const { page, context } = await openPage(browser, { bypassCSP: true });
+    await signInStudent(page, { ...demoSignIns.student, username: "elif.s" });
+    await page.goto(`/learn/${LESSON}`);
+    await expect(page.locator("math").count()).resolves.toBeGreaterThan(2);
+    await expect(page.locator("annotation[encoding='application/x-tex']").count()).resolves.toBeGreaterThan(2);
+
+    const axeSource = readFileSync(createRequire(import.meta.url).resolve("axe-core/axe.min.js"), "utf8");
+    await page.addScriptTag({ content: axeSource });
+    const violations = await page.evaluate(async () => {
+      const result = await (window as unknown as { axe: { run: () => Promise<{ violations: { id: string; impact: string; nodes: unknown[] }[] }> } }).axe.run();
+      return result.violations.map((v) => ({ id: v.id, impact: v.impact, nodes: v.nodes.length }));
+    });
+    expect(violations.filter((v) => v.impact === "serious" || v.impact === "critical")).toEqual([]);
+    await context.close();
+  });
+
+  it("serves the lesson's code from the app's own origin with no eval needed", async () => {
+    const { page, context, consoleErrors } = await openPage(browser);
+    await signInStudent(page, { ...demoSignIns.student, username: "finn.o" });
+    const response = await page.goto(`/learn/${LESSON}`);
+    expect(response!.headers()["content-security-policy"]).not.toContain("unsafe-eval");
+    // Client-side navigation to another lesson loads its script on the way.
+    await page.getByRole("link", { name: /Next lesson/ }).click();
+    await page.waitForURL(/\/learn\/03-/);
+    await page.locator("h1").waitFor();
+    expect(await page.locator("article h1").innerText()).not.toBe("");
+    expect(consoleErrors).toEqual([]);
+    expect(new URL(appUrl).origin).toBe(new URL(page.url()).origin);
+    await context.close();
+  });
+});
