@@ -78,6 +78,14 @@ describe("the two doors of /sign-in", () => {
     expect(expires - Date.now()).toBeLessThanOrEqual(SESSION_HOURS.adult * 3600 * 1000);
   });
 
+  it("lets a student's session cookie go after 8 hours", async () => {
+    const result = await student(s.student.code, s.student.username, s.student.password);
+    const session = result.setCookies.find((c) => c.startsWith("authjs.session-token="))!;
+    const expires = Date.parse(/Expires=([^;]+)/.exec(session)![1]);
+    expect(expires - Date.now()).toBeGreaterThan((SESSION_HOURS.student * 3600 - 60) * 1000);
+    expect(expires - Date.now()).toBeLessThanOrEqual(SESSION_HOURS.student * 3600 * 1000);
+  });
+
   it("marks the cookie Secure, with the __Secure- prefix, when Bendwise is served over https", async () => {
     const config = buildAuthConfig({ AUTH_SECRET: "a".repeat(40), APP_URL: "https://bendwise.example" });
     const response = await Auth(

@@ -285,6 +285,11 @@ export async function signInThroughAuth(
     );
     const cookies = (response.cookies ?? []) as RawCookie[];
     const session = cookies.filter((c) => c.name.includes("authjs.session-token") && c.value);
+    // Auth gives every session cookie the adults' lifetime; a student's cookie goes when their session ends.
+    if (provider === "student-password") {
+      const ends = new Date(Date.now() + SESSION_HOURS.student * 3600_000);
+      for (const cookie of session) cookie.options = { ...cookie.options, expires: ends };
+    }
     if (session.length === 0) throw new Error("Auth answered a sign-in without a session cookie");
     return {
       ok: true,
