@@ -33,7 +33,7 @@ a{color:var(--accent)}:focus-visible{outline:3px solid #e09f00;outline-offset:2p
 
 function shell(title: string, body: string): string {
   return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width,initial-scale=1">
-<title>${escapeHtml(title)} · Loopback Pay (test mode)</title><style>${styles}</style></head>
+<title>${escapeHtml(title)} · Loopback Pay (test mode)</title><link rel="icon" href="data:,"><style>${styles}</style></head>
 <body><div class="mode" role="note">TEST MODE · Loopback Pay runs on this computer · no real money moves</div>
 <div class="wrap"><div class="brand">Loopback Pay</div>${body}</div></body></html>`;
 }
