@@ -16,7 +16,10 @@ export function contentSecurityPolicy(nonce: string): string {
     "img-src 'self' data: blob:",
     "font-src 'self'",
     "connect-src 'self'",
-    "form-action 'self' http://127.0.0.1:* http://localhost:*",
+    // A seat order form answers with a redirect to the payment service's hosted page: the local
+    // fake on loopback, or the real provider's checkout (without JavaScript the browser applies
+    // form-action to that redirect too).
+    "form-action 'self' http://127.0.0.1:* http://localhost:* https://checkout.stripe.com",
     "frame-ancestors 'none'",
     "base-uri 'self'",
     "object-src 'none'",
