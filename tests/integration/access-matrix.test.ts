@@ -13,11 +13,11 @@ import routes from "~/routes";
 import * as root from "~/root";
 import { db } from "~/db/client.server";
 import { classes } from "~/db/schema.server";
-import { get, post, runRoute, sessionCookieFor } from "./auth-helpers";
+import { get, post, runRoute, sessionCookieFor, userIdOf } from "./auth-helpers";
 
 const PERSONAS = ["anon", "schoolAdmin", "teacher", "student", "parent", "otherSchool"] as const;
 type Persona = (typeof PERSONAS)[number];
-type Ids = { mapleClass: string };
+type Ids = { mapleClass: string; harborClass: string; amira: string };
 type Row = { url: string | ((ids: Ids) => string); expect: Record<Persona, number> };
 
 /** One line per route: the URL to request, then the status for each persona in PERSONAS order. */
@@ -63,6 +63,31 @@ const matrix: Record<string, Row | Row[]> = {
   "/payments/stopped":          row(`/payments/stopped?purchase=${NO_SUCH_ID}`,    302, 404, 404, 404, 404, 404),
   "/api/payments/status":       row(`/api/payments/status?purchase=${NO_SUCH_ID}`, 401, 404, 404, 404, 404, 404),
   "/api/payments/webhook":      row("/api/payments/webhook",                       405, 405, 405, 405, 405, 405),
+  // Teaching (issue 6): "teacher" teaches MAPLE7A; "otherSchool" teaches HARBOR8 at the other school.
+  "/teach/classes":             row("/teach/classes",                              302, 403, 200, 403, 403, 200),
+  "/teach/classes/:classId/roster": [
+                                row((ids) => `/teach/classes/${ids.mapleClass}/roster`, 302, 403, 200, 403, 403, 404),
+                                row((ids) => `/teach/classes/${ids.harborClass}/roster`, 302, 403, 404, 403, 403, 200),
+  ],
+  "/teach/classes/:classId/settings": row((ids) => `/teach/classes/${ids.mapleClass}/settings`, 302, 403, 200, 403, 403, 404),
+  "/teach/classes/:classId/assignments": row((ids) => `/teach/classes/${ids.mapleClass}/assignments`, 302, 403, 200, 403, 403, 404),
+  "/teach/classes/:classId/gradebook": [
+                                row((ids) => `/teach/classes/${ids.mapleClass}/gradebook`, 302, 403, 200, 403, 403, 404),
+                                row(`/teach/classes/${NO_SUCH_ID}/gradebook`,      302, 403, 404, 403, 403, 404),
+  ],
+  "/teach/classes/:classId/gradebook/csv": row((ids) => `/teach/classes/${ids.mapleClass}/gradebook/csv`, 302, 403, 200, 403, 403, 404),
+  "/teach/classes/:classId/students/:studentId": [
+                                row((ids) => `/teach/classes/${ids.mapleClass}/students/${ids.amira}`, 302, 403, 200, 403, 403, 404),
+                                row((ids) => `/teach/classes/${ids.harborClass}/students/${ids.amira}`, 302, 403, 404, 403, 403, 404),
+  ],
+  "/teach/classes/:classId/lessons/:slug": row((ids) => `/teach/classes/${ids.mapleClass}/lessons/02-force-and-deformation`, 302, 403, 200, 403, 403, 404),
+  "/teach/classes/:classId/lessons/:slug/exercises/:exerciseId": row((ids) => `/teach/classes/${ids.mapleClass}/lessons/02-force-and-deformation/exercises/deformation-from-readings`, 302, 403, 200, 403, 403, 404),
+  "/teach/classes/:classId/lessons/:slug/exercises/:exerciseId/csv": row((ids) => `/teach/classes/${ids.mapleClass}/lessons/02-force-and-deformation/exercises/deformation-from-readings/csv`, 302, 403, 200, 403, 403, 404),
+  "/api/teach/classes/:classId/gradebook": [
+                                row((ids) => `/api/teach/classes/${ids.mapleClass}/gradebook`, 302, 403, 200, 403, 403, 404),
+                                row((ids) => `/api/teach/classes/${ids.harborClass}/gradebook`, 302, 403, 404, 403, 403, 200),
+  ],
+  "/school/classes":            row("/school/classes",                             302, 200, 403, 403, 403, 403),
 };
 
 /** Routes whose posts are checked by something other than assertSameOrigin, and why. */
@@ -97,7 +122,8 @@ let ids: Ids;
 beforeAll(async () => {
   for (const [persona, person] of Object.entries(PEOPLE)) cookies[persona as Persona] = await sessionCookieFor(person);
   const [mapleClass] = await db.select({ id: classes.id }).from(classes).where(and(eq(classes.signInCode, "MAPLE7A")));
-  ids = { mapleClass: mapleClass.id };
+  const [harborClass] = await db.select({ id: classes.id }).from(classes).where(eq(classes.signInCode, "HARBOR8"));
+  ids = { mapleClass: mapleClass.id, harborClass: harborClass.id, amira: await userIdOf("student") };
 }, 120_000);
 
 describe("access matrix", () => {

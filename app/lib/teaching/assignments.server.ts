@@ -7,13 +7,9 @@ import { findLesson, listLessons } from "~/lib/lessons.server";
 import type { TeacherClass } from "./classes.server";
 import { lessonPolicies } from "./policy.server";
 
-type Db = { db: Database };
+export { LATE_POLICY_WORDS } from "./shared";
 
-export const LATE_POLICY_WORDS: Record<LatePolicy, string> = {
-  accept: "Late work counts in full",
-  penalty: "Late work loses points per day",
-  closed: "Closed at the due date",
-};
+type Db = { db: Database };
 
 export const MAX_PENALTY_PERCENT = 100;
 export const MAX_EXTRA_ATTEMPTS = 20;

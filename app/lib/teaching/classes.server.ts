@@ -149,3 +149,15 @@ export async function renewClassCode({ db }: Db, klass: TeacherClass): Promise<s
 export async function setArchived({ db }: Db, klass: TeacherClass, archived: boolean) {
   await db.update(classes).set({ archivedAt: archived ? new Date() : null }).where(eq(classes.id, klass.id));
 }
+
+/** What the class header shows. */
+export function classHeading(klass: TeacherClass) {
+  return {
+    id: klass.id,
+    name: klass.name,
+    schoolYear: klass.schoolYear,
+    schoolName: klass.schoolName,
+    code: spacedCode(klass.signInCode),
+    archived: klass.archivedAt !== null,
+  };
+}

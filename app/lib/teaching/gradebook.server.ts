@@ -30,101 +30,15 @@ import {
 import { attemptsAllowed } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { effectiveAccommodation } from "./policy.server";
-import { DAY_MS, daysLate } from "./time";
+import { DAY_MS, daysLate, formatDue } from "./time";
+import type { ClassSummary, Gradebook, GradebookCell, GradebookLesson, GradebookRow } from "./shared";
+
+export type { ClassSummary, Gradebook, GradebookCell, GradebookLesson, GradebookRow } from "./shared";
 
 type Db = { db: Database };
 
 export const STUCK_AFTER_WRONG = 2;
 const FREE = sql.raw(`('unreadable', 'not-checkable')`);
-
-export interface GradebookLesson {
-  assignmentId: string;
-  slug: string;
-  number: number | null;
-  title: string;
-  opensAt: string;
-  dueAt: string;
-  latePolicy: LatePolicy;
-  latePenaltyPercent: number;
-  opened: boolean;
-  exercises: { id: string; title: string; required: boolean }[];
-  /** false for a lesson that has left the course since it was assigned */
-  inCourse: boolean;
-}
-
-export type CellStatus = "not-started" | "working" | "complete";
-
-export interface GradebookCell {
-  status: CellStatus;
-  requiredDone: number;
-  requiredTotal: number;
-  /** 0–100, or null before the student starts */
-  score: number | null;
-  /** the student's own due date */
-  dueAt: string;
-  /** the student has an accommodation for this lesson (shown to the teacher only) */
-  accommodated: boolean;
-  overdue: boolean;
-  finishedLate: boolean;
-  /** ids of exercises the student is stuck on */
-  stuckOn: string[];
-  /** written answers handed in and not yet reviewed (or handed in again since) */
-  toReview: number;
-  lastActivity: string | null;
-}
-
-export interface GradebookStudent {
-  id: string;
-  displayName: string;
-  username: string | null;
-  studentNumber: string | null;
-}
-
-export interface GradebookRow {
-  student: GradebookStudent;
-  cells: Record<string, GradebookCell>;
-  lessonsComplete: number;
-  /** the mean score of every open lesson, a lesson not started counting 0; null with no open lesson */
-  averageScore: number | null;
-  notStarted: boolean;
-  late: boolean;
-  stuck: boolean;
-}
-
-export interface ClassSummary {
-  students: number;
-  lessons: number;
-  /** complete cells ÷ (students × lessons), 0–100 */
-  completePercent: number | null;
-  averageScore: number | null;
-  notStarted: number;
-  late: number;
-  stuck: number;
-  toReview: number;
-}
-
-export interface Gradebook {
-  classId: string;
-  lessons: GradebookLesson[];
-  rows: GradebookRow[];
-  summary: ClassSummary;
-  generatedAt: string;
-}
-
-export type GradebookFilter = "everyone" | "not-started" | "late" | "stuck";
-export const GRADEBOOK_FILTERS: { value: GradebookFilter; label: string }[] = [
-  { value: "everyone", label: "Everyone" },
-  { value: "not-started", label: "Not started" },
-  { value: "late", label: "Late" },
-  { value: "stuck", label: "Stuck" },
-];
-
-export function filterRows(rows: GradebookRow[], filter: GradebookFilter): GradebookRow[] {
-  if (filter === "not-started") return rows.filter((r) => r.notStarted);
-  if (filter === "late") return rows.filter((r) => r.late);
-  if (filter === "stuck") return rows.filter((r) => r.stuck);
-  return rows;
-}
 
 /** The credit (0–1) of a right answer given at `at` for a student whose due date is `due`. */
 export function lateCredit(at: Date, due: Date, policy: LatePolicy, penaltyPercent: number): number {
@@ -317,3 +231,13 @@ function summarise(rows: GradebookRow[], lessons: GradebookLesson[]): ClassSumma
     toReview: cells.reduce((sum, c) => sum + c.toReview, 0),
   };
 }
+
+/** The gradebook as the page and its JSON route send it: dates already written in the class's time zone. */
+export function gradebookView(book: Gradebook, timeZone: string, now: Date = new Date()) {
+  return {
+    ...book,
+    lessons: book.lessons.map((l) => ({ ...l, dueText: formatDue(l.dueAt, timeZone, now), opensText: formatDue(l.opensAt, timeZone, now) })),
+    updatedText: new Intl.DateTimeFormat("en-GB", { timeZone, hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23" }).format(new Date(book.generatedAt)),
+  };
+}
+export type GradebookView = ReturnType<typeof gradebookView>;

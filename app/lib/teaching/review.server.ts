@@ -6,21 +6,9 @@ import { writtenAnswers } from "~/db/schema.server";
 
 type Db = { db: Database };
 
-export const RUBRIC = [
-  { key: "claim", label: "Claim", levels: ["Missing or off the question", "Answers the question, but vaguely", "A clear, precise answer to the question"] },
-  { key: "evidence", label: "Evidence", levels: ["No data", "Some data, not all of it fits", "The right numbers from the data, with units"] },
-  { key: "reasoning", label: "Reasoning", levels: ["No link to the science", "A link, partly explained", "Explains why the evidence supports the claim"] },
-] as const;
+import type { RubricScores } from "./shared";
 
-export type RubricScores = { claim: number; evidence: number; reasoning: number };
-
-export function isRubricScores(value: unknown): value is RubricScores {
-  if (!value || typeof value !== "object") return false;
-  const v = value as Record<string, unknown>;
-  return RUBRIC.every((r) => Number.isInteger(v[r.key]) && (v[r.key] as number) >= 0 && (v[r.key] as number) <= 2);
-}
-
-export const rubricTotal = (s: RubricScores) => s.claim + s.evidence + s.reasoning;
+export { RUBRIC, isRubricScores, rubricTotal, type RubricScores } from "./shared";
 
 /**
  * Saves the review of a handed-in answer. The caller has checked that the student is in one of the

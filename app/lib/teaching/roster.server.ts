@@ -15,6 +15,9 @@ import { checkNewPassword } from "~/lib/auth/password-rules.server";
 import { hashPassword } from "~/lib/passwords.server";
 import { enrollStudentUsingSeat, releaseSeat, seatLedgerForYear } from "~/lib/seats.server";
 import type { TeacherClass } from "./classes.server";
+import type { RosterProblem } from "./shared";
+
+export { problemPlace, type RosterProblem } from "./shared";
 
 type Db = { db: Database };
 type Tx = Parameters<Parameters<Database["transaction"]>[0]>[0];
@@ -80,19 +83,13 @@ export interface RosterRow {
   studentNumber: string;
 }
 
-export interface RosterProblem {
-  /** the file's row (1 is the header), or null for the file as a whole */
-  row: number | null;
-  /** the column's name as the file has it, or null */
-  column: string | null;
-  message: string;
-}
-
 export interface RosterPreview {
   rows: RosterRow[];
   problems: RosterProblem[];
   /** columns the file has that we do not keep (children's data: only what is needed) */
   ignoredColumns: string[];
+  /** the column names as the file writes them */
+  columns: { displayName: string; username: string; studentNumber: string };
   seats: { schoolYear: string; free: number };
 }
 
@@ -103,12 +100,6 @@ const COLUMN_NAMES: Record<"displayName" | "username" | "studentNumber", string[
 };
 
 const squash = (header: string) => header.toLowerCase().replace(/[^a-z0-9]/g, "");
-
-/** Where a problem is: "Row 4, column “username”" or "The file". */
-export function problemPlace(problem: RosterProblem): string {
-  if (problem.row === null) return problem.column ? `Column “${problem.column}”` : "The file";
-  return problem.column ? `Row ${problem.row}, column “${problem.column}”` : `Row ${problem.row}`;
-}
 
 /**
  * Reads a roster CSV (a header row, then one student a row) and names every problem by row and
@@ -148,7 +139,7 @@ export async function previewRoster({ db }: Db, klass: Pick<TeacherClass, "id" |
     });
   }
   problems.sort((a, b) => (a.row ?? 0) - (b.row ?? 0));
-  return { rows, problems, ignoredColumns, seats: { schoolYear: ledger.schoolYear, free: ledger.free } };
+  return { rows, problems, ignoredColumns, columns, seats: { schoolYear: ledger.schoolYear, free: ledger.free } };
 }
 
 const stripBom = (text: string) => text.replace(/^\uFEFF/, "");

@@ -1,0 +1,58 @@
+// Scoring one written answer on the claim / evidence / reasoning rubric (0–2 each) with a comment the
+// student reads on their lesson page. Sent with a fetcher, so the page stays where the teacher is.
+import { useId } from "react";
+import { useFetcher } from "react-router";
+import { RUBRIC, type RubricScores } from "~/lib/teaching/shared";
+
+export interface ReviewedAnswer {
+  studentId: string;
+  slug: string;
+  answerId: string;
+  handedIn: boolean;
+  scores: RubricScores | null;
+  comment: string | null;
+}
+
+export function ReviewForm({ answer, action }: { answer: ReviewedAnswer; action: string }) {
+  const fetcher = useFetcher<{ reviewed?: string; error?: string }>();
+  const id = useId();
+  const key = `${answer.studentId}/${answer.slug}/${answer.answerId}`;
+  const saved = fetcher.data?.reviewed === key;
+  if (!answer.handedIn) return <p className="text-ink-soft">This answer is still a draft; you can review it once it is handed in.</p>;
+  return (
+    <fetcher.Form method="post" action={action} className="mt-3 rounded-lg bg-paper p-3" aria-labelledby={`${id}-title`}>
+      <h4 id={`${id}-title`} className="mb-2 font-bold">Your review</h4>
+      <input type="hidden" name="intent" value="review" />
+      <input type="hidden" name="studentId" value={answer.studentId} />
+      <input type="hidden" name="slug" value={answer.slug} />
+      <input type="hidden" name="answerId" value={answer.answerId} />
+      <div className="grid gap-3 md:grid-cols-3">
+        {RUBRIC.map((criterion) => (
+          <fieldset key={criterion.key} className="rounded border border-rule bg-card p-2">
+            <legend className="px-1 font-bold">{criterion.label}</legend>
+            {criterion.levels.map((words, points) => (
+              <label key={points} className="flex items-start gap-2 py-0.5">
+                <input type="radio" name={criterion.key} value={points} required defaultChecked={answer.scores?.[criterion.key] === points} className="mt-1.5" />
+                <span>
+                  <strong>{points}</strong> — {words}
+                </span>
+              </label>
+            ))}
+          </fieldset>
+        ))}
+      </div>
+      <label htmlFor={`${id}-comment`} className="mt-3 mb-1 block font-bold">
+        Comment for the student
+      </label>
+      <textarea id={`${id}-comment`} name="comment" rows={3} maxLength={2000} className="field" defaultValue={answer.comment ?? ""} />
+      <div className="mt-2 flex flex-wrap items-center gap-3">
+        <button type="submit" className="btn" disabled={fetcher.state !== "idle"}>
+          Save the review
+        </button>
+        <span aria-live="polite" className={fetcher.data?.error ? "font-bold text-danger" : "font-bold text-ok"}>
+          {fetcher.data?.error ?? (saved ? "Saved. The student sees your comment on their lesson page." : "")}
+        </span>
+      </div>
+    </fetcher.Form>
+  );
+}

@@ -1,0 +1,138 @@
+// Small pieces shared by the teaching pages: labelled fields with their messages, notices, and the
+// header with its tabs that every page of a class carries.
+import { useId } from "react";
+import { NavLink } from "react-router";
+
+type InputProps = React.InputHTMLAttributes<HTMLInputElement> & { name: string };
+
+/** A labelled input; its hint and error are tied to it for screen readers. */
+export function TextField({ label, hint, error, className, ...input }: { label: string; hint?: string; error?: string } & InputProps) {
+  const id = useId();
+  const describedBy = [hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ") || undefined;
+  return (
+    <div className={className ?? "mb-4"}>
+      <label htmlFor={id} className="mb-1 block font-bold">
+        {label}
+      </label>
+      {hint ? (
+        <p id={`${id}-hint`} className="mb-1 text-[length:var(--text-step--1)] text-ink-soft">
+          {hint}
+        </p>
+      ) : null}
+      <input id={id} className="field" aria-invalid={error ? true : undefined} aria-describedby={describedBy} {...input} />
+      {error ? (
+        <p id={`${id}-error`} className="mt-1 text-[length:var(--text-step--1)] font-bold text-danger">
+          {error}
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
+export function SelectField({
+  label,
+  hint,
+  error,
+  options,
+  className,
+  ...select
+}: {
+  label: string;
+  hint?: string;
+  error?: string;
+  options: { value: string; label: string }[];
+} & React.SelectHTMLAttributes<HTMLSelectElement> & { name: string }) {
+  const id = useId();
+  const describedBy = [hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ") || undefined;
+  return (
+    <div className={className ?? "mb-4"}>
+      <label htmlFor={id} className="mb-1 block font-bold">
+        {label}
+      </label>
+      {hint ? (
+        <p id={`${id}-hint`} className="mb-1 text-[length:var(--text-step--1)] text-ink-soft">
+          {hint}
+        </p>
+      ) : null}
+      <select id={id} className="field" aria-invalid={error ? true : undefined} aria-describedby={describedBy} {...select}>
+        {options.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
+      </select>
+      {error ? (
+        <p id={`${id}-error`} className="mt-1 text-[length:var(--text-step--1)] font-bold text-danger">
+          {error}
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
+/** A message box: "problem" for refusals, "done" for confirmations, "info" for the rest. */
+export function Notice({ tone, children, id }: { tone: "problem" | "done" | "info"; children: React.ReactNode; id?: string }) {
+  const styles = {
+    problem: "border-danger bg-[#fdecee]",
+    done: "border-ok bg-[#e7f3ea]",
+    info: "border-spruce bg-spruce-wash",
+  }[tone];
+  return (
+    <div id={id} role={tone === "problem" ? "alert" : "status"} className={`mb-4 rounded-lg border-l-4 px-4 py-3 text-ink ${styles}`}>
+      {children}
+    </div>
+  );
+}
+
+export interface ClassHeading {
+  id: string;
+  name: string;
+  schoolYear: string;
+  schoolName: string;
+  code: string;
+  archived: boolean;
+}
+
+const TABS = [
+  { to: "gradebook", label: "Gradebook" },
+  { to: "roster", label: "Students" },
+  { to: "assignments", label: "Lessons assigned" },
+  { to: "settings", label: "Class settings" },
+];
+
+/** The class's name, code and tabs, at the top of every page of the class. */
+export function ClassHeader({ klass, title }: { klass: ClassHeading; title?: string }) {
+  return (
+    <header className="mb-6">
+      <p className="mb-1 text-[length:var(--text-step--1)]">
+        <NavLink to="/teach/classes">Your classes</NavLink> <span className="text-ink-soft">· {klass.schoolName}</span>
+      </p>
+      <h1 className="mb-1 text-[length:var(--text-step-3)]">
+        {klass.name}
+        {title ? <span className="block text-[length:var(--text-step-1)] text-ink-soft">{title}</span> : null}
+      </h1>
+      <p className="mb-4 text-ink-soft">
+        {klass.schoolYear} · class code <strong className="font-mono text-ink" data-testid="class-code">{klass.code}</strong>
+        {klass.archived ? <strong className="ml-2 text-danger">Archived</strong> : null}
+      </p>
+      <nav aria-label="This class" className="-mx-1 flex flex-wrap gap-1 border-b border-rule pb-2">
+        {TABS.map((tab) => (
+          <NavLink
+            key={tab.to}
+            to={`/teach/classes/${klass.id}/${tab.to}`}
+            className={({ isActive }) =>
+              `rounded-md px-3 py-1.5 font-bold no-underline ${isActive ? "bg-spruce text-white hover:text-white" : "text-spruce hover:bg-spruce-wash"}`
+            }
+            end={false}
+          >
+            {tab.label}
+          </NavLink>
+        ))}
+      </nav>
+    </header>
+  );
+}
+
+export function Percent({ value, empty = "—" }: { value: number | null; empty?: string }) {
+  return <>{value === null ? empty : `${value}%`}</>;
+}

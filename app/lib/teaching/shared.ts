@@ -1,0 +1,131 @@
+// The parts of the teaching model that pages render in the browser too: the gradebook's shapes and
+// filters, the late-work rules' names, the review rubric and how roster problems are placed.
+// No database here (the *.server.ts modules hold that).
+/** The same values as the late_policy enum in the schema. */
+export type LatePolicy = "accept" | "penalty" | "closed";
+
+export interface GradebookLesson {
+  assignmentId: string;
+  slug: string;
+  number: number | null;
+  title: string;
+  opensAt: string;
+  dueAt: string;
+  latePolicy: LatePolicy;
+  latePenaltyPercent: number;
+  opened: boolean;
+  exercises: { id: string; title: string; required: boolean }[];
+  /** false for a lesson that has left the course since it was assigned */
+  inCourse: boolean;
+}
+
+export type CellStatus = "not-started" | "working" | "complete";
+
+export interface GradebookCell {
+  status: CellStatus;
+  requiredDone: number;
+  requiredTotal: number;
+  /** 0–100, or null before the student starts */
+  score: number | null;
+  /** the student's own due date */
+  dueAt: string;
+  /** the student has an accommodation for this lesson (shown to the teacher only) */
+  accommodated: boolean;
+  overdue: boolean;
+  finishedLate: boolean;
+  /** ids of exercises the student is stuck on */
+  stuckOn: string[];
+  /** written answers handed in and not yet reviewed (or handed in again since) */
+  toReview: number;
+  lastActivity: string | null;
+}
+
+export interface GradebookStudent {
+  id: string;
+  displayName: string;
+  username: string | null;
+  studentNumber: string | null;
+}
+
+export interface GradebookRow {
+  student: GradebookStudent;
+  cells: Record<string, GradebookCell>;
+  lessonsComplete: number;
+  /** the mean score of every open lesson, a lesson not started counting 0; null with no open lesson */
+  averageScore: number | null;
+  notStarted: boolean;
+  late: boolean;
+  stuck: boolean;
+}
+
+export interface ClassSummary {
+  students: number;
+  lessons: number;
+  /** complete cells ÷ (students × lessons), 0–100 */
+  completePercent: number | null;
+  averageScore: number | null;
+  notStarted: number;
+  late: number;
+  stuck: number;
+  toReview: number;
+}
+
+export interface Gradebook {
+  classId: string;
+  lessons: GradebookLesson[];
+  rows: GradebookRow[];
+  summary: ClassSummary;
+  generatedAt: string;
+}
+
+export type GradebookFilter = "everyone" | "not-started" | "late" | "stuck";
+export const GRADEBOOK_FILTERS: { value: GradebookFilter; label: string }[] = [
+  { value: "everyone", label: "Everyone" },
+  { value: "not-started", label: "Not started" },
+  { value: "late", label: "Late" },
+  { value: "stuck", label: "Stuck" },
+];
+
+export function filterRows(rows: GradebookRow[], filter: GradebookFilter): GradebookRow[] {
+  if (filter === "not-started") return rows.filter((r) => r.notStarted);
+  if (filter === "late") return rows.filter((r) => r.late);
+  if (filter === "stuck") return rows.filter((r) => r.stuck);
+  return rows;
+}
+
+export const LATE_POLICY_WORDS: Record<LatePolicy, string> = {
+  accept: "Late work counts in full",
+  penalty: "Late work loses points per day",
+  closed: "Closed at the due date",
+};
+
+export const RUBRIC = [
+  { key: "claim", label: "Claim", levels: ["Missing or off the question", "Answers the question, but vaguely", "A clear, precise answer to the question"] },
+  { key: "evidence", label: "Evidence", levels: ["No data", "Some data, not all of it fits", "The right numbers from the data, with units"] },
+  { key: "reasoning", label: "Reasoning", levels: ["No link to the science", "A link, partly explained", "Explains why the evidence supports the claim"] },
+] as const;
+
+export type RubricScores = { claim: number; evidence: number; reasoning: number };
+
+export function isRubricScores(value: unknown): value is RubricScores {
+  if (!value || typeof value !== "object") return false;
+  const v = value as Record<string, unknown>;
+  return RUBRIC.every((r) => Number.isInteger(v[r.key]) && (v[r.key] as number) >= 0 && (v[r.key] as number) <= 2);
+}
+
+export const rubricTotal = (s: RubricScores) => s.claim + s.evidence + s.reasoning;
+
+export interface RosterProblem {
+  /** the file's row (1 is the header), or null for the file as a whole */
+  row: number | null;
+  /** the column's name as the file has it, or null */
+  column: string | null;
+  message: string;
+}
+
+/** Where a problem is: "Row 4, column “username”" or "The file". */
+export function problemPlace(problem: RosterProblem): string {
+  if (problem.row === null) return problem.column ? `Column “${problem.column}”` : "The file";
+  return problem.column ? `Row ${problem.row}, column “${problem.column}”` : `Row ${problem.row}`;
+}
+

@@ -1,0 +1,156 @@
+// /teach/classes/:classId/gradebook: students × assigned lessons, with completion and score, and the
+// filters "not started", "late" and "stuck". While the page is open it refreshes itself about every
+// 30 seconds from the JSON route through a fetcher (no reload), and pauses while the tab is hidden.
+// `?refresh=<seconds>` (2 to 30) shortens the interval; the browser tests use it to stay fast.
+import { useEffect, useRef } from "react";
+import { Link, useFetcher, useSearchParams, type ShouldRevalidateFunctionArgs } from "react-router";
+import type { Route } from "./+types/teach.classes.$classId.gradebook";
+import { db } from "~/db/client.server";
+import { classHeading } from "~/lib/teaching/classes.server";
+import { gradebookView, loadGradebook, type GradebookView } from "~/lib/teaching/gradebook.server";
+import { GRADEBOOK_FILTERS, filterRows, type GradebookFilter } from "~/lib/teaching/shared";
+import { requireTeacherClass } from "~/lib/teaching/guard.server";
+import { ClassHeader, Percent } from "~/components/teaching/ui";
+import { GradebookTable } from "~/components/teaching/gradebook-table";
+
+export const DEFAULT_REFRESH_SECONDS = 30;
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { klass } = await requireTeacherClass(request, params.classId);
+  const book = await loadGradebook({ db }, klass.id);
+  const asked = Number(new URL(request.url).searchParams.get("refresh"));
+  const refreshSeconds = Number.isFinite(asked) && asked >= 2 && asked <= DEFAULT_REFRESH_SECONDS ? asked : DEFAULT_REFRESH_SECONDS;
+  return { klass: classHeading(klass), gradebook: gradebookView(book, klass.timeZone), refreshSeconds };
+}
+
+// Changing the filter only changes the query string; the rows are already here.
+export function shouldRevalidate({ currentUrl, nextUrl, formMethod, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
+  if (!formMethod && currentUrl.pathname === nextUrl.pathname) {
+    const strip = (u: URL) => {
+      const p = new URLSearchParams(u.search);
+      p.delete("show");
+      return p.toString();
+    };
+    if (strip(currentUrl) === strip(nextUrl)) return false;
+  }
+  return defaultShouldRevalidate;
+}
+
+/** Loads the JSON route every `seconds` while the tab is visible, and at once when it becomes visible again. */
+function useLiveGradebook(classId: string, seconds: number, initial: GradebookView) {
+  const fetcher = useFetcher<{ gradebook: GradebookView }>();
+  const load = useRef(fetcher.load);
+  load.current = fetcher.load;
+  const busy = useRef(false);
+  busy.current = fetcher.state !== "idle";
+  useEffect(() => {
+    const url = `/api/teach/classes/${classId}/gradebook`;
+    const refresh = () => {
+      if (document.visibilityState === "visible" && !busy.current) void load.current(url);
+    };
+    const timer = window.setInterval(refresh, seconds * 1000);
+    const onVisibility = () => {
+      if (document.visibilityState === "visible") refresh();
+    };
+    document.addEventListener("visibilitychange", onVisibility);
+    return () => {
+      window.clearInterval(timer);
+      document.removeEventListener("visibilitychange", onVisibility);
+    };
+  }, [classId, seconds]);
+  const fresh = fetcher.data?.gradebook;
+  // The newer of the page's data and the fetcher's (the page's is newer right after a navigation).
+  const book = fresh && fresh.generatedAt > initial.generatedAt ? fresh : initial;
+  return { book, refreshing: fetcher.state === "loading", refreshNow: () => void fetcher.load(`/api/teach/classes/${classId}/gradebook`) };
+}
+
+export default function GradebookPage({ loaderData }: Route.ComponentProps) {
+  const { klass, refreshSeconds } = loaderData;
+  const { book, refreshing, refreshNow } = useLiveGradebook(klass.id, refreshSeconds, loaderData.gradebook);
+  const [params] = useSearchParams();
+  const filter = (GRADEBOOK_FILTERS.find((f) => f.value === params.get("show"))?.value ?? "everyone") as GradebookFilter;
+  const rows = filterRows(book.rows, filter);
+  const counts: Record<GradebookFilter, number> = {
+    everyone: book.rows.length,
+    "not-started": book.summary.notStarted,
+    late: book.summary.late,
+    stuck: book.summary.stuck,
+  };
+  const withParams = (show: GradebookFilter) => {
+    const next = new URLSearchParams(params);
+    if (show === "everyone") next.delete("show");
+    else next.set("show", show);
+    const text = next.toString();
+    return text ? `?${text}` : ".";
+  };
+
+  return (
+    <div className="mx-auto max-w-6xl px-5 py-10">
+      <ClassHeader klass={klass} />
+      <div className="mb-4 flex flex-wrap items-baseline justify-between gap-3">
+        <p>
+          {book.summary.students} students · {book.summary.lessons} lessons assigned · lesson work done: <Percent value={book.summary.completePercent} /> ·
+          average score: <Percent value={book.summary.averageScore} />
+          {book.summary.toReview > 0 ? <> · <strong>{book.summary.toReview}</strong> written {book.summary.toReview === 1 ? "answer" : "answers"} to review</> : null}
+        </p>
+        <p className="flex flex-wrap gap-3">
+          <a className="btn btn-quiet" href={`/teach/classes/${klass.id}/gradebook/csv`} download>
+            Download as CSV
+          </a>
+        </p>
+      </div>
+
+      <nav aria-label="Show" className="mb-3 flex flex-wrap gap-2">
+        {GRADEBOOK_FILTERS.map((f) => (
+          <Link
+            key={f.value}
+            to={withParams(f.value)}
+            preventScrollReset
+            replace
+            aria-current={filter === f.value ? "true" : undefined}
+            className={`rounded-full border-2 px-3 py-1 font-bold no-underline ${filter === f.value ? "border-spruce bg-spruce text-white hover:text-white" : "border-spruce text-spruce hover:bg-spruce-wash"}`}
+          >
+            {f.label} ({counts[f.value]})
+          </Link>
+        ))}
+      </nav>
+      <p className="mb-4 text-[length:var(--text-step--1)] text-ink-soft" data-testid="gradebook-updated">
+        Updated {book.updatedText} · refreshes every {refreshSeconds} s while this page is open{" "}
+        <button type="button" className="ml-2 underline text-spruce" onClick={refreshNow} disabled={refreshing}>
+          {refreshing ? "Refreshing…" : "Refresh now"}
+        </button>
+      </p>
+
+      {book.lessons.length === 0 ? (
+        <p>
+          No lessons are assigned yet. <Link to={`/teach/classes/${klass.id}/assignments`}>Assign a lesson</Link> and the gradebook fills in as students work.
+        </p>
+      ) : book.rows.length === 0 ? (
+        <p>
+          No students yet. <Link to={`/teach/classes/${klass.id}/roster`}>Add students</Link>.
+        </p>
+      ) : rows.length === 0 ? (
+        <p data-testid="gradebook-empty-filter">Nobody in this class matches “{GRADEBOOK_FILTERS.find((f) => f.value === filter)?.label}”.</p>
+      ) : (
+        <GradebookTable classId={klass.id} book={book} rows={rows} />
+      )}
+      <Legend />
+    </div>
+  );
+}
+
+function Legend() {
+  return (
+    <details className="mt-6 text-[length:var(--text-step--1)]">
+      <summary className="cursor-pointer font-bold text-spruce">What the gradebook shows</summary>
+      <ul className="mt-2 list-disc space-y-1 pl-5">
+        <li>Each cell: how many of the lesson's required parts are done (exercises right or out of tries, written answers handed in) and the score.</li>
+        <li>Score: the share of required exercises answered right; late answers count as the lesson's late-work rule says.</li>
+        <li>Late: past the student's due date and not finished, or finished after it. Stuck: two or more wrong answers to an exercise and none right yet.</li>
+        <li>Average: every lesson already open, a lesson not started counting as 0.</li>
+      </ul>
+    </details>
+  );
+}
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Gradebook · ${data?.klass.name ?? "Class"} — Bendwise` }];

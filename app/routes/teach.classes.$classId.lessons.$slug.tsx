@@ -1,0 +1,138 @@
+// /teach/classes/:classId/lessons/:slug: one lesson in one class. Item analysis of each exercise (right
+// at the first try, tries on average, the usual wrong answers) and the written answers to review.
+import { Link } from "react-router";
+import type { Route } from "./+types/teach.classes.$classId.lessons.$slug";
+import { db } from "~/db/client.server";
+import { assertSameOrigin } from "~/lib/auth.server";
+import { analyseItems, classAttempts } from "~/lib/teaching/analysis.server";
+import { classAssignments } from "~/lib/teaching/assignments.server";
+import { classHeading } from "~/lib/teaching/classes.server";
+import { requireTeacherClass } from "~/lib/teaching/guard.server";
+import { requireLesson } from "~/lib/teaching/lesson-guard.server";
+import { reviewAction } from "~/lib/teaching/review-action.server";
+import { classRoster } from "~/lib/teaching/roster.server";
+import { LATE_POLICY_WORDS, isRubricScores, rubricTotal } from "~/lib/teaching/shared";
+import { lessonAnswersForClass } from "~/lib/teaching/student-work.server";
+import { formatDue, formatMoment } from "~/lib/teaching/time";
+import { ReviewForm } from "~/components/teaching/review-form";
+import { ClassHeader } from "~/components/teaching/ui";
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { klass } = await requireTeacherClass(request, params.classId);
+  const lesson = requireLesson(params.slug);
+  const [attempts, students, answers, assigned] = await Promise.all([
+    classAttempts({ db }, klass.id, lesson.slug),
+    classRoster({ db }, klass.id),
+    lessonAnswersForClass({ db }, klass.id, lesson.slug),
+    classAssignments({ db }, klass.id),
+  ]);
+  const assignment = assigned.find((a) => a.lessonSlug === lesson.slug);
+  const tz = klass.timeZone;
+  return {
+    klass: classHeading(klass),
+    lesson: { slug: lesson.slug, number: lesson.number, title: lesson.title },
+    assignment: assignment
+      ? { dueText: formatDue(assignment.dueAt, tz), opensText: formatDue(assignment.opensAt, tz), policy: LATE_POLICY_WORDS[assignment.latePolicy], penalty: assignment.latePenaltyPercent }
+      : null,
+    items: analyseItems(lesson.slug, attempts, students.length),
+    answers: answers.map((a) => ({
+      studentId: a.studentId,
+      displayName: a.displayName,
+      answerId: a.answerId,
+      claim: a.claim,
+      evidence: a.evidence,
+      reasoning: a.reasoning,
+      handedIn: a.handedInAt !== null,
+      handedInText: a.handedInAt ? formatMoment(a.handedInAt, tz) : null,
+      scores: isRubricScores(a.reviewScores) ? a.reviewScores : null,
+      comment: a.reviewComment,
+      needsReview: a.handedInAt !== null && (!a.reviewedAt || a.reviewedAt < a.handedInAt),
+    })),
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  assertSameOrigin(request);
+  const { klass, user } = await requireTeacherClass(request, params.classId);
+  requireLesson(params.slug);
+  return reviewAction(klass, user.id, Object.fromEntries(await request.formData()));
+}
+
+export default function ClassLesson({ loaderData }: Route.ComponentProps) {
+  const { klass, lesson, assignment, items, answers } = loaderData;
+  const handedIn = answers.filter((a) => a.handedIn);
+  const waiting = handedIn.filter((a) => a.needsReview).length;
+  return (
+    <div className="mx-auto max-w-5xl px-5 py-10">
+      <ClassHeader klass={klass} title={`Lesson ${lesson.number}: ${lesson.title}`} />
+      <p className="mb-6 text-ink-soft">
+        {assignment ? `Opens ${assignment.opensText} · due ${assignment.dueText} · ${assignment.policy}${assignment.penalty ? ` (${assignment.penalty} points a day)` : ""}` : "Not assigned to this class."}{" "}
+        <Link to={`/learn/${lesson.slug}`}>Open the lesson as students see it</Link>
+      </p>
+
+      <section aria-labelledby="items" className="mb-10">
+        <h2 id="items" className="mb-3 text-[length:var(--text-step-2)]">How each exercise went</h2>
+        <div className="overflow-x-auto rounded-lg border border-rule bg-card">
+          <table className="w-full border-collapse text-left text-[length:var(--text-step--1)]">
+            <caption className="sr-only">Item analysis of the lesson's exercises</caption>
+            <thead>
+              <tr className="border-b-2 border-rule">
+                <th scope="col" className="px-3 py-2">Exercise</th>
+                <th scope="col" className="px-3 py-2">Tried</th>
+                <th scope="col" className="px-3 py-2">Right at the first try</th>
+                <th scope="col" className="px-3 py-2">Tries on average</th>
+                <th scope="col" className="px-3 py-2">Most common wrong answer</th>
+              </tr>
+            </thead>
+            <tbody>
+              {items.map((item) => (
+                <tr key={item.exerciseId} className="border-b border-rule align-top" data-exercise={item.exerciseId}>
+                  <th scope="row" className="px-3 py-2 font-normal">
+                    <Link to={`/teach/classes/${klass.id}/lessons/${lesson.slug}/exercises/${item.exerciseId}`}>{item.title}</Link>
+                    {item.required ? null : <span className="block text-ink-soft">optional</span>}
+                  </th>
+                  <td className="px-3 py-2">
+                    {item.studentsTried} of {item.studentsInClass}
+                  </td>
+                  <td className="px-3 py-2">{item.rightFirstTryPercent === null ? "—" : `${item.rightFirstTryPercent}% (${item.rightFirstTry})`}</td>
+                  <td className="px-3 py-2">{item.averageAttempts ?? "—"}</td>
+                  <td className="px-3 py-2">{item.wrongGroups[0] ? `${item.wrongGroups[0].label} (${item.wrongGroups[0].attempts}×)` : "—"}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </section>
+
+      <section aria-labelledby="answers">
+        <h2 id="answers" className="mb-2 text-[length:var(--text-step-2)]">Written answers</h2>
+        <p className="mb-4 text-ink-soft">
+          {handedIn.length} handed in{waiting > 0 ? `, ${waiting} waiting for your review` : ""}. Score each part 0–2; the student reads your comment on their lesson page.
+        </p>
+        {answers.length === 0 ? <p>No written answers yet.</p> : null}
+        {answers.map((a) => (
+          <article key={`${a.studentId}-${a.answerId}`} className="card mb-4" aria-labelledby={`a-${a.studentId}-${a.answerId}`}>
+            <h3 id={`a-${a.studentId}-${a.answerId}`} className="mb-2 font-reading text-[length:var(--text-step-1)]">
+              <Link to={`/teach/classes/${klass.id}/students/${a.studentId}`}>{a.displayName}</Link>{" "}
+              <span className="font-ui text-[length:var(--text-step--1)] font-normal text-ink-soft">
+                {a.handedIn ? `handed in ${a.handedInText}` : "draft"}
+                {a.scores ? ` · reviewed: ${rubricTotal(a.scores)} of 6` : a.needsReview ? " · waiting for review" : ""}
+              </span>
+            </h3>
+            <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
+              <dt className="font-bold">Claim</dt>
+              <dd className="whitespace-pre-wrap">{a.claim || "—"}</dd>
+              <dt className="font-bold">Evidence</dt>
+              <dd className="whitespace-pre-wrap">{a.evidence || "—"}</dd>
+              <dt className="font-bold">Reasoning</dt>
+              <dd className="whitespace-pre-wrap">{a.reasoning || "—"}</dd>
+            </dl>
+            <ReviewForm action={`/teach/classes/${klass.id}/lessons/${lesson.slug}`} answer={{ studentId: a.studentId, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
+          </article>
+        ))}
+      </section>
+    </div>
+  );
+}
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.lesson.title ?? "Lesson"} · ${data?.klass.name ?? "Class"} — Bendwise` }];

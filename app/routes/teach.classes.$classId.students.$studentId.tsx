@@ -1,0 +1,393 @@
+// /teach/classes/:classId/students/:studentId: one student's work, lesson by lesson (every attempt,
+// their own readings with charts, written answers with the review form, photos of set-ups), and what
+// the teacher can do for them: more tries or time (applied quietly), a new password, another class.
+import { Form, Link, data, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/teach.classes.$classId.students.$studentId";
+import { db } from "~/db/client.server";
+import { assertSameOrigin } from "~/lib/auth.server";
+import { lessonExercises, listLessons } from "~/lib/lessons.server";
+import { analyseReadings } from "~/lib/science";
+import { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS, classAccommodations, setAccommodation } from "~/lib/teaching/assignments.server";
+import { classHeading } from "~/lib/teaching/classes.server";
+import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
+import { notFound, requireTeacherClass } from "~/lib/teaching/guard.server";
+import { reviewAction } from "~/lib/teaching/review-action.server";
+import { isRubricScores, rubricTotal } from "~/lib/teaching/shared";
+import { findClassStudent, moveStudent, moveTargets, removeFromClass, setStudentPassword } from "~/lib/teaching/roster.server";
+import { loadStudentWork } from "~/lib/teaching/student-work.server";
+import { formatMoment } from "~/lib/teaching/time";
+import { outcomeWords, readableAnswer, wrongAnswerGroup } from "~/lib/teaching/words";
+import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
+import { ReviewForm } from "~/components/teaching/review-form";
+import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
+
+const STUDENT_NOT_FOUND = "There is no such student in this class.";
+const whole = (max: number, what: string) =>
+  z.coerce.number({ error: `Give the ${what} as a whole number.` }).int(`Give the ${what} as a whole number.`).min(0, `The ${what} cannot be below 0.`).max(max, `At most ${max} ${what}.`);
+
+const intentSchema = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("password"), password: z.string().max(256).default("") }),
+  z.object({ intent: z.literal("move"), toClassId: z.uuid("Choose a class.") }),
+  z.object({ intent: z.literal("remove") }),
+  z.object({
+    intent: z.literal("accommodation"),
+    scope: z.string().max(40),
+    extraAttempts: whole(MAX_EXTRA_ATTEMPTS, "extra tries"),
+    extraDays: whole(MAX_EXTRA_DAYS, "extra days"),
+  }),
+]);
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { klass, user } = await requireTeacherClass(request, params.classId);
+  const studentId = z.uuid().safeParse(params.studentId);
+  if (!studentId.success) notFound(STUDENT_NOT_FOUND);
+  const student = await findClassStudent({ db }, klass.id, studentId.data);
+  if (!student) notFound(STUDENT_NOT_FOUND);
+  const [work, book, accommodations, targets] = await Promise.all([
+    loadStudentWork({ db }, student.id),
+    loadGradebook({ db }, klass.id),
+    classAccommodations({ db }, klass.id),
+    moveTargets({ db }, klass, user.id),
+  ]);
+  const tz = klass.timeZone;
+  const view = gradebookView(book, tz);
+  const row = view.rows.find((r) => r.student.id === student.id);
+  const course = listLessons();
+  const assignedSlugs = view.lessons.map((l) => l.slug);
+  const worked = [...work.attempts, ...work.readings, ...work.answers, ...work.photos].map((x) => x.lessonSlug);
+  const slugs = [...new Set([...assignedSlugs, ...worked])].sort((a, b) => a.localeCompare(b));
+  const lessons = slugs.map((slug) => {
+    const summary = course.find((l) => l.slug === slug);
+    const assignment = view.lessons.find((l) => l.slug === slug);
+    const { exercises } = lessonExercises(slug);
+    return {
+      slug,
+      title: summary ? `Lesson ${summary.number}: ${summary.title}` : slug,
+      assignment: assignment ? { dueText: assignment.dueText, cell: row?.cells[assignment.assignmentId] ?? null } : null,
+      exercises: exercises.map((e) => ({
+        id: e.id,
+        title: e.title,
+        attempts: work.attempts
+          .filter((a) => a.lessonSlug === slug && a.exerciseId === e.id)
+          .map((a) => ({
+            id: a.id,
+            answer: readableAnswer(a.rawAnswer),
+            right: a.correct === 1,
+            outcome: outcomeWords(a.outcome),
+            slip: a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : null,
+            at: formatMoment(a.createdAt, tz),
+          })),
+      })),
+      readings: work.readings
+        .filter((r) => r.lessonSlug === slug)
+        .map((r) => {
+          const points = r.points as { forceN: number; readingCm?: number; returnReadingCm?: number; broke?: boolean }[];
+          return {
+            id: r.readingsId,
+            material: r.material,
+            mode: r.mode,
+            unloadedCm: r.unloadedCm,
+            points,
+            analysis: analyseReadings({ mode: r.mode, unloadedCm: r.unloadedCm ?? undefined, resolutionCm: r.resolutionCm, points }),
+          };
+        }),
+      answers: work.answers
+        .filter((a) => a.lessonSlug === slug)
+        .map((a) => ({
+          answerId: a.answerId,
+          claim: a.claim,
+          evidence: a.evidence,
+          reasoning: a.reasoning,
+          handedIn: a.handedInAt !== null,
+          handedInText: a.handedInAt ? formatMoment(a.handedInAt, tz) : null,
+          scores: isRubricScores(a.reviewScores) ? a.reviewScores : null,
+          comment: a.reviewComment,
+        })),
+      photos: work.photos.filter((p) => p.lessonSlug === slug).map((p) => ({ id: p.id, photoId: p.photoId, at: formatMoment(p.createdAt, tz) })),
+    };
+  });
+  const mine = accommodations.filter((a) => a.studentId === student.id);
+  return {
+    klass: classHeading(klass),
+    student,
+    row: row ? { lessonsComplete: row.lessonsComplete, averageScore: row.averageScore } : null,
+    lessonCount: view.lessons.length,
+    lessons,
+    accommodations: mine.map((a) => ({
+      scope: a.assignmentId ?? "class",
+      label: a.assignmentId ? (view.lessons.find((l) => l.assignmentId === a.assignmentId)?.title ?? "one lesson") : "Every lesson of this class",
+      extraAttempts: a.extraAttempts,
+      extraDays: a.extraDays,
+    })),
+    scopes: [{ value: "class", label: "Every lesson of this class" }, ...view.lessons.map((l) => ({ value: l.assignmentId, label: `Only ${l.number ? `lesson ${l.number}: ` : ""}${l.title}` }))],
+    targets,
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  assertSameOrigin(request);
+  const { klass, user } = await requireTeacherClass(request, params.classId);
+  const studentId = z.uuid().safeParse(params.studentId);
+  if (!studentId.success) notFound(STUDENT_NOT_FOUND);
+  const form = Object.fromEntries(await request.formData());
+  if (form.intent === "review") return reviewAction(klass, user.id, form);
+  const student = await findClassStudent({ db }, klass.id, studentId.data);
+  if (!student) notFound(STUDENT_NOT_FOUND);
+  const parsed = intentSchema.safeParse(form);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    return data({ intent: String(form.intent ?? ""), error: issue?.message ?? "That request was not understood." }, { status: 400 });
+  }
+  const input = parsed.data;
+  switch (input.intent) {
+    case "password": {
+      const result = await setStudentPassword({ db }, user.id, student.id, input.password);
+      if (!result.ok) return data({ intent: input.intent, error: result.message }, { status: result.status });
+      return { intent: input.intent, done: `${student.displayName}'s new password is`, password: result.password };
+    }
+    case "move": {
+      const result = await moveStudent({ db }, klass, user.id, student.id, input.toClassId);
+      if (!result.ok) return data({ intent: input.intent, error: result.message }, { status: 400 });
+      return { intent: input.intent, done: `${student.displayName} is now in ${result.toName}.`, movedTo: input.toClassId };
+    }
+    case "remove": {
+      const result = await removeFromClass({ db }, klass, student.id);
+      return {
+        intent: input.intent,
+        done: `${student.displayName} is no longer in ${klass.name}.${result.seatFreed ? " Their seat is free for another student." : ""} Their account and work are kept.`,
+        removed: true,
+      };
+    }
+    case "accommodation": {
+      const assignmentId = input.scope === "class" ? null : z.uuid().safeParse(input.scope).data;
+      if (assignmentId === undefined) return data({ intent: input.intent, error: "Choose which lessons this is for." }, { status: 400 });
+      const result = await setAccommodation({ db }, klass, { studentId: student.id, assignmentId, extraAttempts: input.extraAttempts, extraDays: input.extraDays });
+      if (!result.ok) return data({ intent: input.intent, error: result.message }, { status: 400 });
+      return {
+        intent: input.intent,
+        done:
+          input.extraAttempts === 0 && input.extraDays === 0
+            ? "Removed. The class's usual tries and due dates apply."
+            : "Saved. It applies from now on, without any sign on the student's page.",
+      };
+    }
+  }
+}
+
+type Answer = { intent: string; error?: string; done?: string; password?: string; movedTo?: string; removed?: boolean };
+
+export default function StudentPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { klass, student, row, lessonCount, lessons, accommodations, scopes, targets } = loaderData;
+  const busy = useNavigation().state === "submitting";
+  const answer = actionData as Answer | undefined;
+  const about = (intent: string) =>
+    answer?.intent === intent ? (
+      answer.error ? (
+        <Notice tone="problem">{answer.error}</Notice>
+      ) : answer.done ? (
+        <Notice tone="done">
+          {answer.done}
+          {answer.password ? (
+            <>
+              {" "}
+              <strong className="font-mono" data-testid="new-password">{answer.password}</strong>. It is shown only now; their other sessions have ended.
+            </>
+          ) : null}
+          {answer.movedTo ? (
+            <>
+              {" "}
+              <Link to={`/teach/classes/${answer.movedTo}/students/${student.id}`}>Open them there</Link>.
+            </>
+          ) : null}
+        </Notice>
+      ) : null
+    ) : null;
+
+  if (answer?.removed || answer?.movedTo) {
+    return (
+      <div className="mx-auto max-w-5xl px-5 py-10">
+        <ClassHeader klass={klass} />
+        {about(answer.intent)}
+        <p>
+          <Link to={`/teach/classes/${klass.id}/roster`}>Back to the students of {klass.name}</Link>
+        </p>
+      </div>
+    );
+  }
+
+  return (
+    <div className="mx-auto max-w-5xl px-5 py-10">
+      <ClassHeader klass={klass} title={student.displayName} />
+      <p className="mb-6 text-ink-soft">
+        Username <span className="font-mono text-ink">{student.username}</span> · grades {student.gradeBand ?? "—"}
+        {student.studentNumber ? ` · student number ${student.studentNumber}` : ""}
+        {row ? ` · ${row.lessonsComplete} of ${lessonCount} assigned lessons done · average ${row.averageScore === null ? "—" : `${row.averageScore}%`}` : ""}
+      </p>
+
+      {lessons.length === 0 ? <p className="mb-8">No lessons are assigned yet, and {student.displayName} has not worked on any.</p> : null}
+      {lessons.map((lesson) => (
+        <section key={lesson.slug} className="card mb-6" aria-labelledby={`lesson-${lesson.slug}`}>
+          <h2 id={`lesson-${lesson.slug}`} className="mb-1 text-[length:var(--text-step-1)]">{lesson.title}</h2>
+          <p className="mb-3 text-[length:var(--text-step--1)] text-ink-soft">
+            {lesson.assignment ? (
+              <>
+                Due {lesson.assignment.dueText}
+                {lesson.assignment.cell
+                  ? ` · ${lesson.assignment.cell.requiredDone} of ${lesson.assignment.cell.requiredTotal} parts done${lesson.assignment.cell.score !== null ? ` · score ${lesson.assignment.cell.score}%` : ""}${lesson.assignment.cell.overdue ? " · overdue" : lesson.assignment.cell.finishedLate ? " · finished late" : ""}`
+                  : ""}
+              </>
+            ) : (
+              "Not assigned to this class"
+            )}
+          </p>
+
+          <h3 className="mb-2 font-bold">Exercises</h3>
+          <ul className="mb-4 space-y-2">
+            {lesson.exercises.map((e) => (
+              <li key={e.id}>
+                <span className="font-bold">{e.title}</span>{" "}
+                {e.attempts.length === 0 ? <span className="text-ink-soft">— no tries yet</span> : null}
+                {e.attempts.length > 0 ? (
+                  <ol className="mt-1 space-y-0.5 pl-5 text-[length:var(--text-step--1)]" style={{ listStyle: "decimal" }}>
+                    {e.attempts.map((a) => (
+                      <li key={a.id}>
+                        <span className="font-mono">{a.answer || "(empty)"}</span> —{" "}
+                        {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.slip ?? a.outcome}</span>}{" "}
+                        <span className="text-ink-soft">· {a.at}</span>
+                      </li>
+                    ))}
+                  </ol>
+                ) : null}
+              </li>
+            ))}
+          </ul>
+
+          {lesson.readings.map((r) => (
+            <div key={r.id} className="mb-4">
+              <h3 className="mb-1 font-bold">
+                Their readings{r.material ? `: ${r.material}` : ""} ({r.mode === "bend" ? "bending" : "stretching"}, unloaded {r.unloadedCm ?? "—"} cm)
+              </h3>
+              <div className="overflow-x-auto">
+                <table className="mb-2 border-collapse text-left text-[length:var(--text-step--1)]">
+                  <caption className="sr-only">Readings</caption>
+                  <thead>
+                    <tr className="border-b border-rule">
+                      <th scope="col" className="py-1 pr-4">Force (N)</th>
+                      <th scope="col" className="py-1 pr-4">Reading (cm)</th>
+                      <th scope="col" className="py-1 pr-4">After unloading (cm)</th>
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {r.points.map((p, i) => (
+                      <tr key={i} className="border-b border-rule">
+                        <td className="py-1 pr-4">{p.forceN}</td>
+                        <td className="py-1 pr-4">{p.readingCm ?? "—"}{p.broke ? " (broke)" : ""}</td>
+                        <td className="py-1 pr-4">{p.returnReadingCm ?? "—"}</td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+              <ForceChartFromAnalysis analysis={r.analysis} title={`${student.displayName}'s readings${r.material ? ` (${r.material})` : ""}`} />
+            </div>
+          ))}
+
+          {lesson.answers.map((a) => (
+            <div key={a.answerId} className="mb-4" id={`answer-${lesson.slug}-${a.answerId}`}>
+              <h3 className="mb-1 font-bold">
+                Written answer {a.handedIn ? `· handed in ${a.handedInText}` : "· draft"}
+                {a.scores ? ` · reviewed: ${rubricTotal(a.scores)} of 6` : ""}
+              </h3>
+              <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
+                <dt className="font-bold">Claim</dt>
+                <dd className="whitespace-pre-wrap">{a.claim || "—"}</dd>
+                <dt className="font-bold">Evidence</dt>
+                <dd className="whitespace-pre-wrap">{a.evidence || "—"}</dd>
+                <dt className="font-bold">Reasoning</dt>
+                <dd className="whitespace-pre-wrap">{a.reasoning || "—"}</dd>
+              </dl>
+              <ReviewForm action={`/teach/classes/${klass.id}/students/${student.id}`} answer={{ studentId: student.id, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
+            </div>
+          ))}
+
+          {lesson.photos.length > 0 ? (
+            <div>
+              <h3 className="mb-1 font-bold">Photos of the set-up</h3>
+              <ul className="flex flex-wrap gap-3">
+                {lesson.photos.map((p) => (
+                  <li key={p.id}>
+                    <a href={`/photos/${p.id}`}>
+                      <img src={`/photos/${p.id}`} alt={`${student.displayName}'s set-up (${p.photoId}), ${p.at}`} className="h-40 w-auto rounded border border-rule" loading="lazy" />
+                    </a>
+                  </li>
+                ))}
+              </ul>
+            </div>
+          ) : null}
+        </section>
+      ))}
+
+      <h2 className="mt-10 mb-4 text-[length:var(--text-step-2)]">For {student.displayName}</h2>
+      <div className="grid gap-6 md:grid-cols-2">
+        <section className="card" aria-labelledby="more">
+          <h3 id="more" className="mb-2 font-reading text-[length:var(--text-step-1)]">More tries or more time</h3>
+          <p className="mb-3 text-ink-soft">Applied quietly: {student.displayName} simply gets the tries and the later due date. Nobody else sees it.</p>
+          {about("accommodation")}
+          {accommodations.length > 0 ? (
+            <ul className="mb-3 list-disc pl-5">
+              {accommodations.map((a) => (
+                <li key={a.scope}>
+                  {a.label}: {a.extraAttempts} more {a.extraAttempts === 1 ? "try" : "tries"}, {a.extraDays} more {a.extraDays === 1 ? "day" : "days"}
+                </li>
+              ))}
+            </ul>
+          ) : null}
+          <Form method="post">
+            <input type="hidden" name="intent" value="accommodation" />
+            <SelectField label="For" name="scope" options={scopes} />
+            <div className="grid grid-cols-2 gap-3">
+              <TextField label="More tries per exercise" name="extraAttempts" type="number" min={0} max={MAX_EXTRA_ATTEMPTS} defaultValue={0} inputMode="numeric" />
+              <TextField label="More days" name="extraDays" type="number" min={0} max={MAX_EXTRA_DAYS} defaultValue={0} inputMode="numeric" />
+            </div>
+            <p className="mb-3 text-[length:var(--text-step--1)] text-ink-soft">One lesson's setting replaces the class-wide one for that lesson. 0 and 0 removes it.</p>
+            <button type="submit" className="btn" disabled={busy}>Save</button>
+          </Form>
+        </section>
+
+        <section className="card" aria-labelledby="password">
+          <h3 id="password" className="mb-2 font-reading text-[length:var(--text-step-1)]">New password</h3>
+          <p className="mb-3 text-ink-soft">For a student who forgot theirs. Their other sessions end.</p>
+          {about("password")}
+          <Form method="post">
+            <input type="hidden" name="intent" value="password" />
+            <TextField label="New password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" />
+            <button type="submit" className="btn" disabled={busy}>Set a new password</button>
+          </Form>
+        </section>
+
+        <section className="card" aria-labelledby="move">
+          <h3 id="move" className="mb-2 font-reading text-[length:var(--text-step-1)]">Another class</h3>
+          {about("move")}
+          {targets.length === 0 ? (
+            <p className="text-ink-soft">You have no other class at this school to move {student.displayName} to.</p>
+          ) : (
+            <Form method="post">
+              <input type="hidden" name="intent" value="move" />
+              <SelectField label="Move to" name="toClassId" options={targets.map((t) => ({ value: t.id, label: `${t.name} (${t.schoolYear})` }))} />
+              <button type="submit" className="btn" disabled={busy}>Move</button>
+            </Form>
+          )}
+          <hr className="my-4 border-rule" />
+          {about("remove")}
+          <Form method="post" onSubmit={(e) => { if (!window.confirm(`Take ${student.displayName} out of ${klass.name}? Their account and work are kept.`)) e.preventDefault(); }}>
+            <input type="hidden" name="intent" value="remove" />
+            <button type="submit" className="btn btn-quiet" disabled={busy}>Take out of this class</button>
+          </Form>
+        </section>
+      </div>
+    </div>
+  );
+}
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.student.displayName ?? "Student"} · ${data?.klass.name ?? "Class"} — Bendwise` }];
