@@ -70,6 +70,7 @@ export async function startPaymentsFake(options: PaymentsFakeOptions): Promise<P
   });
 
   async function handle(req: IncomingMessage, res: ServerResponse) {
+    ops.expireOverdueSessions();
     const url = new URL(req.url ?? "/", selfUrl);
     const raw = await readBody(req);
     const method = req.method ?? "GET";
@@ -166,6 +167,9 @@ export async function startPaymentsFake(options: PaymentsFakeOptions): Promise<P
   });
   const port = (server.address() as AddressInfo).port;
   selfUrl = `http://127.0.0.1:${port}`;
+  // Abandoned checkouts run out even when nobody calls the fake (a demo left running overnight).
+  const sweep = setInterval(() => ops.expireOverdueSessions(), 60_000);
+  sweep.unref();
 
   return {
     port,
@@ -192,6 +196,7 @@ export async function startPaymentsFake(options: PaymentsFakeOptions): Promise<P
     settled: () => webhooks.settled(),
     stop: () =>
       new Promise<void>((resolve) => {
+        clearInterval(sweep);
         webhooks.stop();
         server.closeAllConnections();
         server.close(() => resolve());

@@ -205,6 +205,23 @@ describe("the hosted payment page and the published test cards", () => {
     expect(fake.events("checkout.session.expired").at(-1)?.data.object).toMatchObject({ id: abandoned.id, status: "expired" });
     expect(await (await fetch(`${fake.url}/pay/${abandoned.id}`)).text()).toMatch(/This checkout has expired/);
   });
+
+  it("expires an open session once its time is up, with checkout.session.expired", async () => {
+    const session = await seatCheckout(stripe, 1);
+    expect(session.expires_at).toBeGreaterThan(Date.now() / 1000 + 23 * 3600);
+    expect(fake.ops.expireOverdueSessions(Number(session.expires_at) - 1)).toBe(0);
+    expect(fake.ops.expireOverdueSessions(Number(session.expires_at))).toBeGreaterThanOrEqual(1);
+    expect((await stripe.checkout.sessions.retrieve(session.id)).status).toBe("expired");
+    expect(fake.events("checkout.session.expired").some((e) => (e.data.object as { id: string }).id === session.id)).toBe(true);
+    await expect(
+      stripe.checkout.sessions.create({
+        mode: "payment",
+        success_url: "http://x.example/",
+        expires_at: Math.floor(Date.now() / 1000) + 60,
+        line_items: [{ quantity: 1, price_data: { currency: "usd", unit_amount: 900, product_data: { name: "Seat" } } }],
+      }),
+    ).rejects.toMatchObject({ param: "expires_at" });
+  });
 });
 
 describe("invoices with a purchase-order number", () => {

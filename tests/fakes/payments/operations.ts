@@ -135,6 +135,11 @@ export class FakeOperations {
     });
     const customerId = str(body.customer);
     if (customerId) this.customer(customerId);
+    // As the provider allows: expires_at between 30 minutes and 24 hours from now (24 hours by default).
+    const expiresAt = body.expires_at === undefined ? unixNow() + 24 * 3600 : positiveInt(body.expires_at, "expires_at");
+    if (expiresAt < unixNow() + 30 * 60 - 5 || expiresAt > unixNow() + 24 * 3600 + 5) {
+      throw new ApiError(400, "expires_at must be between 30 minutes and 24 hours from now.", "parameter_invalid", "expires_at");
+    }
     const session: CheckoutSession = {
       id,
       object: "checkout.session",
@@ -147,7 +152,7 @@ export class FakeOperations {
       customer: customerId ?? null,
       customer_details: null,
       customer_email: str(body.customer_email) ?? null,
-      expires_at: unixNow() + 24 * 3600,
+      expires_at: expiresAt,
       livemode: false,
       metadata: metadataOf(body.metadata),
       mode: "payment",
@@ -190,6 +195,18 @@ export class FakeOperations {
     session.customer_details = { email: payer.email || session.customer_email, name: payer.name || null, address: null, phone: null, tax_exempt: "none", tax_ids: [] };
     this.webhooks.emit("checkout.session.completed", session);
     return { ...outcome, redirect: session.success_url.replace("{CHECKOUT_SESSION_ID}", session.id) };
+  }
+
+  /** Expires every open session whose time is up, as the provider does (with checkout.session.expired). */
+  expireOverdueSessions(now = unixNow()): number {
+    let expired = 0;
+    for (const session of this.state.checkoutSessions.values()) {
+      if (session.status === "open" && Number(session.expires_at) <= now) {
+        this.expireCheckoutSession(session.id);
+        expired += 1;
+      }
+    }
+    return expired;
   }
 
   expireCheckoutSession(id: string): CheckoutSession {
