@@ -144,6 +144,13 @@ export async function previewRoster({ db }: Db, klass: Pick<TeacherClass, "id" |
 
 const stripBom = (text: string) => text.replace(/^\uFEFF/, "");
 
+/** Commas, or the semicolons and tabs that some spreadsheet programs write instead, judged by the header row. */
+function delimiterOf(text: string): string {
+  const header = text.split(/\r?\n/).find((line) => line.trim() !== "") ?? "";
+  const counts = [",", ";", "\t"].map((d) => ({ d, n: header.split(d).length - 1 }));
+  return counts.sort((a, b) => b.n - a.n)[0].n > 0 ? counts[0].d : ",";
+}
+
 /** The pure part of reading a roster: columns, each row's fields and their problems. */
 export function parseRosterCsv(text: string): {
   rows: RosterRow[];
@@ -155,7 +162,8 @@ export function parseRosterCsv(text: string): {
   const columns = { displayName: "display name", username: "username", studentNumber: "student number" };
   const problems: RosterProblem[] = [];
   // Blank lines are kept (and skipped below) so that row numbers match the rows of the spreadsheet.
-  const parsed = Papa.parse<string[]>(stripBom(text), { skipEmptyLines: false });
+  const source = stripBom(text);
+  const parsed = Papa.parse<string[]>(source, { skipEmptyLines: false, delimiter: delimiterOf(source) });
   const isBlank = (line: string[]) => line.every((c) => String(c ?? "").trim() === "");
   const lines = parsed.data;
   const headerAt = lines.findIndex((line) => !isBlank(line));
