@@ -13,6 +13,7 @@ import type Stripe from "stripe";
 import type { Database } from "~/db/client.server";
 import { organisations, paymentCustomers, paymentEvents, seatPurchases, users } from "~/db/schema.server";
 import { FAMILY_SEAT_PRICE_CENTS, SCHOOL_SEAT_PRICE_CENTS } from "~/lib/pricing";
+import { isSchoolYear } from "~/lib/school-year";
 
 export interface PaymentsDeps {
   db: Database;
@@ -63,6 +64,12 @@ export interface PurchaseRequest {
   seats: number;
 }
 
+/** The pages parse their forms; this guards the model against a caller that did not. */
+function assertOrder(request: PurchaseRequest) {
+  if (!Number.isInteger(request.seats) || request.seats < 1) throw new Error(`seats must be a positive whole number, not ${request.seats}`);
+  if (!isSchoolYear(request.schoolYear)) throw new Error(`not a school year: ${request.schoolYear}`);
+}
+
 // ───────────────────────── Card: a checkout session on the provider's hosted page ─────────────────────────
 
 /** Starts a card purchase; answers the hosted payment page to send the buyer to. */
@@ -70,6 +77,7 @@ export async function startCardCheckout(
   { db, stripe }: PaymentsDeps,
   request: PurchaseRequest & { appUrl: string },
 ): Promise<{ purchaseId: string; url: string }> {
+  assertOrder(request);
   const org = await organisationFor(db, request.organisationId);
   const unitAmount = seatPriceCents(org.kind);
   const [purchase] = await db
@@ -189,6 +197,7 @@ export async function requestInvoice(
   request: PurchaseRequest & { purchaseOrder: string },
 ): Promise<{ purchaseId: string; invoiceNumber: string | null; invoiceUrl: string | null }> {
   const { db, stripe } = deps;
+  assertOrder(request);
   const org = await organisationFor(db, request.organisationId);
   const unitAmount = seatPriceCents(org.kind);
   const [purchase] = await db
