@@ -1,6 +1,7 @@
 // The database schema. One file so a newcomer sees every table at once;
 // drizzle-kit reads it to generate the SQL migrations in drizzle/.
 import {
+  boolean,
   doublePrecision,
   index,
   jsonb,
@@ -407,3 +408,53 @@ export const accommodations = pgTable(
     index("accommodations_student").on(t.studentId),
   ],
 );
+
+
+// ───────────────────────── Families and e-mail ─────────────────────────
+
+/**
+ * A parent who has asked for a family account and not yet opened the link in the e-mail. Nothing
+ * else exists until they do: the account, the household and its code are made from this row, which
+ * is then deleted. Rows that were never confirmed are dropped after their link runs out.
+ */
+export const familySignUps = pgTable("family_sign_ups", {
+  id: uuid("id").primaryKey().defaultRandom(),
+  /** Stored lower-case; one waiting sign-up per address (asking again replaces it). */
+  email: text("email").notNull().unique(),
+  displayName: text("display_name").notNull(),
+  householdName: text("household_name").notNull(),
+  passwordHash: text("password_hash").notNull(),
+  expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+  createdAt: createdAt(),
+});
+
+/** A school administrator's invitation to a teacher; the e-mailed link (verification_tokens, "teacher-invite") runs out at expiresAt. */
+export const teacherInvitations = pgTable(
+  "teacher_invitations",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    organisationId: uuid("organisation_id")
+      .notNull()
+      .references(() => organisations.id, { onDelete: "cascade" }),
+    /** Stored lower-case. */
+    email: text("email").notNull(),
+    displayName: text("display_name").notNull(),
+    invitedBy: uuid("invited_by").references(() => users.id, { onDelete: "set null" }),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    acceptedAt: timestamp("accepted_at", { withTimezone: true }),
+    acceptedBy: uuid("accepted_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("teacher_invitations_org").on(t.organisationId), index("teacher_invitations_email").on(t.email)],
+);
+
+/** What e-mail an adult wants beyond the ones they ask for. No row = the defaults (weekly summary on). */
+export const mailPreferences = pgTable("mail_preferences", {
+  userId: uuid("user_id")
+    .primaryKey()
+    .references(() => users.id, { onDelete: "cascade" }),
+  weeklySummary: boolean("weekly_summary").notNull().default(true),
+  /** The ISO week ("2026-W49") whose summary was last queued, so a second run that week sends none. */
+  lastSummaryWeek: text("last_summary_week"),
+  updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+});
