@@ -24,6 +24,7 @@ import { lessonExercises, listLessons } from "./lessons.server";
 import { analyseReadings, type Mode } from "./science";
 import { exerciseSeed, seededRandom } from "./seeded-random";
 import { closedForAnswers, closedMessage, lessonPolicies, lessonPolicyFor, type LessonPolicy } from "./teaching/policy.server";
+import { formatDue } from "./teaching/time";
 
 type Db = { db: Database };
 
@@ -108,6 +109,8 @@ export function attemptsAllowed(policy?: Pick<LessonPolicy, "extraAttempts"> | n
 /** What the student's page says about the lesson's assignment: the due date is their own (with any extra days). */
 export interface AssignmentNotice {
   dueAt: string;
+  /** the due date written in the class's time zone, e.g. "Fri 11 Dec, 5:00 pm" */
+  dueText: string;
   opensAt: string;
   timeZone: string;
   latePolicy: LessonPolicy["latePolicy"];
@@ -120,6 +123,7 @@ function assignmentNotice(policy: LessonPolicy | null): AssignmentNotice | null 
   if (!policy) return null;
   return {
     dueAt: policy.dueAt.toISOString(),
+    dueText: formatDue(policy.dueAt, policy.timeZone),
     opensAt: policy.opensAt.toISOString(),
     timeZone: policy.timeZone,
     latePolicy: policy.latePolicy,

@@ -214,7 +214,13 @@ export default function LessonPage({ loaderData }: Route.ComponentProps) {
         <p className="prose-reading text-[length:var(--text-step-1)] text-ink-soft">{lesson.summary}</p>
         <p className="mt-3 font-ui text-[length:var(--text-step--1)] text-ink-soft" data-testid="lesson-progress">
           {done} of {exercises.length} exercises finished{state.complete ? " · lesson complete" : ""}
+          {state.assignment ? <span data-testid="lesson-due"> · due {state.assignment.dueText}</span> : null}
         </p>
+        {state.assignment?.closed ? (
+          <p className="mt-2 rounded bg-caution-wash p-3 font-ui text-caution" role="status">
+            This lesson closed at its due date: you can read it and see your answers, but new answers are not taken. Ask your teacher if you need more time.
+          </p>
+        ) : null}
       </header>
       {lesson.materials.length > 0 && (
         <section aria-labelledby="materials" className="card mb-6 font-ui">

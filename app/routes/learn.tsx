@@ -8,11 +8,13 @@ import { classes, enrollments, users } from "~/db/schema.server";
 import { ContinueCard, CoursePath } from "~/components/course-path";
 import { requireRole } from "~/lib/auth.server";
 import { continueTarget, courseProgress } from "~/lib/course.server";
+import { assignedLessonsFor } from "~/lib/teaching/assignments.server";
+import { AssignedLessons } from "~/components/teaching/assigned-lessons";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const { user, membership } = await requireRole(request, ["student"]);
   const teacher = alias(users, "teacher");
-  const [myClasses, lessons] = await Promise.all([
+  const [myClasses, lessons, assigned] = await Promise.all([
     db
       .select({ id: classes.id, name: classes.name, schoolYear: classes.schoolYear, teacherName: teacher.displayName })
       .from(enrollments)
@@ -21,6 +23,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       .where(and(eq(enrollments.studentId, user.id), eq(classes.organisationId, membership.organisationId)))
       .orderBy(asc(classes.name)),
     courseProgress({ db }, user.id),
+    assignedLessonsFor({ db }, user.id),
   ]);
   return {
     displayName: user.displayName,
@@ -29,11 +32,12 @@ export async function loader({ request }: Route.LoaderArgs) {
     classes: myClasses,
     lessons,
     continueAt: continueTarget(lessons),
+    assigned,
   };
 }
 
 export default function Learn({ loaderData }: Route.ComponentProps) {
-  const { displayName, organisationName, atHome, classes: myClasses, lessons, continueAt } = loaderData;
+  const { displayName, organisationName, atHome, classes: myClasses, lessons, continueAt, assigned } = loaderData;
   const finished = lessons.filter((l) => l.complete).length;
   return (
     <div className="mx-auto max-w-4xl px-5 py-12">
@@ -43,6 +47,7 @@ export default function Learn({ loaderData }: Route.ComponentProps) {
         {finished} of {lessons.length} lessons finished. Predict first, then load, read the ruler, and check each calculation as you go.
       </p>
       <ContinueCard target={continueAt} lessons={lessons} />
+      <AssignedLessons lessons={assigned} done={Object.fromEntries(lessons.map((l) => [l.slug, l.complete]))} />
       <section aria-labelledby="path-heading" className="mb-10">
         <h2 id="path-heading" className="mb-4 text-[length:var(--text-step-2)]">
           Your course

@@ -103,6 +103,9 @@ export default function School({ loaderData }: Route.ComponentProps) {
               <p>
                 <strong>{school.classes}</strong> classes
               </p>
+              <p className="mt-2">
+                <Link to="/school/classes">Every class and teacher, with how the students are doing</Link>
+              </p>
             </div>
           </div>
         </section>

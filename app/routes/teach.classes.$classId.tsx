@@ -42,6 +42,12 @@ export default function ClassRoster({ loaderData }: Route.ComponentProps) {
         {klass.schoolYear} · students sign in with the code <strong className="font-mono text-ink">{klass.signInCode}</strong>, their
         username and their password.
       </p>
+      <nav aria-label="This class" className="mb-6 flex flex-wrap gap-x-5 gap-y-1 font-bold">
+        <Link to="gradebook">Gradebook</Link>
+        <Link to="roster">Add students and manage them</Link>
+        <Link to="assignments">Lessons assigned</Link>
+        <Link to="settings">Class settings</Link>
+      </nav>
       <table className="w-full border-collapse text-left">
         <caption className="sr-only">Students in {klass.name}</caption>
         <thead>

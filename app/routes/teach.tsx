@@ -40,13 +40,18 @@ export default function Teach({ loaderData }: Route.ComponentProps) {
           What you can do here
         </h2>
         <ul className="list-disc space-y-1 pl-5">
-          <li>See each class with the code its students sign in with, and open its list of students.</li>
+          <li>See each class with the code its students sign in with; open its gradebook to see who has finished and who is stuck.</li>
           <li>
-            Soon: assign lessons with due dates, follow who has finished and who is stuck, review written answers, and set a
-            new password for a student of yours who forgot theirs.
+            <Link to="/teach/classes">Make a class</Link>, add students one by one or from a CSV file, assign lessons with due dates, review
+            written answers, give a student more tries or time, and set a new password for a student who forgot theirs.
           </li>
         </ul>
       </section>
+      <p className="mb-4">
+        <Link to="/teach/classes" className="btn">
+          All your classes, and make a new one
+        </Link>
+      </p>
       {rows.length === 0 ? (
         <p className="text-ink-soft">You have no classes yet.</p>
       ) : (
@@ -64,7 +69,7 @@ export default function Teach({ loaderData }: Route.ComponentProps) {
             {rows.map((c) => (
               <tr key={c.id} className="border-b border-rule">
                 <td className="py-2 pr-4">
-                  <Link to={`/teach/classes/${c.id}`}>{c.name}</Link>
+                  <Link to={`/teach/classes/${c.id}/gradebook`}>{c.name}</Link>
                   {schools.length > 1 ? <span className="block text-[length:var(--text-step--1)] text-ink-soft">{c.school}</span> : null}
                 </td>
                 <td className="py-2 pr-4">{c.schoolYear}</td>

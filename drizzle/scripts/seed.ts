@@ -8,6 +8,7 @@ import { hashPassword } from "~/lib/passwords.server";
 import * as schema from "~/db/schema.server";
 import { classes, enrollments, memberships, organisations, seatAssignments, seatPurchases, users } from "~/db/schema.server";
 import type { Role } from "~/db/schema.server";
+import { seedTeachingDemo } from "./seed-teaching";
 
 type Db = PostgresJsDatabase<typeof schema>;
 
@@ -155,6 +156,9 @@ export async function seedDemo(db: Db) {
     organisationId: household.id, schoolYear: DEMO_SCHOOL_YEAR, seats: 2, amountCents: 2 * 1400,
     method: "demo", status: "paid", providerRef: "demo-lindqvist-2026-27", paidAt: new Date(),
   });
+
+  // --- Teaching: lesson 2 assigned to the demo teacher's class, with a few invented attempts ---
+  await seedTeachingDemo(db);
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

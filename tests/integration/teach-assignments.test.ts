@@ -26,6 +26,8 @@ beforeAll(async () => {
   ids = await demoIds();
   for (const who of ["teacher", "secondTeacher", "student"] as const) cookies[who] = await sessionCookieFor(who);
   await db.update(classes).set({ timeZone: "America/Chicago" }).where(eq(classes.id, ids.mapleA.id));
+  // Start from a class with nothing assigned (the demo seed assigns lesson 2).
+  await db.delete(assignments).where(eq(assignments.classId, ids.mapleA.id));
 }, 60_000);
 
 const assign = (fields: Record<string, string>, cookie = cookies.teacher) =>

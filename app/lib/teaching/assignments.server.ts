@@ -6,6 +6,7 @@ import { accommodations, assignments, type LatePolicy } from "~/db/schema.server
 import { findLesson, listLessons } from "~/lib/lessons.server";
 import type { TeacherClass } from "./classes.server";
 import { lessonPolicies } from "./policy.server";
+import { formatDue } from "./time";
 
 export { LATE_POLICY_WORDS } from "./shared";
 
@@ -131,6 +132,8 @@ export interface AssignedLesson {
   opensAt: string;
   /** the student's own due date (with any extra days) */
   dueAt: string;
+  /** the same, written in the class's time zone */
+  dueText: string;
   timeZone: string;
   latePolicy: LatePolicy;
   latePenaltyPercent: number;
@@ -153,6 +156,7 @@ export async function assignedLessonsFor({ db }: Db, studentId: string, now: Dat
           className: p.className,
           opensAt: p.opensAt.toISOString(),
           dueAt: p.dueAt.toISOString(),
+          dueText: formatDue(p.dueAt, p.timeZone, now),
           timeZone: p.timeZone,
           latePolicy: p.latePolicy,
           latePenaltyPercent: p.latePenaltyPercent,
