@@ -64,3 +64,8 @@ export default function handleRequest(
     );
   });
 }
+
+// The mail worker runs from this same server build (drizzle/scripts/mail-worker.ts imports the build
+// and finds these on its entry module), so it uses exactly the app's compiled code and lessons.
+// React Router does nothing with extra exports of the server entry.
+export { closeMailConnections, startMailWorker, weeklySummariesNow } from "~/lib/mail/worker.server";

@@ -14,6 +14,14 @@ const envSchema = z.object({
   PAYMENTS_SECRET_KEY: z.string().default("sk_test_bendwise_local"),
   PAYMENTS_WEBHOOK_SECRET: z.string().default("whsec_bendwise_local"),
   UPLOADS_DIR: z.string().default(".data/uploads"),
+  /** The mail queue: how many times a refused e-mail is tried again, and the first wait in seconds (it doubles each time, with jitter). */
+  MAIL_RETRY_LIMIT: z.coerce.number().int().min(0).max(30).default(12),
+  MAIL_RETRY_DELAY_SECONDS: z.coerce.number().int().min(1).max(3600).default(10),
+  /** When the weekly summaries are queued: a cron line read in MAIL_WEEKLY_TIME_ZONE (default Fridays 16:00). */
+  MAIL_WEEKLY_CRON: z.string().default("0 16 * * 5"),
+  MAIL_WEEKLY_TIME_ZONE: z.string().default("UTC"),
+  /** "separate": a mail worker process sends the queue (npm start runs one); "in-process": this process sends it too (integration tests). */
+  BENDWISE_MAIL_WORKER: z.enum(["separate", "in-process"]).default("separate"),
 });
 
 export type ServerEnv = z.infer<typeof envSchema>;

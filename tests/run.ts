@@ -10,7 +10,7 @@ import type { ChildProcess } from "node:child_process";
 import { drizzle } from "drizzle-orm/postgres-js";
 import postgres from "postgres";
 import * as schema from "~/db/schema.server";
-import { freePort, startAppServer, waitForHttp } from "../drizzle/scripts/local-stack";
+import { freePort, startAppServer, startMailWorkerProcess, waitForHttp } from "../drizzle/scripts/local-stack";
 import { runMigrations } from "../drizzle/scripts/migrate";
 import { ensureDatabase, startThrowAwayPostgres } from "../drizzle/scripts/postgres";
 import { seedDemo } from "../drizzle/scripts/seed";
@@ -26,8 +26,13 @@ const wantsBrowser = requested.length === 0 || requested.some((f) => f.includes(
 
 const cleanups: Array<() => Promise<void> | void> = [];
 let app: ChildProcess | undefined;
+let mailWorker: ChildProcess | undefined;
 
 async function cleanUp() {
+  if (mailWorker && mailWorker.exitCode === null) {
+    mailWorker.kill("SIGTERM");
+    await new Promise((r) => mailWorker!.once("exit", r));
+  }
   if (app && app.exitCode === null) {
     app.kill("SIGTERM");
     await new Promise((r) => app!.once("exit", r));
@@ -120,7 +125,8 @@ try {
   let failedStage = false;
   if (wantsNode) {
     const files = requested.filter((f) => !f.includes("tests/browser"));
-    const result = await runVitest("node", sharedEnv, files);
+    // Each test file sends its own mail queue with a worker inside its process (sendMail starts it).
+    const result = await runVitest("node", { ...sharedEnv, BENDWISE_MAIL_WORKER: "in-process" }, files);
     totals.passed += result.passed;
     totals.failed += result.failed;
     failedStage ||= result.code !== 0;
@@ -140,6 +146,8 @@ try {
     const browserDbUrl = pg.urlFor("bendwise_browser");
     app = startAppServer({ buildDir, port: appPort, quiet: true, env: { ...sharedEnv, DATABASE_URL: browserDbUrl } });
     await waitForHttp(`${appUrl}/healthz`, 60_000, app);
+    // The mail worker beside the app, as in `npm start`.
+    mailWorker = startMailWorkerProcess({ buildDir, quiet: true, env: { ...sharedEnv, DATABASE_URL: browserDbUrl } });
     const files = requested.filter((f) => f.includes("tests/browser"));
     const result = await runVitest("browser", { ...sharedEnv, DATABASE_URL: browserDbUrl, BENDWISE_BROWSER: "1", BENDWISE_APP_URL: appUrl }, files);
     totals.passed += result.passed;

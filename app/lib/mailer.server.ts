@@ -1,8 +1,10 @@
-// Every e-mail Bendwise sends goes through `sendMail`. Today it hands the message straight to the SMTP
-// server in SMTP_URL (the local catcher in development and tests); a later change puts a
-// PostgreSQL-backed queue behind this same function, so callers keep calling it as they do now.
+// Every e-mail Bendwise sends goes through `sendMail`, which puts it on the mail queue in PostgreSQL
+// (app/lib/mail/queue.server.ts) and returns; the mail worker hands it to the SMTP server in SMTP_URL
+// with `deliverNow`, retrying with exponential backoff while that server is down, so nothing is lost.
+// Callers keep calling `sendMail` as before: it resolves once the e-mail is safely queued.
 import nodemailer, { type Transporter } from "nodemailer";
 import { serverEnv } from "~/env.server";
+import { MAIL_QUEUE, mailJobOptions, mailQueue } from "~/lib/mail/queue.server";
 
 export interface OutgoingMail {
   to: string;
@@ -10,17 +12,37 @@ export interface OutgoingMail {
   /** Plain text, for every mail reader and for screen readers that prefer it. */
   text: string;
   html: string;
+  /** Extra headers, e.g. List-Unsubscribe on the weekly summary. */
+  headers?: Record<string, string>;
+}
+
+/** An SMTP connection for a server address; a refused or silent server fails the attempt within seconds. */
+export function smtpTransport(smtpUrl: string): Transporter {
+  return nodemailer.createTransport({ url: smtpUrl, connectionTimeout: 10_000, greetingTimeout: 10_000, socketTimeout: 30_000 } as never);
 }
 
 let transport: Transporter | undefined;
 
 function transporter(): Transporter {
-  transport ??= nodemailer.createTransport(serverEnv().SMTP_URL);
+  transport ??= smtpTransport(serverEnv().SMTP_URL);
   return transport;
 }
 
+/** Queues an e-mail; the mail worker sends it. Resolves once it is stored in PostgreSQL. */
 export async function sendMail(mail: OutgoingMail): Promise<void> {
-  await transporter().sendMail({ from: serverEnv().MAIL_FROM, ...mail });
+  const boss = await mailQueue();
+  const job: OutgoingMail = { to: mail.to, subject: mail.subject, text: mail.text, html: mail.html, ...(mail.headers ? { headers: mail.headers } : {}) };
+  await boss.send(MAIL_QUEUE, job, mailJobOptions());
+  if (serverEnv().BENDWISE_MAIL_WORKER === "in-process") {
+    // Integration tests: this process sends its own queue, woken at once instead of at the next poll.
+    const { inProcessMailWorker } = await import("~/lib/mail/worker.server");
+    (await inProcessMailWorker()).wake();
+  }
+}
+
+/** Hands one e-mail to the SMTP server now; throws when it is refused. Only the mail worker calls this. */
+export async function deliverNow(mail: OutgoingMail, via: Transporter = transporter()): Promise<void> {
+  await via.sendMail({ from: serverEnv().MAIL_FROM, ...mail });
 }
 
 const escapeHtml = (s: string) =>
@@ -36,14 +58,20 @@ export function renderEmail(parts: {
   button?: { label: string; url: string };
   /** Small print under the button, e.g. why this mail came and what to do if it was not asked for. */
   footnote?: string;
+  /** Sections after the paragraphs: a small heading and a list of lines each (e.g. one per child). */
+  sections?: { heading: string; lines: string[] }[];
+  /** A small link after the footnote, e.g. "Stop these summaries". */
+  smallLink?: { label: string; url: string };
 }): { text: string; html: string } {
-  const { heading, paragraphs, button, footnote } = parts;
+  const { heading, paragraphs, button, footnote, sections = [], smallLink } = parts;
   const text = [
     heading,
     "",
     ...paragraphs.flatMap((p) => [p, ""]),
+    ...sections.flatMap((s) => [s.heading, ...s.lines.map((line) => `- ${line}`), ""]),
     ...(button ? [`${button.label}:`, button.url, ""] : []),
     ...(footnote ? [footnote, ""] : []),
+    ...(smallLink ? [`${smallLink.label}:`, smallLink.url, ""] : []),
     "— Bendwise: hands-on labs on how materials stretch, bend and break.",
   ].join("\n");
 
@@ -60,6 +88,12 @@ export function renderEmail(parts: {
 <tr><td style="padding:24px">
 <h1 style="margin:0 0 16px;font-family:Literata,Georgia,'Times New Roman',serif;font-size:24px;line-height:1.25;color:#1c2726">${escapeHtml(heading)}</h1>
 ${paragraphs.map(p).join("\n")}
+${sections
+  .map(
+    (s) => `<h2 style="margin:20px 0 8px;font-family:Literata,Georgia,'Times New Roman',serif;font-size:19px;line-height:1.3;color:#1c2726">${escapeHtml(s.heading)}</h2>
+<ul style="margin:0 0 16px;padding-left:20px;font-size:16px;line-height:1.55;color:#1c2726">${s.lines.map((line) => `<li style="margin:0 0 6px">${escapeHtml(line)}</li>`).join("")}</ul>`,
+  )
+  .join("\n")}
 ${
   button
     ? `<p style="margin:24px 0"><a href="${escapeHtml(button.url)}" style="display:inline-block;background:#0d5c57;color:#ffffff;font-weight:700;text-decoration:none;padding:12px 20px;border-radius:8px">${escapeHtml(button.label)}</a></p>
@@ -67,6 +101,7 @@ ${
     : ""
 }
 ${footnote ? `<p style="margin:16px 0 0;font-size:14px;line-height:1.5;color:#46524f">${escapeHtml(footnote)}</p>` : ""}
+${smallLink ? `<p style="margin:8px 0 0;font-size:14px;line-height:1.5"><a href="${escapeHtml(smallLink.url)}" style="color:#0d5c57">${escapeHtml(smallLink.label)}</a></p>` : ""}
 </td></tr>
 <tr><td style="padding:16px 24px;border-top:1px solid #d9d2c3;font-size:13px;color:#46524f">Bendwise — hands-on labs on how materials stretch, bend and break.</td></tr>
 </table></td></tr></table>

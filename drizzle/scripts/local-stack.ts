@@ -70,3 +70,15 @@ export async function waitForHttp(url: string, timeoutMs = 60_000, server?: Chil
   }
   throw new Error(`${url} did not answer within ${timeoutMs / 1000} s (${lastProblem})`);
 }
+
+/**
+ * Starts the mail worker (drizzle/scripts/mail-worker.ts) as its own process beside the app, from the
+ * same build. Stop it with SIGTERM: it finishes the e-mail in hand and ends.
+ */
+export function startMailWorkerProcess(options: { buildDir: string; env: Record<string, string>; quiet?: boolean }): ChildProcess {
+  const script = path.join(path.dirname(new URL(import.meta.url).pathname), "mail-worker.ts");
+  return spawn(process.execPath, ["--import", "tsx", script], {
+    env: { ...process.env, ...options.env, NODE_ENV: "production", BENDWISE_BUILD_DIR: options.buildDir },
+    stdio: options.quiet ? ["ignore", "ignore", "inherit"] : ["ignore", "inherit", "inherit"],
+  });
+}

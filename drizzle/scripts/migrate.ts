@@ -1,9 +1,11 @@
-// Applies the committed SQL migrations in drizzle/ with Drizzle's migrator.
+// Applies the committed SQL migrations in drizzle/ with Drizzle's migrator, then installs (or upgrades)
+// the mail queue's own tables (pg-boss, schema "pgboss") and its queues.
 import { drizzle } from "drizzle-orm/postgres-js";
 import { migrate } from "drizzle-orm/postgres-js/migrator";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import postgres from "postgres";
+import { installQueue } from "~/lib/mail/queue.server";
 
 const migrationsFolder = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 
@@ -14,6 +16,7 @@ export async function runMigrations(databaseUrl: string) {
   } finally {
     await client.end();
   }
+  await installQueue(databaseUrl);
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

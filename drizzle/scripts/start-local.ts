@@ -1,6 +1,7 @@
 // `npm start`: brings up the whole local Bendwise on loopback and serves the production build.
 //   PostgreSQL (Debian's, data in .data/postgres) → migrations → invented demo data →
-//   mail catcher with web inbox → payments fake → the app on http://localhost:3000 (PORT changes it).
+//   mail catcher with web inbox → payments fake → the app on http://localhost:3000 (PORT changes it)
+//   → the mail worker (its own process, sending the mail queue kept in PostgreSQL).
 // Ctrl-C stops everything this script started. Setting DATABASE_URL, SMTP_URL or PAYMENTS_API_URL
 // uses those services instead of the local ones.
 import type { ChildProcess } from "node:child_process";
@@ -10,7 +11,7 @@ import postgres from "postgres";
 import * as schema from "~/db/schema.server";
 import { startMailCatcher, type MailCatcher } from "../../tests/fakes/mail-catcher";
 import { startPaymentsFake, type PaymentsFake } from "../../tests/fakes/payments-server";
-import { persistentAuthSecret, startAppServer, waitForHttp } from "./local-stack";
+import { persistentAuthSecret, startAppServer, startMailWorkerProcess, waitForHttp } from "./local-stack";
 import { runMigrations } from "./migrate";
 import { DEMO_PORT, dataFolderFor, ensureDatabase, startPostgres, type RunningPostgres } from "./postgres";
 import { demoSignIns, seedDemo } from "./seed";
@@ -19,12 +20,17 @@ const projectDir = process.cwd();
 const appPort = Number(process.env.PORT ?? 3000);
 const stoppers: Array<() => Promise<void> | void> = [];
 let app: ChildProcess | undefined;
+let mailWorker: ChildProcess | undefined;
 let stopping = false;
 
 async function stopEverything(exitCode: number) {
   if (stopping) return;
   stopping = true;
   console.log("\nStopping Bendwise…");
+  if (mailWorker && mailWorker.exitCode === null) {
+    mailWorker.kill("SIGTERM");
+    await new Promise((r) => mailWorker!.once("exit", r));
+  }
   if (app && app.exitCode === null) {
     app.kill("SIGTERM");
     await new Promise((r) => app!.once("exit", r));
@@ -78,18 +84,15 @@ try {
 
   // 4. The app itself, from the production build.
   const appUrl = process.env.APP_URL ?? `http://localhost:${appPort}`;
-  app = startAppServer({
-    buildDir: path.join(projectDir, "build"),
-    port: appPort,
-    env: {
-      DATABASE_URL: databaseUrl,
-      AUTH_SECRET: process.env.AUTH_SECRET ?? persistentAuthSecret(projectDir),
-      APP_URL: appUrl,
-      SMTP_URL: process.env.SMTP_URL ?? "smtp://127.0.0.1:1025",
-      PAYMENTS_API_URL: process.env.PAYMENTS_API_URL ?? fake!.url,
-      PAYMENTS_WEBHOOK_SECRET: webhookSecret,
-    },
-  });
+  const appEnv = {
+    DATABASE_URL: databaseUrl,
+    AUTH_SECRET: process.env.AUTH_SECRET ?? persistentAuthSecret(projectDir),
+    APP_URL: appUrl,
+    SMTP_URL: process.env.SMTP_URL ?? "smtp://127.0.0.1:1025",
+    PAYMENTS_API_URL: process.env.PAYMENTS_API_URL ?? fake!.url,
+    PAYMENTS_WEBHOOK_SECRET: webhookSecret,
+  };
+  app = startAppServer({ buildDir: path.join(projectDir, "build"), port: appPort, env: appEnv });
   app.once("exit", (code) => {
     if (!stopping) {
       console.error(`The app server stopped (exit code ${code}).`);
@@ -98,10 +101,20 @@ try {
   });
   await waitForHttp(`http://127.0.0.1:${appPort}/healthz`, 60_000, app);
 
+  // 5. The mail worker: sends what the app queues, retrying while the mail server is down.
+  mailWorker = startMailWorkerProcess({ buildDir: path.join(projectDir, "build"), env: appEnv });
+  mailWorker.once("exit", (code) => {
+    if (!stopping) {
+      console.error(`The mail worker stopped (exit code ${code}); e-mail waits in the queue until it runs again.`);
+      void stopEverything(code ?? 1);
+    }
+  });
+
   const s = demoSignIns;
   console.log(`
 Bendwise is running at ${appUrl}
 ${mail ? `Mail inbox (every e-mail the app sends): ${mail.inboxUrl}` : "E-mail goes to SMTP_URL."}
+Mail worker running beside the app; \`npm run mail:weekly\` queues this week's summaries now.
 ${fake ? `Payments fake (test cards only): ${fake.url}` : "Payments go to PAYMENTS_API_URL."}
 
 Demo sign-ins (an invented school, household and people):

@@ -20,7 +20,9 @@ async function allowAnotherEmail(db: Database, userId: string): Promise<boolean>
   return Number(rows[0]?.hits ?? 0) <= EMAILS_PER_PERSON_PER_HOUR;
 }
 
-function compose(purpose: EmailTokenPurpose, displayName: string, url: string) {
+type LinkPurpose = Extract<EmailTokenPurpose, "sign-in" | "reset-password">;
+
+function compose(purpose: LinkPurpose, displayName: string, url: string) {
   const minutes = EMAIL_TOKEN_MINUTES[purpose];
   if (purpose === "sign-in") {
     return {
@@ -57,7 +59,7 @@ export type EmailLinkOutcome = "sent" | "no-account" | "too-many";
  * Sends a sign-in or new-password link to an adult's address. The caller shows the same words for
  * every outcome; the outcome is returned for tests and logs. Throws when the mail server refuses.
  */
-export async function sendEmailLink({ db }: { db: Database }, email: string, purpose: EmailTokenPurpose): Promise<EmailLinkOutcome> {
+export async function sendEmailLink({ db }: { db: Database }, email: string, purpose: LinkPurpose): Promise<EmailLinkOutcome> {
   const [user] = await db
     .select({ id: users.id, displayName: users.displayName, email: users.email })
     .from(users)

@@ -1,17 +1,22 @@
-// One-time tokens for e-mailed links (sign-in links and password resets). The link carries 32 random
-// bytes; the database keeps only their SHA-256, so a copy of the table opens nothing. A token is used
-// up by a single DELETE … RETURNING, so two clicks racing each other cannot both succeed.
+// One-time tokens for e-mailed links (sign-in links, password resets, a new family's address check and
+// teacher invitations). The link carries 32 random bytes; the database keeps only their SHA-256, so
+// a copy of the table opens nothing. A token is used up by a single DELETE … RETURNING, so two
+// clicks racing each other cannot both succeed.
 import { createHash, randomBytes } from "node:crypto";
 import { and, eq, gt, sql } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
 import { verificationTokens } from "~/db/schema.server";
 
-export type EmailTokenPurpose = "sign-in" | "reset-password";
+export type EmailTokenPurpose = "sign-in" | "reset-password" | "verify-email" | "teacher-invite";
 
 /** How long a link works: short, because an inbox is not a safe. */
 export const EMAIL_TOKEN_MINUTES: Record<EmailTokenPurpose, number> = {
   "sign-in": 15,
   "reset-password": 30,
+  // A new parent's "confirm your address" link: a day, since it may be opened after work.
+  "verify-email": 24 * 60,
+  // A school's invitation to a teacher: a week, then the administrator sends a new one.
+  "teacher-invite": 7 * 24 * 60,
 };
 
 const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
