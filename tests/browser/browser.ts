@@ -31,3 +31,27 @@ export async function openPage(browser: Browser, options: Parameters<Browser["ne
   page.on("pageerror", (error) => consoleErrors.push(error.message));
   return { context, page, consoleErrors };
 }
+
+/** Fills the adults' door of the sign-in page (the page must be open) and sends it. */
+export async function signInAsAdult(page: Page, email: string, password: string) {
+  const door = page.getByRole("region", { name: "Adults" });
+  await door.getByLabel("E-mail address").fill(email);
+  await door.getByLabel("Password").fill(password);
+  await door.getByRole("button", { name: "Sign in" }).click();
+}
+
+/** Fills the students' door of the sign-in page (the page must be open) and sends it. */
+export async function signInAsStudent(page: Page, code: string, username: string, password: string) {
+  const door = page.getByRole("region", { name: "Students" });
+  await door.getByLabel("Class or family code").fill(code);
+  await door.getByLabel("Username").fill(username);
+  await door.getByLabel("Password").fill(password);
+  await door.getByRole("button", { name: "Sign in" }).click();
+}
+
+/** Opens the sign-in page, signs a demo student in and waits for their home. */
+export async function openAsStudent(page: Page, who: { code: string; username: string; password: string }) {
+  await page.goto("/sign-in");
+  await signInAsStudent(page, who.code, who.username, who.password);
+  await page.waitForURL(/\/learn/);
+}

@@ -11,7 +11,7 @@ import { users } from "~/db/schema.server";
 import { exerciseInstance } from "~/lib/course.server";
 import { lessonExercises } from "~/lib/lessons.server";
 import { demoSignIns } from "../../drizzle/scripts/seed";
-import { appUrl, launchBrowser, openPage } from "./browser";
+import { appUrl, launchBrowser, openAsStudent, openPage } from "./browser";
 
 const LESSON = "02-force-and-deformation";
 let browser: Browser;
@@ -23,15 +23,6 @@ afterAll(async () => {
   await browser?.close();
 });
 
-async function signInStudent(page: Page, who: { code: string; username: string; password: string }) {
-  await page.goto("/sign-in");
-  const door = page.locator("section", { has: page.locator('input[name="door"][value="student"]') });
-  await door.getByLabel("Class or family code").fill(who.code);
-  await door.getByLabel("Username").fill(who.username);
-  await door.getByLabel("Password").fill(who.password);
-  await door.getByRole("button").click();
-  await page.waitForURL(/\/learn/);
-}
 
 async function studentIdOf(username: string) {
   const [row] = await db.select({ id: users.id }).from(users).where(eq(users.username, username));
@@ -49,12 +40,12 @@ const exercise = (page: Page, id: string) => page.locator(`[data-exercise="${id}
 describe("a lesson in the browser", () => {
   it("shows each student their own numbers, hints a wrong answer, accepts mm for cm and keeps progress after a reload", async () => {
     const amira = await openPage(browser);
-    await signInStudent(amira.page, demoSignIns.student);
+    await openAsStudent(amira.page, demoSignIns.student);
     await amira.page.goto(`/learn/${LESSON}`);
     const amiraPrompt = await exercise(amira.page, "deformation-from-readings").getByTestId("exercise-prompt").first().innerText();
 
     const ben = await openPage(browser);
-    await signInStudent(ben.page, demoSignIns.secondStudent);
+    await openAsStudent(ben.page, demoSignIns.secondStudent);
     await ben.page.goto(`/learn/${LESSON}`);
     const benPrompt = await exercise(ben.page, "deformation-from-readings").getByTestId("exercise-prompt").first().innerText();
     expect(benPrompt).not.toBe(amiraPrompt);
@@ -85,7 +76,7 @@ describe("a lesson in the browser", () => {
 
   it("never sends an expected answer or a worked solution to the student's browser: not in the page, the loader data or the lesson bundle", async () => {
     const { page, context } = await openPage(browser);
-    await signInStudent(page, { ...demoSignIns.student, username: "carmen.l" });
+    await openAsStudent(page, { ...demoSignIns.student, username: "carmen.l" });
     const html = await (await page.goto(`/learn/${LESSON}`))!.text();
     const loaderData = await page.evaluate(async (url) => (await fetch(url)).text(), `/learn/${LESSON}.data`);
     const bundleUrl = await page.locator('script[src^="/lesson-code/"]').getAttribute("src");
@@ -105,7 +96,7 @@ describe("a lesson in the browser", () => {
   it("goes through the whole lesson from the prediction to the handed-in written answer", async () => {
     const student = { ...demoSignIns.student, username: "dev.p" };
     const { page, context, consoleErrors } = await openPage(browser);
-    await signInStudent(page, student);
+    await openAsStudent(page, student);
     await page.goto(`/learn/${LESSON}`);
 
     // The data stays hidden until a prediction is committed.
@@ -147,7 +138,7 @@ describe("a lesson in the browser", () => {
   it("passes an accessibility scan (axe-core) with no serious or critical violation, and its math carries MathML", async () => {
     // The scan script is injected by the test, so this context alone may bypass the page's CSP.
     const { page, context } = await openPage(browser, { bypassCSP: true });
-    await signInStudent(page, { ...demoSignIns.student, username: "elif.s" });
+    await openAsStudent(page, { ...demoSignIns.student, username: "elif.s" });
     await page.goto(`/learn/${LESSON}`);
     await expect(page.locator("math").count()).resolves.toBeGreaterThan(2);
     await expect(page.locator("annotation[encoding='application/x-tex']").count()).resolves.toBeGreaterThan(2);
@@ -164,7 +155,7 @@ describe("a lesson in the browser", () => {
 
   it("serves the lesson's code from the app's own origin with no eval needed", async () => {
     const { page, context, consoleErrors } = await openPage(browser);
-    await signInStudent(page, { ...demoSignIns.student, username: "finn.o" });
+    await openAsStudent(page, { ...demoSignIns.student, username: "finn.o" });
     const response = await page.goto(`/learn/${LESSON}`);
     expect(response!.headers()["content-security-policy"]).not.toContain("unsafe-eval");
     // Client-side navigation to another lesson loads its script on the way.

@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import postgres from "postgres";
 import { demoSignIns } from "../../drizzle/scripts/seed";
-import { launchBrowser, openPage } from "./browser";
+import { launchBrowser, openPage, signInAsAdult, signInAsStudent } from "./browser";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -19,21 +19,6 @@ afterAll(async () => {
 // A refused form post answers 400/403/429 on purpose; Chromium notes each such answer in the console.
 const expectedRefusal = /Failed to load resource: the server responded with a status of (400|403|429)/;
 const unexpected = (errors: string[]) => errors.filter((e) => !expectedRefusal.test(e));
-
-async function signInAsAdult(page: Page, email: string, password: string) {
-  const door = page.getByRole("region", { name: "Adults" });
-  await door.getByLabel("E-mail address").fill(email);
-  await door.getByLabel("Password").fill(password);
-  await door.getByRole("button", { name: "Sign in" }).click();
-}
-
-async function signInAsStudent(page: Page, code: string, username: string, password: string) {
-  const door = page.getByRole("region", { name: "Students" });
-  await door.getByLabel("Class or family code").fill(code);
-  await door.getByLabel("Username").fill(username);
-  await door.getByLabel("Password").fill(password);
-  await door.getByRole("button", { name: "Sign in" }).click();
-}
 
 const s = demoSignIns;
 // The README's table of demo sign-ins, with where each lands and the name the header shows.

@@ -6,7 +6,8 @@ import { useLesson } from "./lesson-context";
 export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id: string; prompt?: string }) {
   const { state, canAnswer, slug } = useLesson();
   const fetcher = useFetcher<{ photoId?: string; error?: string; saved?: boolean }>();
-  const mine = fetcher.data?.photoId === id ? fetcher.data : undefined;
+  // Each upload box has its own fetcher, so its answer is always about this box.
+  const mine = fetcher.data;
   const photos = state.photos[id] ?? [];
   return (
     <section id={`photo-${id}`} className="card my-8 scroll-mt-6 font-ui" aria-labelledby={`photo-${id}-title`}>

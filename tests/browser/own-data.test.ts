@@ -1,0 +1,143 @@
+// Own readings in the home lab: six readings typed into lesson 7 give the same stiffness and fit as
+// POST /api/analysis on the same readings, an own-data exercise is checked against them, bad rows are
+// named and lose nothing, and a set-up photo is checked by its real type.
+import { deflateSync } from "node:zlib";
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { formatForStudent } from "~/lib/science";
+import { demoSignIns } from "../../drizzle/scripts/seed";
+import { appUrl, launchBrowser, openAsStudent, openPage } from "./browser";
+
+const LESSON = "07-home-lab";
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+
+// Invented readings of a plastic ruler bending under water bottles.
+const unloadedCm = 24.0;
+const readings = [
+  { forceN: 0.5, readingCm: 23.7 },
+  { forceN: 1.0, readingCm: 23.3 },
+  { forceN: 1.5, readingCm: 23.0 },
+  { forceN: 2.0, readingCm: 22.6 },
+  { forceN: 2.5, readingCm: 22.3 },
+  { forceN: 3.0, readingCm: 21.9 },
+];
+
+/** A real 1×1 PNG, made here so no image file is needed. */
+function tinyPng(): Buffer {
+  const crc = (buf: Buffer) => {
+    let c = ~0;
+    for (const b of buf) {
+      c ^= b;
+      for (let k = 0; k < 8; k++) c = c & 1 ? (c >>> 1) ^ 0xedb88320 : c >>> 1;
+    }
+    return ~c >>> 0;
+  };
+  const chunk = (type: string, data: Buffer) => {
+    const body = Buffer.concat([Buffer.from(type), data]);
+    const out = Buffer.alloc(12 + data.length);
+    out.writeUInt32BE(data.length, 0);
+    body.copy(out, 4);
+    out.writeUInt32BE(crc(body), 8 + data.length);
+    return out;
+  };
+  const header = Buffer.from([0, 0, 0, 1, 0, 0, 0, 1, 8, 2, 0, 0, 0]);
+  return Buffer.concat([
+    Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    chunk("IHDR", header),
+    chunk("IDAT", deflateSync(Buffer.from([0, 200, 120, 80]))),
+    chunk("IEND", Buffer.alloc(0)),
+  ]);
+}
+
+describe("own readings in the home lab", () => {
+  it("gives the same stiffness and fit as POST /api/analysis, and checks an own-data exercise against them", async () => {
+    const { page, context, consoleErrors } = await openPage(browser);
+    await openAsStudent(page, { ...demoSignIns.student, username: "hugo.m" });
+    await page.goto(`/learn/${LESSON}`);
+    const table = page.locator("#readings-ruler-readings");
+
+    // An own-data question waits for the readings.
+    const question = page.locator('[data-exercise="own-ruler-largest-stiffness"]');
+    await expect(question.getByText(/Save your readings above first/).count()).resolves.toBe(1);
+
+    // A bad row is named, and what was typed stays.
+    await table.getByLabel("What you tested").fill("plastic ruler");
+    await table.getByLabel(/Unloaded reading/).fill(String(unloadedCm));
+    await table.getByLabel("Force, row 1").fill("0.5");
+    await table.getByLabel(/Loaded reading \(cm\), row 1/).fill("abc");
+    await table.getByRole("button", { name: "Save and analyse" }).click();
+    await table.getByRole("alert").waitFor();
+    expect(await table.getByRole("alert").innerText()).toMatch(/Row 1: the reading “abc” is not a number/);
+    expect(await table.getByLabel("Force, row 1").inputValue()).toBe("0.5");
+    // The browser logs the expected 400 of that refusal; only later errors count.
+    consoleErrors.splice(0, consoleErrors.length, ...consoleErrors.filter((e) => !/status of 400/.test(e)));
+
+    for (const [i, r] of readings.entries()) {
+      await table.getByLabel(`Force, row ${i + 1}`).fill(String(r.forceN));
+      await table.getByLabel(new RegExp(`Loaded reading \\(cm\\), row ${i + 1}$`)).fill(String(r.readingCm));
+    }
+    await table.getByRole("button", { name: "Save and analyse" }).click();
+    await table.getByTestId("readings-analysis").waitFor();
+    const shown = await table.getByTestId("stiffness-through-origin").innerText();
+
+    const api = await fetch(`${appUrl}/api/analysis`, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify({ mode: "bend", unloadedCm, resolutionCm: 0.1, points: readings }),
+    }).then((r) => r.json());
+    expect(shown).toBe(`${formatForStudent(api.fit.throughOrigin.slope)} N/cm`);
+    const page2 = await page.evaluate(async (url) => (await fetch(url)).json(), `/learn/${LESSON}.data`).catch(() => null);
+    expect(page2).not.toBeUndefined();
+
+    // The own-data question now uses these readings: the largest load's stiffness, from the API's own points.
+    await page.reload();
+    const top = api.points[api.points.length - 1];
+    const k = top.forceN / top.deformationCm;
+    await question.getByLabel(/Your answer/).fill(`${k.toPrecision(3)} N/cm`);
+    await question.getByRole("button", { name: "Check my answer" }).click();
+    await question.getByText("That's right.").waitFor();
+    expect(consoleErrors).toEqual([]);
+    await context.close();
+  });
+
+  it("stores a real photo and refuses a file that only pretends to be one", { timeout: 60_000 }, async () => {
+    const { page, context } = await openPage(browser);
+    await openAsStudent(page, { ...demoSignIns.student, username: "ines.r" });
+    await page.goto(`/learn/${LESSON}`);
+    const box = page.locator("#photo-setup-photo");
+
+    await box.locator('input[type="file"]').setInputFiles({ name: "setup.png", mimeType: "image/png", buffer: Buffer.from("this is not a picture at all") });
+    await box.getByRole("button", { name: "Upload the photo" }).click();
+    await box.getByRole("alert").waitFor({ timeout: 10_000 }).catch(async (e) => {
+      await page.screenshot({ path: "tests/.artifacts/photo-refusal.png", fullPage: true });
+      throw e;
+    });
+    expect(await box.getByRole("alert").innerText()).toMatch(/not a JPEG, PNG or WebP photo/);
+    await expect(box.locator("img").count()).resolves.toBe(0);
+
+    await box.locator('input[type="file"]').setInputFiles({ name: "setup.png", mimeType: "image/png", buffer: tinyPng() });
+    await box.getByRole("button", { name: "Upload the photo" }).click();
+    await box.locator("img").waitFor();
+    const src = await box.locator("img").getAttribute("src");
+    const photo = await page.evaluate(async (url) => {
+      const r = await fetch(url!);
+      return { status: r.status, type: r.headers.get("content-type") };
+    }, src);
+    expect(photo).toEqual({ status: 200, type: "image/png" });
+
+    // Another student cannot open it.
+    const other = await openPage(browser);
+    await openAsStudent(other.page, { ...demoSignIns.student, username: "jonah.b" });
+    const response = await other.page.goto(src!);
+    expect(response!.status()).toBe(404);
+    await other.context.close();
+    await context.close();
+  });
+});
