@@ -13,8 +13,7 @@ export { LATE_POLICY_WORDS } from "./shared";
 type Db = { db: Database };
 
 export const MAX_PENALTY_PERCENT = 100;
-export const MAX_EXTRA_ATTEMPTS = 20;
-export const MAX_EXTRA_DAYS = 60;
+export { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS } from "./shared";
 
 export interface ClassAssignment {
   id: string;

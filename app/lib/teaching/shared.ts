@@ -93,6 +93,10 @@ export function filterRows(rows: GradebookRow[], filter: GradebookFilter): Grade
   return rows;
 }
 
+/** The most a teacher can add for one student: tries per exercise, and days. */
+export const MAX_EXTRA_ATTEMPTS = 20;
+export const MAX_EXTRA_DAYS = 60;
+
 export const LATE_POLICY_WORDS: Record<LatePolicy, string> = {
   accept: "Late work counts in full",
   penalty: "Late work loses points per day",
