@@ -4,6 +4,7 @@ import { type RouteConfig, index, route } from "@react-router/dev/routes";
 export default [
   index("routes/home.tsx"),
   route("healthz", "routes/healthz.ts"),
+  route("favicon.ico", "routes/favicon.ts"),
   // Sign-in, homes and Auth.js's own endpoints
   route("auth/*", "routes/auth.$.ts"),
   route("sign-in", "routes/sign-in.tsx"),
@@ -45,4 +46,17 @@ export default [
   route("payments/stopped", "routes/payments.stopped.tsx"),
   route("api/payments/status", "routes/api.payments.status.ts"),
   route("api/payments/webhook", "routes/api.payments.webhook.ts"),
+  // Families, invitations and e-mail (issue 8)
+  route("join/family", "routes/join.family.tsx"),
+  route("join/family/confirm", "routes/join.family.confirm.tsx"),
+  route("join/teacher", "routes/join.teacher.tsx"),
+  route("family/children/new", "routes/family.children.new.tsx"),
+  route("family/children/:childId", "routes/family.children.$childId.tsx"),
+  route("family/children/:childId/delete", "routes/family.children.$childId.delete.tsx"),
+  route("family/lessons", "routes/family.lessons.tsx"),
+  route("family/lessons/:slug", "routes/family.lessons.$slug.tsx"),
+  route("school/teachers", "routes/school.teachers.tsx"),
+  route("school/students", "routes/school.students.tsx"),
+  route("school/students/:studentId/delete", "routes/school.students.$studentId.delete.tsx"),
+  route("mail/weekly-summary", "routes/mail.weekly-summary.tsx"),
 ] satisfies RouteConfig;

@@ -17,7 +17,7 @@ import { get, post, runRoute, sessionCookieFor, userIdOf } from "./auth-helpers"
 
 const PERSONAS = ["anon", "schoolAdmin", "teacher", "student", "parent", "otherSchool"] as const;
 type Persona = (typeof PERSONAS)[number];
-type Ids = { mapleClass: string; harborClass: string; amira: string };
+type Ids = { mapleClass: string; harborClass: string; amira: string; juno: string };
 type Row = { url: string | ((ids: Ids) => string); expect: Record<Persona, number> };
 
 /** One line per route: the URL to request, then the status for each persona in PERSONAS order. */
@@ -33,6 +33,7 @@ const matrix: Record<string, Row | Row[]> = {
   //                                  url                                          anon admin teach stud parent other
   "/":                          row("/",                                           200, 200, 200, 200, 200, 200),
   "/healthz":                   row("/healthz",                                    200, 200, 200, 200, 200, 200),
+  "/favicon.ico":               row("/favicon.ico",                                301, 301, 301, 301, 301, 301),
   "/auth/*":                    row("/auth/session",                               200, 200, 200, 200, 200, 200),
   "/sign-in":                   row("/sign-in?redirectTo=/teach",                  200, 200, 200, 200, 200, 200),
   "/sign-in/link":              row("/sign-in/link",                               200, 200, 200, 200, 200, 200),
@@ -88,6 +89,31 @@ const matrix: Record<string, Row | Row[]> = {
                                 row((ids) => `/api/teach/classes/${ids.harborClass}/gradebook`, 302, 403, 404, 403, 403, 200),
   ],
   "/school/classes":            row("/school/classes",                             302, 200, 403, 403, 403, 403),
+  // Families, invitations and e-mail (issue 8): "parent" is the Lindqvist household's parent, Juno their child.
+  "/join/family":               row("/join/family",                                200, 200, 200, 200, 200, 200),
+  "/join/family/confirm":       row("/join/family/confirm?token=not-a-real-token-0123456789", 200, 200, 200, 200, 200, 200),
+  "/join/teacher":              row("/join/teacher?token=not-a-real-token-0123456789", 200, 200, 200, 200, 200, 200),
+  "/family/children/new":       row("/family/children/new",                        302, 403, 403, 403, 200, 403),
+  "/family/children/:childId": [
+                                row((ids) => `/family/children/${ids.juno}`,       302, 403, 403, 403, 200, 403),
+                                row((ids) => `/family/children/${ids.amira}`,      302, 403, 403, 403, 404, 403),
+  ],
+  "/family/children/:childId/delete": [
+                                row((ids) => `/family/children/${ids.juno}/delete`, 302, 403, 403, 403, 200, 403),
+                                row(`/family/children/${NO_SUCH_ID}/delete`,       302, 403, 403, 403, 404, 403),
+  ],
+  "/family/lessons":            row("/family/lessons",                             302, 403, 403, 403, 200, 403),
+  "/family/lessons/:slug": [
+                                row("/family/lessons/02-force-and-deformation",    302, 403, 403, 403, 200, 403),
+                                row("/family/lessons/99-no-such-lesson",           302, 403, 403, 403, 404, 403),
+  ],
+  "/school/teachers":           row("/school/teachers",                            302, 200, 403, 403, 403, 403),
+  "/school/students":           row("/school/students",                            302, 200, 403, 403, 403, 403),
+  "/school/students/:studentId/delete": [
+                                row((ids) => `/school/students/${ids.amira}/delete`, 302, 200, 403, 403, 403, 403),
+                                row((ids) => `/school/students/${ids.juno}/delete`,  302, 404, 403, 403, 403, 403),
+  ],
+  "/mail/weekly-summary":       row("/mail/weekly-summary?token=not-a-real-token", 404, 404, 404, 404, 404, 404),
 };
 
 /** Routes whose posts are checked by something other than assertSameOrigin, and why. */
@@ -95,6 +121,7 @@ const CROSS_SITE_POST_EXEMPT: Record<string, string> = {
   "/auth/*": "Auth.js checks its own double-submit CSRF token (see sign-in.test.ts)",
   "/api/analysis": "a public JSON API: no cookie is read, no account is touched, nothing is stored",
   "/api/payments/webhook": "called by the payment provider's servers; every event must carry its signature",
+  "/mail/weekly-summary": "the signed token in the address is the permission, no cookie is read; mail programs post their one-click opt-out (RFC 8058) from their own servers",
 };
 
 // The demo people behind the columns; "otherSchool" teaches at Harborside, the second demo school.
@@ -123,7 +150,7 @@ beforeAll(async () => {
   for (const [persona, person] of Object.entries(PEOPLE)) cookies[persona as Persona] = await sessionCookieFor(person);
   const [mapleClass] = await db.select({ id: classes.id }).from(classes).where(and(eq(classes.signInCode, "MAPLE7A")));
   const [harborClass] = await db.select({ id: classes.id }).from(classes).where(eq(classes.signInCode, "HARBOR8"));
-  ids = { mapleClass: mapleClass.id, harborClass: harborClass.id, amira: await userIdOf("student") };
+  ids = { mapleClass: mapleClass.id, harborClass: harborClass.id, amira: await userIdOf("student"), juno: await userIdOf("child") };
 }, 120_000);
 
 describe("access matrix", () => {
