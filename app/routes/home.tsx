@@ -54,6 +54,9 @@ export default function Home() {
             <Link to="/tools/analyse" className="btn btn-quiet">
               Try the readings analyser
             </Link>
+            <Link to="/join/family" className="btn btn-quiet">
+              Teaching at home? Make a family account
+            </Link>
           </div>
         </div>
         <figure className="card" aria-label="A strip on two supports bending under a load">

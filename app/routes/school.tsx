@@ -63,7 +63,13 @@ export default function School({ loaderData }: Route.ComponentProps) {
             <ul className="list-disc space-y-1 pl-5">
               <li>See how many student seats your school has bought for each school year, and how many are in use.</li>
               <li>
-                <Link to="/school/seats">Buy seats by card or ask for an invoice, and keep every receipt</Link>. Soon: invite teachers.
+                <Link to="/school/seats">Buy seats by card or ask for an invoice, and keep every receipt</Link>.
+              </li>
+              <li>
+                <Link to="/school/teachers">Invite teachers by e-mail</Link>.
+              </li>
+              <li>
+                <Link to="/school/students">See the student accounts, and delete one with everything recorded for it</Link>.
               </li>
             </ul>
           </div>
@@ -81,7 +87,9 @@ export default function School({ loaderData }: Route.ComponentProps) {
                   ))}
                 </ul>
               )}
-              <p className="mt-2 text-ink-soft">{school.students} students have accounts.</p>
+              <p className="mt-2 text-ink-soft">
+                <Link to="/school/students">{school.students} students have accounts</Link>.
+              </p>
               <p className="mt-2">
                 <Link to="/school/seats">Seat ledger, purchases and receipts</Link>
               </p>
@@ -97,6 +105,9 @@ export default function School({ loaderData }: Route.ComponentProps) {
                   ))}
                 </ul>
               )}
+              <p className="mt-2">
+                <Link to="/school/teachers">Invite a teacher</Link>
+              </p>
             </div>
             <div className="card">
               <h2 className="mb-2 text-[length:var(--text-step-1)]">Classes</h2>

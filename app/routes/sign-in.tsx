@@ -168,6 +168,9 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
             <li>
               <Link to="/reset-password">Forgot your password?</Link>
             </li>
+            <li>
+              New here and teaching at home? <Link to="/join/family">Make a family account</Link>
+            </li>
           </ul>
         </section>
 

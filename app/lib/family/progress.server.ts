@@ -1,0 +1,117 @@
+// What a parent sees of one child: the course path (courseProgress, the same as the child's /learn),
+// a score for each lesson, each exercise's tries, written answers with the review, their own readings
+// with the analysis behind the charts, and photos. Assigned lessons carry the household gradebook's
+// cell (due date, late, stuck), from the teaching model's own gradebook.
+import type { Database } from "~/db/client.server";
+import { courseProgress } from "~/lib/course.server";
+import { lessonExercises } from "~/lib/lessons.server";
+import { analyseReadings, type AnalysisResult } from "~/lib/science";
+import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
+import { isRubricScores, type GradebookCell, type RubricScores } from "~/lib/teaching/shared";
+import { loadStudentWork } from "~/lib/teaching/student-work.server";
+import { formatMoment } from "~/lib/teaching/time";
+import { outcomeWords, readableAnswer, wrongAnswerGroup } from "~/lib/teaching/words";
+import type { TeacherClass } from "~/lib/teaching/classes.server";
+
+export interface ChildLesson {
+  slug: string;
+  number: number;
+  title: string;
+  minutes: number;
+  requiredDone: number;
+  requiredTotal: number;
+  complete: boolean;
+  started: boolean;
+  /** share of the lesson's required exercises answered right, 0–100; null before any try */
+  score: number | null;
+  assignment: { assignmentId: string; dueText: string; cell: GradebookCell | null } | null;
+  exercises: {
+    id: string;
+    title: string;
+    right: boolean;
+    tries: { id: string; answer: string; right: boolean; what: string; at: string }[];
+  }[];
+  answers: {
+    answerId: string;
+    claim: string;
+    evidence: string;
+    reasoning: string;
+    handedIn: boolean;
+    handedInText: string | null;
+    scores: RubricScores | null;
+    comment: string | null;
+  }[];
+  readings: { id: string; material: string; mode: string; points: number; analysis: AnalysisResult | null }[];
+  photos: { id: string; photoId: string; at: string }[];
+}
+
+export async function childReport({ db }: { db: Database }, childId: string, klass: TeacherClass | null): Promise<ChildLesson[]> {
+  const tz = klass?.timeZone ?? "UTC";
+  const [progress, work, book] = await Promise.all([
+    courseProgress({ db }, childId),
+    loadStudentWork({ db }, childId),
+    klass ? loadGradebook({ db }, klass.id) : Promise.resolve(null),
+  ]);
+  const view = book ? gradebookView(book, tz) : null;
+  const row = view?.rows.find((r) => r.student.id === childId);
+  return progress.map((p) => {
+    const { exercises } = lessonExercises(p.slug);
+    const required = exercises.filter((e) => e.required ?? true);
+    const attempts = work.attempts.filter((a) => a.lessonSlug === p.slug);
+    const rightIds = new Set(attempts.filter((a) => a.correct === 1).map((a) => a.exerciseId));
+    const assigned = view?.lessons.find((l) => l.slug === p.slug);
+    return {
+      slug: p.slug,
+      number: p.number,
+      title: p.title,
+      minutes: p.minutes,
+      requiredDone: p.requiredDone,
+      requiredTotal: p.requiredTotal,
+      complete: p.complete,
+      started: p.started,
+      score: attempts.length > 0 && required.length > 0 ? Math.round((100 * required.filter((e) => rightIds.has(e.id)).length) / required.length) : null,
+      assignment: assigned ? { assignmentId: assigned.assignmentId, dueText: assigned.dueText, cell: row?.cells[assigned.assignmentId] ?? null } : null,
+      exercises: exercises
+        .map((e) => ({
+          id: e.id,
+          title: e.title,
+          right: rightIds.has(e.id),
+          tries: attempts
+            .filter((a) => a.exerciseId === e.id)
+            .map((a) => ({
+              id: a.id,
+              answer: readableAnswer(a.rawAnswer),
+              right: a.correct === 1,
+              what: a.correct === 1 ? "right" : a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : outcomeWords(a.outcome),
+              at: formatMoment(a.createdAt, tz),
+            })),
+        }))
+        .filter((e) => e.tries.length > 0),
+      answers: work.answers
+        .filter((a) => a.lessonSlug === p.slug)
+        .map((a) => ({
+          answerId: a.answerId,
+          claim: a.claim,
+          evidence: a.evidence,
+          reasoning: a.reasoning,
+          handedIn: a.handedInAt !== null,
+          handedInText: a.handedInAt ? formatMoment(a.handedInAt, tz) : null,
+          scores: isRubricScores(a.reviewScores) ? a.reviewScores : null,
+          comment: a.reviewComment,
+        })),
+      readings: work.readings
+        .filter((r) => r.lessonSlug === p.slug)
+        .map((r) => {
+          const points = r.points as { forceN: number; readingCm?: number; returnReadingCm?: number; broke?: boolean }[];
+          let analysis: AnalysisResult | null = null;
+          try {
+            analysis = analyseReadings({ mode: r.mode, unloadedCm: r.unloadedCm ?? undefined, resolutionCm: r.resolutionCm, points });
+          } catch {
+            // A half-filled table has nothing to draw yet.
+          }
+          return { id: r.readingsId, material: r.material, mode: r.mode, points: points.length, analysis };
+        }),
+      photos: work.photos.filter((ph) => ph.lessonSlug === p.slug).map((ph) => ({ id: ph.id, photoId: ph.photoId, at: formatMoment(ph.createdAt, tz) })),
+    };
+  });
+}
