@@ -17,14 +17,20 @@ export default defineConfig({
   server: { host: "127.0.0.1" },
   preview: { host: "127.0.0.1" },
   test: {
-    // `npm test` runs unit and integration tests first, then the browser tests against the production build.
-    include: process.env.BENDWISE_BROWSER
-      ? ["tests/browser/**/*.test.ts"]
-      : ["tests/unit/**/*.test.ts", "tests/integration/**/*.test.ts"],
-    setupFiles: process.env.BENDWISE_BROWSER ? [] : ["tests/setup/each-file.ts"],
-    fileParallelism: !process.env.BENDWISE_BROWSER,
     testTimeout: 20_000,
     hookTimeout: 60_000,
     pool: "forks",
+    // Three kinds of test. Unit tests need nothing running (`npx vitest run tests/unit/x.test.ts` works
+    // on its own); integration tests get a database of their own per file from the template `npm test`
+    // prepares; browser tests run last, one file at a time, against the production build.
+    projects: process.env.BENDWISE_BROWSER
+      ? [{ extends: true, test: { name: "browser", include: ["tests/browser/**/*.test.ts"], fileParallelism: false } }]
+      : [
+          { extends: true, test: { name: "unit", include: ["tests/unit/**/*.test.ts"] } },
+          {
+            extends: true,
+            test: { name: "integration", include: ["tests/integration/**/*.test.ts"], setupFiles: ["tests/setup/each-file.ts"] },
+          },
+        ],
   },
 });

@@ -125,6 +125,9 @@ function AnalysisReport({ analysis }: { analysis: AnalysisResult }) {
   const origin = analysis.fit.throughOrigin;
   const free = analysis.fit.withIntercept;
   const show = (v: number | null, unit = "", sig = 4) => (v === null ? "—" : formatForStudent(v, unit, sig));
+  // Readings are shown as measured (no padding zeros); worked-out values to 3 significant figures.
+  const plain = (v: number | null) => (v === null ? "—" : String(Number(v.toPrecision(6))));
+  const hasReturns = analysis.points.some((p) => p.permanentSetCm !== null);
   return (
     <section aria-labelledby="results" className="font-ui" data-testid="analysis-report">
       <div className="mb-4 flex flex-wrap items-center justify-between gap-3">
@@ -146,10 +149,10 @@ function AnalysisReport({ analysis }: { analysis: AnalysisResult }) {
             <tbody>
               {analysis.points.map((p, i) => (
                 <tr key={i}>
-                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.forceN)}</td>
-                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.deformationCm)}</td>
-                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.stiffnessNPerCm)}</td>
-                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.permanentSetCm)}</td>
+                  <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.forceN)}</td>
+                  <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.deformationCm)}</td>
+                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.stiffnessNPerCm, "", 3)}</td>
+                  <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.permanentSetCm)}</td>
                 </tr>
               ))}
             </tbody>
@@ -166,7 +169,11 @@ function AnalysisReport({ analysis }: { analysis: AnalysisResult }) {
             <dt className="font-bold">Proportional?</dt>
             <dd data-testid="proportional">{analysis.proportional ? "Yes" : "No"}</dd>
             <dt className="font-bold">Elastic limit</dt>
-            <dd>{analysis.elasticLimitN === null ? "not found in these readings" : show(analysis.elasticLimitN, "N")}</dd>
+            <dd>{analysis.elasticLimitN !== null
+                ? show(analysis.elasticLimitN, "N")
+                : hasReturns
+                  ? "not found in these readings"
+                  : "needs readings taken after each unload"}</dd>
             <dt className="font-bold">Breaking load</dt>
             <dd>{analysis.breakingLoadN === null ? "did not break" : show(analysis.breakingLoadN, "N")}</dd>
           </dl>

@@ -3,7 +3,8 @@
 import type { LessonExercises } from "~/lib/exercises";
 import { formatForStudent, stiffnessNPerCm } from "~/lib/science";
 
-const cm = (value: number) => `${formatForStudent(value)} cm`;
+// Ruler readings and deformations to 0.1 cm, as the ruler gives them.
+const cm = (value: number) => `${value.toFixed(1)} cm`;
 
 export const lesson: LessonExercises = {
   writtenAnswers: ["cer-stiffness"],
@@ -122,7 +123,7 @@ export const lesson: LessonExercises = {
         const deformations = forces.map((f, i) => Number(((f / k) * (softens && i === 2 ? 1.3 : 1)).toFixed(2)));
         const stiffnesses = forces.map((f, i) => f / deformations[i]);
         return {
-          prompt: `Three readings of one strip: ${forces.map((f, i) => `${f} N bends it ${cm(deformations[i])}`).join("; ")}.\nIs the stiffness the same for all three readings (within about 5 %)?`,
+          prompt: `Three readings of one strip: ${forces.map((f, i) => `${f} N bends it ${deformations[i].toFixed(2)} cm`).join("; ")}.\nIs the stiffness the same for all three readings (within about 5 %)?`,
           hint: "Work out force ÷ deformation for each reading and compare the three.",
           choices: [
             { value: "same", label: "Yes, about the same for all three" },

@@ -4,7 +4,7 @@
  * answered with its own expected answer through the real answer checker.
  *
  * Pure: no database, no server. Run on its own with
- *   npx vitest run tests/unit/lessons-content.test.ts -c tests/unit/vitest.lessons.config.ts
+ *   npx vitest run tests/unit/lessons-content.test.ts   (unit tests need no database)
  * Readings used here as a student's "own data" are invented for the test.
  */
 import { existsSync, readdirSync, readFileSync } from "node:fs";
