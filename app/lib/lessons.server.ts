@@ -107,8 +107,22 @@ function compilerVersions(): string {
   return ["mdx-bundler", "esbuild", "remark-math", "rehype-katex", "katex"].map((p) => `${p}@${versionOf(p)}`).join(",");
 }
 
-/** A hash of every file of the lesson (except its generators, which never reach the bundle) and the compiler. */
+const hashes = new Map<string, string>();
+
+/**
+ * A hash of every file of the lesson (except its generators, which never reach the bundle) and the
+ * compiler. In production the files do not change under a running server, so it is worked out once;
+ * elsewhere it is read afresh, so an edited lesson is recompiled on its next view.
+ */
 export function lessonHash(slug: string): string {
+  const known = process.env.NODE_ENV === "production" ? hashes.get(slug) : undefined;
+  if (known) return known;
+  const hash = hashLessonFiles(slug);
+  hashes.set(slug, hash);
+  return hash;
+}
+
+function hashLessonFiles(slug: string): string {
   const dir = path.join(lessonsDir(), slug);
   const hash = createHash("sha256").update(`rev${PIPELINE_REVISION};${compilerVersions()}`);
   for (const name of readdirSync(dir).sort()) {
