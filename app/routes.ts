@@ -5,6 +5,7 @@ export default [
   index("routes/home.tsx"),
   route("healthz", "routes/healthz.ts"),
   route("favicon.ico", "routes/favicon.ts"),
+  route("api/ping", "routes/api.ping.ts"),
   // Sign-in, homes and Auth.js's own endpoints
   route("auth/*", "routes/auth.$.ts"),
   route("sign-in", "routes/sign-in.tsx"),

@@ -34,6 +34,7 @@ const matrix: Record<string, Row | Row[]> = {
   "/":                          row("/",                                           200, 200, 200, 200, 200, 200),
   "/healthz":                   row("/healthz",                                    200, 200, 200, 200, 200, 200),
   "/favicon.ico":               row("/favicon.ico",                                301, 301, 301, 301, 301, 301),
+  "/api/ping":                  row("/api/ping",                                   200, 200, 200, 200, 200, 200),
   "/auth/*":                    row("/auth/session",                               200, 200, 200, 200, 200, 200),
   "/sign-in":                   row("/sign-in?redirectTo=/teach",                  200, 200, 200, 200, 200, 200),
   "/sign-in/link":              row("/sign-in/link",                               200, 200, 200, 200, 200, 200),
