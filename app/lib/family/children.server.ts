@@ -15,16 +15,20 @@ export const newChildSchema = z
     displayName: z.string().transform((s) => s.trim().replace(/\s+/g, " ")),
     username: z.string().transform((s) => s.trim().toLowerCase()),
     password: z.string(),
-    gradeBand: z.enum(["6-8", "9-10"], { error: "Choose the grade band: 6–8 or 9–10." }),
+    // A plain string here, checked below, so a missing grade band does not hide the other fields' messages.
+    gradeBand: z.string(),
   })
   .superRefine((v, ctx) => {
+    if (v.gradeBand !== "6-8" && v.gradeBand !== "9-10") ctx.addIssue({ code: "custom", path: ["gradeBand"], message: "Choose the grade band: 6–8 or 9–10." });
     const nameProblem = displayNameProblem(v.displayName);
     if (nameProblem) ctx.addIssue({ code: "custom", path: ["displayName"], message: nameProblem.replace("The display name is missing.", "Enter the name your child goes by, e.g. a first name.") });
     const userProblem = usernameProblem(v.username);
     if (userProblem) ctx.addIssue({ code: "custom", path: ["username"], message: userProblem.replace("The username is missing.", "Choose a username for signing in, e.g. juno or juno.s.") });
     const passwordCheck = newPasswordSchema({ username: v.username }).safeParse(v.password);
     if (!passwordCheck.success) ctx.addIssue({ code: "custom", path: ["password"], message: passwordCheck.error.issues[0]?.message ?? "Choose another password." });
-  });
+  })
+  // Everything was checked above; this only gives the result its exact type.
+  .pipe(z.object({ displayName: z.string(), username: z.string(), password: z.string(), gradeBand: z.enum(["6-8", "9-10"]) }));
 
 export type NewChild = z.infer<typeof newChildSchema>;
 
