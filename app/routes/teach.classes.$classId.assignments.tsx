@@ -140,17 +140,24 @@ export default function Assignments({ loaderData, actionData }: Route.ComponentP
               </div>
               {mine?.done ? <Notice tone="done">{mine.done}</Notice> : null}
               {mine?.errors?.form || mine?.errors?.slug ? <Notice tone="problem">{mine.errors.form ?? mine.errors.slug}</Notice> : null}
-              <AssignForm lesson={lesson} errors={mine?.errors ?? {}} busy={busy} />
-              {a ? (
-                <Form method="post" className="mt-3">
-                  <input type="hidden" name="intent" value="unassign" />
-                  <input type="hidden" name="assignmentId" value={a.id} />
-                  <input type="hidden" name="slug" value={lesson.slug} />
-                  <button type="submit" className="btn btn-quiet" disabled={busy}>
-                    Take off the list
-                  </button>
-                </Form>
-              ) : null}
+              <details open={Boolean(mine?.errors && Object.keys(mine.errors).length > 0)} className="group">
+                <summary className="cursor-pointer font-bold text-spruce">
+                  {a ? "Change the dates or the late-work rule" : `Assign lesson ${lesson.number}…`}
+                </summary>
+                <div className="mt-3">
+                  <AssignForm lesson={lesson} errors={mine?.errors ?? {}} busy={busy} />
+                  {a ? (
+                    <Form method="post" preventScrollReset className="mt-3">
+                      <input type="hidden" name="intent" value="unassign" />
+                      <input type="hidden" name="assignmentId" value={a.id} />
+                      <input type="hidden" name="slug" value={lesson.slug} />
+                      <button type="submit" className="btn btn-quiet" disabled={busy}>
+                        Take off the list
+                      </button>
+                    </Form>
+                  ) : null}
+                </div>
+              </details>
             </li>
           );
         })}
@@ -192,7 +199,7 @@ function AssignForm({ lesson, errors, busy }: { lesson: LessonRow; errors: Recor
       </p>
     ) : null;
   return (
-    <Form method="post" key={a ? `${a.opensAt}|${a.dueAt}|${a.latePolicy}|${a.latePenaltyPercent}` : "new"}>
+    <Form method="post" preventScrollReset key={a ? `${a.opensAt}|${a.dueAt}|${a.latePolicy}|${a.latePenaltyPercent}` : "new"}>
       <input type="hidden" name="intent" value="assign" />
       <input type="hidden" name="slug" value={lesson.slug} />
       <div className="grid gap-x-4 sm:grid-cols-2 lg:grid-cols-4">

@@ -89,7 +89,8 @@ export default function GradebookPage({ loaderData }: Route.ComponentProps) {
       <ClassHeader klass={klass} />
       <div className="mb-4 flex flex-wrap items-baseline justify-between gap-3">
         <p>
-          {book.summary.students} students · {book.summary.lessons} lessons assigned · lesson work done: <Percent value={book.summary.completePercent} /> ·
+          {book.summary.students} {book.summary.students === 1 ? "student" : "students"} · {book.summary.lessons}{" "}
+          {book.summary.lessons === 1 ? "lesson" : "lessons"} assigned · lesson work done: <Percent value={book.summary.completePercent} /> ·
           average score: <Percent value={book.summary.averageScore} />
           {book.summary.toReview > 0 ? <> · <strong>{book.summary.toReview}</strong> written {book.summary.toReview === 1 ? "answer" : "answers"} to review</> : null}
         </p>

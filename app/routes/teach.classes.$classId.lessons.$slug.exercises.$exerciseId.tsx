@@ -105,10 +105,10 @@ export default function ExerciseAnalysis({ loaderData }: Route.ComponentProps) {
               <Link to={`/teach/classes/${klass.id}/students/${s.id}`}>{s.displayName}</Link>
               {s.attempts.length === 0 ? <span className="text-ink-soft"> — no tries yet</span> : null}
               {s.attempts.length > 0 ? (
-                <ol className="pl-5 text-[length:var(--text-step--1)]" style={{ listStyle: "decimal" }}>
-                  {s.attempts.map((a) => (
+                <ol className="mt-1 space-y-0.5 pl-1 text-[length:var(--text-step--1)]">
+                  {s.attempts.map((a, i) => (
                     <li key={a.id}>
-                      <span className="font-mono">{a.answer || "(empty)"}</span> — {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.words}</span>}{" "}
+                      <span className="text-ink-soft">Try {i + 1}:</span> <span className="font-mono">{a.answer || "(empty)"}</span> — {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.words}</span>}{" "}
                       <span className="text-ink-soft">· {a.at}</span>
                     </li>
                   ))}

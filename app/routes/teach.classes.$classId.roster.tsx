@@ -203,7 +203,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
           {"display name,username,student number\nAmara O.,amara.o,70431\nBruno L.,bruno.l,70432"}
         </pre>
         <p className="mb-4 text-ink-soft">The file is checked first. Nothing is saved until you confirm a file without problems.</p>
-        <Form method="post" encType="multipart/form-data" key={csv?.fileName ?? "upload"}>
+        <Form method="post" preventScrollReset encType="multipart/form-data" key={csv?.fileName ?? "upload"}>
           <div className="grid gap-x-4 sm:grid-cols-2">
             <div className="mb-4">
               <label htmlFor="roster-file" className="mb-1 block font-bold">CSV file</label>
@@ -220,7 +220,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
         <section className="card" aria-labelledby="add-one">
           <h2 id="add-one" className="mb-3 text-[length:var(--text-step-1)]">Add one student</h2>
           {addOne?.errors.form ? <Notice tone="problem">{addOne.errors.form}</Notice> : null}
-          <Form method="post" key={added ? added.map((a) => a.username).join() : "add-one"}>
+          <Form method="post" preventScrollReset key={added ? added.map((a) => a.username).join() : "add-one"}>
             <input type="hidden" name="intent" value="add-one" />
             <TextField label="Display name" hint="First name and initial is enough." name="displayName" required maxLength={60} autoComplete="off" defaultValue={addOne?.values.displayName} error={addOne?.errors.displayName} />
             <TextField label="Username" hint="Letters, digits, dots; unique at your school." name="username" required maxLength={40} autoComplete="off" autoCapitalize="none" spellCheck={false} defaultValue={addOne?.values.username} error={addOne?.errors.username} />
@@ -234,7 +234,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
           <h2 id="add-existing" className="mb-3 text-[length:var(--text-step-1)]">Add a student who already has an account</h2>
           <p className="mb-3 text-ink-soft">For a student at your school who is in another class already. They keep their password and their work.</p>
           {existing?.done ? <Notice tone="done">{existing.done}</Notice> : null}
-          <Form method="post">
+          <Form method="post" preventScrollReset>
             <input type="hidden" name="intent" value="add-existing" />
             <TextField label="Their username" name="username" required maxLength={60} autoComplete="off" autoCapitalize="none" spellCheck={false} error={existing?.error} />
             <button type="submit" className="btn btn-quiet" disabled={busy}>Add to this class</button>
@@ -312,7 +312,7 @@ function RosterCheck({ result, busy }: { result: Extract<ActionResult, { intent:
         </div>
       ) : null}
       {preview.problems.length === 0 && result.csv ? (
-        <Form method="post">
+        <Form method="post" preventScrollReset>
           <input type="hidden" name="intent" value="import-csv" />
           <input type="hidden" name="csv" value={result.csv} />
           <input type="hidden" name="gradeBand" value={result.gradeBand} />

@@ -71,7 +71,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
         <section className="card" aria-labelledby="rename">
           <h2 id="rename" className="mb-3 text-[length:var(--text-step-1)]">Name</h2>
           {message("rename")}
-          <Form method="post" key={klass.name}>
+          <Form method="post" preventScrollReset key={klass.name}>
             <input type="hidden" name="intent" value="rename" />
             <TextField label="Class name" name="name" defaultValue={klass.name} required maxLength={80} error={error("rename")} />
             <button className="btn" type="submit" disabled={busy}>Rename</button>
@@ -87,7 +87,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
           <p className="mb-4 text-ink-soft">
             If the code has been shared outside the class, make a new one. The old code stops working at once; students who are signed in stay signed in.
           </p>
-          <Form method="post">
+          <Form method="post" preventScrollReset onSubmit={(e) => confirmOr(e, "Make a new code? The old code stops working at once; tell your students the new one.")}>
             <input type="hidden" name="intent" value="renew-code" />
             <button className="btn btn-quiet" type="submit" disabled={busy || klass.archived}>Make a new code</button>
           </Form>
@@ -96,7 +96,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
         <section className="card" aria-labelledby="zone">
           <h2 id="zone" className="mb-3 text-[length:var(--text-step-1)]">Time zone for due dates</h2>
           {message("time-zone")}
-          <Form method="post" key={timeZone}>
+          <Form method="post" preventScrollReset key={timeZone}>
             <input type="hidden" name="intent" value="time-zone" />
             <SelectField label="Time zone" name="timeZone" defaultValue={timeZone} options={timeZones.map((z) => ({ value: z, label: z }))} error={error("time-zone")} />
             <button className="btn" type="submit" disabled={busy}>Save the time zone</button>
@@ -110,7 +110,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
           {klass.archived ? (
             <>
               <p className="mb-4">This class is archived: it is not in your list and its code signs nobody in. Restore it to use it again.</p>
-              <Form method="post">
+              <Form method="post" preventScrollReset>
                 <input type="hidden" name="intent" value="restore" />
                 <button className="btn" type="submit" disabled={busy}>Restore the class</button>
               </Form>
@@ -121,7 +121,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
                 At the end of the year, archive the class: it leaves your list and its code stops signing students in. Their accounts and work are kept, and
                 you can restore it.
               </p>
-              <Form method="post">
+              <Form method="post" preventScrollReset onSubmit={(e) => confirmOr(e, "Archive this class? Its code stops signing students in until you restore it.")}>
                 <input type="hidden" name="intent" value="archive" />
                 <button className="btn btn-quiet" type="submit" disabled={busy}>Archive the class</button>
               </Form>
@@ -131,6 +131,11 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
       </div>
     </div>
   );
+}
+
+/** Asks before a change that students notice at once; without JavaScript the form simply posts. */
+function confirmOr(event: React.FormEvent, question: string) {
+  if (!window.confirm(question)) event.preventDefault();
 }
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Settings · ${data?.klass.name ?? "Class"} — Bendwise` }];

@@ -249,10 +249,10 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
                 <span className="font-bold">{e.title}</span>{" "}
                 {e.attempts.length === 0 ? <span className="text-ink-soft">— no tries yet</span> : null}
                 {e.attempts.length > 0 ? (
-                  <ol className="mt-1 space-y-0.5 pl-5 text-[length:var(--text-step--1)]" style={{ listStyle: "decimal" }}>
-                    {e.attempts.map((a) => (
+                  <ol className="mt-1 space-y-0.5 pl-1 text-[length:var(--text-step--1)]">
+                    {e.attempts.map((a, i) => (
                       <li key={a.id}>
-                        <span className="font-mono">{a.answer || "(empty)"}</span> —{" "}
+                        <span className="text-ink-soft">Try {i + 1}:</span> <span className="font-mono">{a.answer || "(empty)"}</span> —{" "}
                         {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.slip ?? a.outcome}</span>}{" "}
                         <span className="text-ink-soft">· {a.at}</span>
                       </li>
@@ -343,7 +343,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
               ))}
             </ul>
           ) : null}
-          <Form method="post">
+          <Form method="post" preventScrollReset>
             <input type="hidden" name="intent" value="accommodation" />
             <SelectField label="For" name="scope" options={scopes} />
             <div className="grid grid-cols-2 gap-3">
@@ -359,7 +359,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
           <h3 id="password" className="mb-2 font-reading text-[length:var(--text-step-1)]">New password</h3>
           <p className="mb-3 text-ink-soft">For a student who forgot theirs. Their other sessions end.</p>
           {about("password")}
-          <Form method="post">
+          <Form method="post" preventScrollReset>
             <input type="hidden" name="intent" value="password" />
             <TextField label="New password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" />
             <button type="submit" className="btn" disabled={busy}>Set a new password</button>
@@ -372,7 +372,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
           {targets.length === 0 ? (
             <p className="text-ink-soft">You have no other class at this school to move {student.displayName} to.</p>
           ) : (
-            <Form method="post">
+            <Form method="post" preventScrollReset>
               <input type="hidden" name="intent" value="move" />
               <SelectField label="Move to" name="toClassId" options={targets.map((t) => ({ value: t.id, label: `${t.name} (${t.schoolYear})` }))} />
               <button type="submit" className="btn" disabled={busy}>Move</button>
@@ -380,7 +380,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
           )}
           <hr className="my-4 border-rule" />
           {about("remove")}
-          <Form method="post" onSubmit={(e) => { if (!window.confirm(`Take ${student.displayName} out of ${klass.name}? Their account and work are kept.`)) e.preventDefault(); }}>
+          <Form method="post" preventScrollReset onSubmit={(e) => { if (!window.confirm(`Take ${student.displayName} out of ${klass.name}? Their account and work are kept.`)) e.preventDefault(); }}>
             <input type="hidden" name="intent" value="remove" />
             <button type="submit" className="btn btn-quiet" disabled={busy}>Take out of this class</button>
           </Form>

@@ -128,7 +128,7 @@ export default function TeachClasses({ loaderData }: Route.ComponentProps) {
         <h2 id="new-class" className="mb-3 text-[length:var(--text-step-1)]">
           Make a class
         </h2>
-        <Form method="post" key={created?.id ?? "new"}>
+        <Form method="post" preventScrollReset key={created?.id ?? "new"}>
           <input type="hidden" name="intent" value="create" />
           <input type="hidden" name="timeZone" value={timeZone} />
           <TextField label="Class name" name="name" required maxLength={80} defaultValue={result?.values.name ?? ""} error={errors.name} autoComplete="off" />

@@ -13,7 +13,6 @@ import * as schema from "~/db/schema.server";
 import { assignments, classes, exerciseAttempts, lessonVisits, users, writtenAnswers } from "~/db/schema.server";
 import { checkAnswer, type ExpectedAnswer } from "~/lib/answer-checker";
 import type { ExerciseDefinition, ExerciseInstance } from "~/lib/exercises";
-import { formatForStudent } from "~/lib/science";
 import { exerciseSeed, seededRandom } from "~/lib/seeded-random";
 import { lesson as lessonTwo } from "../../lessons/02-force-and-deformation/exercises.server";
 
@@ -40,7 +39,7 @@ function instanceFor(studentId: string, definition: ExerciseDefinition): Exercis
 
 /** A way of writing the expected value that the checker accepts. */
 function rightText(expected: ExpectedAnswer): string {
-  const candidates = [2, 3, 4, 5, 6].map((sig) => formatForStudent(expected.value, expected.unit, sig)).concat(`${expected.value} ${expected.unit}`.trim());
+  const candidates = [2, 3, 4, 5, 6].map((sig) => `${Number(expected.value.toPrecision(sig))} ${expected.unit}`.trim());
   return candidates.find((c) => checkAnswer(c, expected).outcome === "correct") ?? candidates[1];
 }
 
@@ -54,7 +53,7 @@ function slipRaw(slip: "loaded-reading" | "factor-10", instance: ExerciseInstanc
   const expected = instance.expected;
   if (!expected) return null;
   if (slip === "loaded-reading" && expected.context?.loadedReadingCm !== undefined) return `${expected.context.loadedReadingCm} cm`;
-  return formatForStudent(expected.value * 10, expected.unit, 3);
+  return `${Number((expected.value * 10).toPrecision(3))} ${expected.unit}`.trim();
 }
 
 export async function seedTeachingDemo(db: Db) {

@@ -95,6 +95,7 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     await page.waitForURL(/\/assignments$/);
     const lesson2 = page.locator(`[data-lesson="${LESSON}"]`);
     const due = dateToZonedInput(new Date(Date.now() + 5 * 24 * 3600 * 1000), made.timeZone).slice(0, 10) + "T17:00";
+    await lesson2.getByText("Assign lesson 2…").click();
     await lesson2.getByLabel("Due").fill(due);
     await lesson2.getByRole("button", { name: "Assign lesson 2" }).click();
     await lesson2.getByText(/^Assigned, due /).waitFor();

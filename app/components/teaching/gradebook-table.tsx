@@ -11,7 +11,7 @@ export function GradebookTable({ classId, book, rows }: { classId: string; book:
         <caption className="sr-only">Gradebook: students by assigned lessons</caption>
         <thead>
           <tr className="border-b-2 border-rule align-bottom">
-            <th scope="col" className="sticky left-0 z-10 bg-card px-3 py-2">Student</th>
+            <th scope="col" className="sticky left-0 z-10 min-w-28 bg-card px-3 py-2">Student</th>
             {book.lessons.map((l) => (
               <th key={l.assignmentId} scope="col" className="min-w-36 px-3 py-2">
                 <Link to={`/teach/classes/${classId}/lessons/${l.slug}`}>{l.number ? `L${l.number}: ` : ""}{l.title}</Link>
@@ -25,7 +25,7 @@ export function GradebookTable({ classId, book, rows }: { classId: string; book:
         <tbody>
           {rows.map((row) => (
             <tr key={row.student.id} className="border-b border-rule align-top" data-student={row.student.username ?? row.student.id}>
-              <th scope="row" className="sticky left-0 z-10 bg-card px-3 py-2 font-normal">
+              <th scope="row" className="sticky left-0 z-10 min-w-28 bg-card px-3 py-2 font-normal">
                 <Link to={`/teach/classes/${classId}/students/${row.student.id}`}>{row.student.displayName}</Link>
               </th>
               {book.lessons.map((l) => (

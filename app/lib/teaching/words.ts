@@ -5,9 +5,9 @@ const SLIP_WORDS: Record<string, string> = {
   "total-length-as-change": "Gave a whole length instead of the change in length",
   "multiplied-not-divided": "Multiplied force by deformation instead of dividing",
   "ratio-upside-down": "Turned the ratio upside down",
-  "unit-factor-10": "Off by a factor of 10 (a unit slip, cm and mm)",
-  "unit-factor-100": "Off by a factor of 100 (a unit slip, m and cm)",
-  "unit-factor-1000": "Off by a factor of 1000 (a unit slip, m and mm, kN and N)",
+  "unit-factor-10": "Off by a factor of 10 (a unit slip)",
+  "unit-factor-100": "Off by a factor of 100 (a unit slip)",
+  "unit-factor-1000": "Off by a factor of 1000 (a unit slip)",
   "mass-not-weight": "Gave a mass instead of a weight in newtons",
 };
 
