@@ -1,0 +1,379 @@
+// `npm run bench`: how fast Bendwise answers, as shares of a floor measured in the same run.
+//
+//   build → a throw-away PostgreSQL on loopback → migrations, the demo seed and a large INVENTED school
+//   (tests/bench/invented-school.ts) → SQL statements per request and lesson compile vs cache, in
+//   process (tests/bench/in-process.measure.ts, with vitest) → the production server on 127.0.0.1 →
+//   client JavaScript of every lesson page against the landing page → autocannon against the floor
+//   (GET /api/ping, a constant JSON), a lesson page, an answer check, the gradebook JSON and
+//   POST /api/analysis → the floor again → a table on screen and the same figures in
+//   tests/.artifacts/bench.json.
+//
+// Only servers this script starts, on 127.0.0.1, are loaded, each for a bounded time. No figure is a
+// wall-clock limit: the targets are ratios to the floor, so a busy or slow machine moves both sides.
+import { execFileSync, spawn, type ChildProcess } from "node:child_process";
+import { randomBytes } from "node:crypto";
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { cpus, loadavg, tmpdir } from "node:os";
+import path from "node:path";
+import { gzipSync } from "node:zlib";
+import autocannon from "autocannon";
+import { eq } from "drizzle-orm";
+import { drizzle } from "drizzle-orm/postgres-js";
+import postgres from "postgres";
+import * as schema from "~/db/schema.server";
+import { exerciseAttempts } from "~/db/schema.server";
+import type { ExerciseDefinition } from "~/lib/exercises";
+import { exerciseSeed, seededRandom } from "~/lib/seeded-random";
+import { freePort, startAppServer, waitForHttp } from "../../drizzle/scripts/local-stack";
+import { runMigrations } from "../../drizzle/scripts/migrate";
+import { ensureDatabase, startThrowAwayPostgres } from "../../drizzle/scripts/postgres";
+import { seedDemo } from "../../drizzle/scripts/seed";
+import { COURSE, CURRENT_LESSON, seedInventedSchool, slipRaw } from "./invented-school";
+import { mintSessionCookie } from "./session-cookie";
+import type { BenchInfo } from "./in-process.measure";
+
+const projectDir = process.cwd();
+const artifacts = path.join(projectDir, "tests", ".artifacts");
+mkdirSync(artifacts, { recursive: true });
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
+const WARM_UP_SECONDS = Number(process.env.BENCH_WARM_UP_SECONDS ?? 3);
+const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
+/** The lesson page measured under load: a lesson with displayed equations and the students' term work. */
+const PAGE_LESSON = "02-force-and-deformation";
+
+const TARGETS = {
+  answerRatio: 0.4,
+  lessonPageRatio: 0.25,
+  gradebookRatio: 0.25,
+  maxStatements: 5,
+  maxJsRatio: 1.5,
+};
+
+const cleanups: Array<() => void | Promise<void>> = [];
+let app: ChildProcess | undefined;
+async function cleanUp() {
+  if (app && app.exitCode === null) {
+    app.kill("SIGTERM");
+    await new Promise((r) => app!.once("exit", r));
+  }
+  for (const cleanup of cleanups.reverse()) {
+    try {
+      await cleanup();
+    } catch (error) {
+      console.error("clean-up:", (error as Error).message);
+    }
+  }
+}
+process.on("SIGINT", () => void cleanUp().then(() => process.exit(130)));
+
+const step = (text: string) => console.log(`\n▸ ${text}`);
+
+function instanceFor(studentId: string, slug: string, definition: ExerciseDefinition) {
+  return definition.generate(seededRandom(exerciseSeed(studentId, slug, definition.id, 0)), { ownData: null });
+}
+
+/** The urlencoded body of a wrong (but readable) answer, as the lesson page's fetcher sends it. */
+function answerBody(studentId: string, slug: string, definition: ExerciseDefinition, which: number): string {
+  const raw = slipRaw(definition, instanceFor(studentId, slug, definition), which);
+  const form = new URLSearchParams({ intent: "answer", exerciseId: definition.id });
+  if (definition.kind === "choice") {
+    const { choice, reason } = JSON.parse(raw) as { choice: string; reason: string };
+    form.set("choice", choice);
+    form.set("reason", reason);
+  } else if (definition.kind === "table") {
+    for (const cell of JSON.parse(raw) as string[]) form.append("cell", cell);
+  } else {
+    form.set("answer", raw);
+  }
+  return form.toString();
+}
+
+interface LoadResult {
+  name: string;
+  requestsPerSecond: number;
+  latencyP50Ms: number;
+  latencyP99Ms: number;
+  requests: number;
+  non2xx: number;
+  errors: number;
+}
+
+type Req = { method: string; path: string; headers: Record<string, string>; body?: string };
+
+/** One autocannon run (after a warm-up of its own), each request made by `next(i)`. */
+async function load(name: string, appUrl: string, next: (i: number) => Req): Promise<LoadResult> {
+  let i = 0;
+  const run = (seconds: number) =>
+    autocannon({
+      url: appUrl,
+      connections: CONNECTIONS,
+      duration: seconds,
+      requests: [{ setupRequest: (req: Record<string, unknown>) => ({ ...req, ...next(i++) }) }],
+    });
+  await run(WARM_UP_SECONDS);
+  const result = await run(SECONDS);
+  const outcome = {
+    name,
+    requestsPerSecond: result.requests.average,
+    latencyP50Ms: result.latency.p50,
+    latencyP99Ms: result.latency.p99,
+    requests: result.requests.total,
+    non2xx: result.non2xx,
+    errors: result.errors + result.timeouts,
+  };
+  console.log(`  ${name.padEnd(22)} ${outcome.requestsPerSecond.toFixed(0).padStart(6)} req/s  p50 ${outcome.latencyP50Ms} ms  p99 ${outcome.latencyP99Ms} ms  (${outcome.requests} requests, ${outcome.non2xx} not 2xx)`);
+  return outcome;
+}
+
+/** Every module script a page loads (its modulepreload links and the inline module's imports) and its classic scripts. */
+async function pageScripts(appUrl: string, pathname: string, cookie?: string): Promise<{ url: string; bytes: number; gzip: number }[]> {
+  const html = await (await fetch(`${appUrl}${pathname}`, { headers: cookie ? { cookie } : {} })).text();
+  const urls = new Set<string>();
+  for (const m of html.matchAll(/<link[^>]+rel="modulepreload"[^>]+href="([^"]+)"/g)) urls.add(m[1]);
+  for (const m of html.matchAll(/<link[^>]+href="([^"]+)"[^>]+rel="modulepreload"/g)) urls.add(m[1]);
+  for (const script of html.matchAll(/<script[^>]*type="module"[^>]*>([\s\S]*?)<\/script>/g)) {
+    for (const m of script[1].matchAll(/(?:import|from)\s*\(?\s*"([^"]+\.js)"/g)) urls.add(m[1]);
+  }
+  for (const m of html.matchAll(/<script[^>]+src="([^"]+)"/g)) urls.add(m[1]);
+  const files = [];
+  for (const url of urls) {
+    const response = await fetch(new URL(url, appUrl));
+    if (!response.ok) throw new Error(`${url} answered ${response.status}`);
+    const body = Buffer.from(await response.arrayBuffer());
+    files.push({ url, bytes: body.length, gzip: gzipSync(body).length });
+  }
+  return files;
+}
+
+const sum = (files: { gzip: number }[]) => files.reduce((s, f) => s + f.gzip, 0);
+const kb = (bytes: number) => `${(bytes / 1024).toFixed(1)} KB`;
+
+let exitCode = 1;
+try {
+  console.log(`Bendwise benchmark on ${cpus().length} cores (${cpus()[0]?.model ?? "?"}), Node ${process.version}, load average ${loadavg().map((l) => l.toFixed(2)).join(" ")}`);
+
+  step("Building the app");
+  mkdirSync(path.join(projectDir, ".cache"), { recursive: true });
+  const buildDir = mkdtempSync(path.join(projectDir, ".cache", "bench-build-"));
+  cleanups.push(() => rmSync(buildDir, { recursive: true, force: true }));
+  execFileSync(process.execPath, [path.join(projectDir, "node_modules", "@react-router", "dev", "bin.js"), "build"], {
+    stdio: ["ignore", "ignore", "inherit"],
+    env: { ...process.env, BENDWISE_BUILD_DIR: buildDir },
+  });
+
+  step("A throw-away PostgreSQL with the demo and a large invented school");
+  const pg = startThrowAwayPostgres(await freePort());
+  cleanups.push(() => pg.stop());
+  await ensureDatabase(pg.adminUrl, "bendwise_bench");
+  const databaseUrl = pg.urlFor("bendwise_bench");
+  await runMigrations(databaseUrl);
+  const client = postgres(databaseUrl, { max: 4, onnotice: () => {} });
+  cleanups.push(() => client.end());
+  const db = drizzle(client, { schema });
+  await seedDemo(db);
+  let started = performance.now();
+  const school = await seedInventedSchool(db);
+  await client`analyze`;
+  console.log(`  ${Object.entries(school.counts).map(([k, v]) => `${v} ${k}`).join(", ")} in ${((performance.now() - started) / 1000).toFixed(1)} s`);
+
+  const authSecret = randomBytes(32).toString("base64url");
+  const appPort = await freePort();
+  const appUrl = `http://127.0.0.1:${appPort}`;
+
+  step("Session cookies for every invented student and the gradebook's teacher");
+  const cookieOf = new Map<string, string>();
+  for (const s of school.students) cookieOf.set(s.id, await mintSessionCookie(authSecret, s.id));
+  const teacherCookie = await mintSessionCookie(authSecret, school.gradebookClass.teacherId, { hours: 12 });
+
+  // Answers: (student, exercise) pairs of the current lesson with no attempt yet; each takes up to three wrong answers.
+  const current = COURSE.find((c) => c.slug === CURRENT_LESSON)!;
+  const tried = new Set(
+    (await db.select({ s: exerciseAttempts.studentId, e: exerciseAttempts.exerciseId }).from(exerciseAttempts).where(eq(exerciseAttempts.lessonSlug, CURRENT_LESSON))).map(
+      (r) => `${r.s}|${r.e}`,
+    ),
+  );
+  const pairs = school.students.flatMap((s) =>
+    current.lesson.exercises.filter((e) => e.kind !== "own-data" && !tried.has(`${s.id}|${e.id}`)).map((definition) => ({ studentId: s.id, definition })),
+  );
+  const [reserved, ...loadPairs] = pairs;
+  console.log(`  ${pairs.length} open (student, exercise) pairs in ${CURRENT_LESSON}: room for ${pairs.length * 3} counted answers`);
+
+  const analysisBody = JSON.stringify({
+    mode: "bend",
+    unloadedCm: 30,
+    resolutionCm: 0.1,
+    points: Array.from({ length: 10 }, (_, i) => ({ forceN: i + 1, readingCm: Number((30 - 0.42 * (i + 1) - (i % 3 === 1 ? 0.1 : 0)).toFixed(1)) })),
+  });
+
+  step("SQL statements per request and lesson compile vs cache (in process, vitest)");
+  const infoFile = path.join(tmpdir(), `bendwise-bench-info-${process.pid}.json`);
+  const inProcessOut = path.join(tmpdir(), `bendwise-bench-in-process-${process.pid}.json`);
+  cleanups.push(() => rmSync(infoFile, { force: true }));
+  cleanups.push(() => rmSync(inProcessOut, { force: true }));
+  const info: BenchInfo = {
+    appUrl,
+    lessonSlug: PAGE_LESSON,
+    studentCookie: cookieOf.get(school.students[1].id)!,
+    answer: {
+      cookie: cookieOf.get(reserved.studentId)!,
+      slug: CURRENT_LESSON,
+      exerciseId: reserved.definition.id,
+      fields: Object.fromEntries(new URLSearchParams(answerBody(reserved.studentId, CURRENT_LESSON, reserved.definition, 0))),
+    },
+    gradebook: { cookie: teacherCookie, classId: school.gradebookClass.id },
+    analysisBody,
+    lessons: COURSE.map((c) => c.slug),
+  };
+  writeFileSync(infoFile, JSON.stringify(info));
+  const appEnv = {
+    DATABASE_URL: databaseUrl,
+    AUTH_SECRET: authSecret,
+    APP_URL: appUrl,
+    SMTP_URL: "smtp://127.0.0.1:9",
+    UPLOADS_DIR: mkdtempSync(path.join(tmpdir(), "bendwise-bench-uploads-")),
+  };
+  cleanups.push(() => rmSync(appEnv.UPLOADS_DIR, { recursive: true, force: true }));
+  await new Promise<void>((resolve, reject) => {
+    const child = spawn(
+      process.execPath,
+      [path.join(projectDir, "node_modules", "vitest", "vitest.mjs"), "run", "--config", "tests/bench/vitest.bench.config.ts", "--reporter=dot"],
+      { stdio: ["ignore", "inherit", "inherit"], env: { ...process.env, ...appEnv, BENCH_INFO: infoFile, BENCH_IN_PROCESS_OUT: inProcessOut } },
+    );
+    child.on("exit", (code) => (code === 0 ? resolve() : reject(new Error(`the in-process measurements failed (exit ${code})`))));
+  });
+  const inProcess = JSON.parse(readFileSync(inProcessOut, "utf8")) as {
+    sqlStatements: Record<"floor" | "lessonPage" | "answer" | "gradebook" | "analysis", number>;
+    compile: { lessons: { slug: string; compileMs: number; memoryMs: number; diskMs: number }[]; meanCompileMs: number; meanMemoryMs: number; meanDiskMs: number };
+  };
+
+  step("The production server on loopback");
+  app = startAppServer({ buildDir, port: appPort, quiet: true, env: appEnv });
+  await waitForHttp(`${appUrl}/healthz`, 60_000, app);
+
+  step("Client JavaScript (gzip) of every lesson page against the landing page");
+  const landing = await pageScripts(appUrl, "/");
+  const lessonJs = [];
+  for (const { slug } of COURSE) {
+    const files = await pageScripts(appUrl, `/learn/${slug}`, cookieOf.get(school.students[0].id));
+    const lessonCode = files.filter((f) => f.url.startsWith("/lesson-code/"));
+    if (lessonCode.length !== 1) throw new Error(`the page of ${slug} did not load its lesson code`);
+    lessonJs.push({ slug, gzip: sum(files), lessonCodeGzip: sum(lessonCode), files: files.length });
+  }
+  const worst = lessonJs.reduce((a, b) => (b.gzip > a.gzip ? b : a));
+  console.log(`  landing page ${kb(sum(landing))} in ${landing.length} files; lesson pages ${kb(Math.min(...lessonJs.map((l) => l.gzip)))}–${kb(worst.gzip)} (largest: ${worst.slug})`);
+
+  step(`Load: ${CONNECTIONS} connections, ${WARM_UP_SECONDS} s warm-up then ${SECONDS} s each, autocannon in this process`);
+  const students = school.students;
+  const floorBefore = await load("floor (GET /api/ping)", appUrl, () => ({ method: "GET", path: "/api/ping", headers: {} }));
+  const lessonPage = await load("lesson page", appUrl, (i) => ({
+    method: "GET",
+    path: `/learn/${PAGE_LESSON}`,
+    headers: { cookie: cookieOf.get(students[i % students.length].id)!, accept: "text/html" },
+  }));
+  const answer = await load("answer check", appUrl, (i) => {
+    const pair = loadPairs[i % loadPairs.length];
+    const round = Math.floor(i / loadPairs.length);
+    return {
+      method: "POST",
+      path: `/learn/${CURRENT_LESSON}.data`,
+      headers: {
+        cookie: cookieOf.get(pair.studentId)!,
+        "content-type": "application/x-www-form-urlencoded",
+        origin: appUrl,
+        "sec-fetch-site": "same-origin",
+      },
+      body: answerBody(pair.studentId, CURRENT_LESSON, pair.definition, round),
+    };
+  });
+  const gradebook = await load("gradebook JSON", appUrl, () => ({
+    method: "GET",
+    path: `/api/teach/classes/${school.gradebookClass.id}/gradebook`,
+    headers: { cookie: teacherCookie },
+  }));
+  // A distinct client address per request (the app reads the last X-Forwarded-For entry), so the
+  // per-address limit of 120 a minute is never reached: every request is analysed and counted.
+  const analysis = await load("POST /api/analysis", appUrl, (i) => ({
+    method: "POST",
+    path: "/api/analysis",
+    headers: { "content-type": "application/json", "x-forwarded-for": `10.${(i >> 16) & 255}.${(i >> 8) & 255}.${i & 255}` },
+    body: analysisBody,
+  }));
+  const floorAfter = await load("floor again", appUrl, () => ({ method: "GET", path: "/api/ping", headers: {} }));
+
+  const floor = (floorBefore.requestsPerSecond + floorAfter.requestsPerSecond) / 2;
+  const ratio = (r: LoadResult) => r.requestsPerSecond / floor;
+  const sql = inProcess.sqlStatements;
+  const jsRatio = worst.gzip / sum(landing);
+  const checks = [
+    { measure: "answer check (lesson action, with its write)", ratio: ratio(answer), target: TARGETS.answerRatio },
+    { measure: "lesson page (student, server render with math)", ratio: ratio(lessonPage), target: TARGETS.lessonPageRatio },
+    { measure: "gradebook JSON (35 students, 8 lessons)", ratio: ratio(gradebook), target: TARGETS.gradebookRatio },
+  ];
+  const statementChecks = [
+    { measure: "lesson page", statements: sql.lessonPage },
+    { measure: "answer check", statements: sql.answer },
+    { measure: "gradebook JSON", statements: sql.gradebook },
+  ];
+
+  const report = {
+    when: new Date().toISOString(),
+    machine: { cores: cpus().length, cpu: cpus()[0]?.model ?? "?", node: process.version, loadAverageAtEnd: loadavg() },
+    settings: { connections: CONNECTIONS, seconds: SECONDS, warmUpSeconds: WARM_UP_SECONDS, tool: "autocannon 9.0.0" },
+    inventedSchool: school.counts,
+    floor: { requestsPerSecond: floor, before: floorBefore, after: floorAfter },
+    load: Object.fromEntries(
+      [lessonPage, answer, gradebook, analysis].map((r) => [r.name, { ...r, ratioToFloor: ratio(r) }]),
+    ),
+    sqlStatementsPerRequest: sql,
+    clientJavaScript: { landingGzip: sum(landing), landingFiles: landing, lessons: lessonJs, largestLesson: worst.slug, ratio: jsRatio },
+    compile: inProcess.compile,
+    targets: {
+      ratios: checks.map((c) => ({ ...c, met: c.ratio >= c.target })),
+      statements: statementChecks.map((c) => ({ ...c, max: TARGETS.maxStatements, met: c.statements <= TARGETS.maxStatements })),
+      javaScript: { ratio: jsRatio, max: TARGETS.maxJsRatio, met: jsRatio <= TARGETS.maxJsRatio },
+    },
+  };
+  writeFileSync(path.join(artifacts, "bench.json"), JSON.stringify(report, null, 2));
+
+  const pct = (x: number) => `${(100 * x).toFixed(0)}%`;
+  const line = (cells: string[]) => `| ${cells.join(" | ")} |`;
+  const rows = [
+    line(["measure", "figure", "share of floor / ratio", "target", "met"]),
+    line(["---", "---:", "---:", "---:", ":---:"]),
+    line(["floor: GET /api/ping (constant JSON)", `${floor.toFixed(0)} req/s`, "100%", "", ""]),
+    ...[
+      [lessonPage, TARGETS.lessonPageRatio],
+      [answer, TARGETS.answerRatio],
+      [gradebook, TARGETS.gradebookRatio],
+      [analysis, null],
+    ].map(([r, target]) => {
+      const result = r as LoadResult;
+      const t = target as number | null;
+      return line([
+        `${result.name} (p50 ${result.latencyP50Ms} ms)`,
+        `${result.requestsPerSecond.toFixed(0)} req/s`,
+        pct(ratio(result)),
+        t === null ? "" : `≥ ${pct(t)}`,
+        t === null ? "" : ratio(result) >= t ? "yes" : "NO",
+      ]);
+    }),
+    ...(["lessonPage", "answer", "gradebook", "analysis"] as const).map((k) =>
+      line([`SQL statements: ${k === "lessonPage" ? "lesson page" : k === "answer" ? "answer check" : k === "gradebook" ? "gradebook JSON" : "POST /api/analysis"}`, String(sql[k]), "", k === "analysis" ? "" : `≤ ${TARGETS.maxStatements}`, k === "analysis" ? "" : sql[k] <= TARGETS.maxStatements ? "yes" : "NO"]),
+    ),
+    line(["client JS (gzip): landing page", kb(sum(landing)), "1.00", "", ""]),
+    line([`client JS (gzip): largest lesson page (${worst.slug}, incl. lesson code ${kb(worst.lessonCodeGzip)})`, kb(worst.gzip), jsRatio.toFixed(2), `≤ ${TARGETS.maxJsRatio}`, jsRatio <= TARGETS.maxJsRatio ? "yes" : "NO"]),
+    line(["lesson compile (mdx-bundler, mean of 8)", `${inProcess.compile.meanCompileMs.toFixed(0)} ms`, "", "", ""]),
+    line(["lesson from the cache: memory / disk (mean of 8)", `${(inProcess.compile.meanMemoryMs * 1000).toFixed(0)} µs / ${inProcess.compile.meanDiskMs.toFixed(2)} ms`, `compile is ${(inProcess.compile.meanCompileMs / inProcess.compile.meanDiskMs).toFixed(0)}× the disk cache`, "", ""]),
+  ];
+  console.log(`\n${rows.join("\n")}\n\nThe same figures: ${path.relative(projectDir, path.join(artifacts, "bench.json"))}`);
+  const missed = [...report.targets.ratios, ...report.targets.statements, report.targets.javaScript].filter((t) => !t.met).length;
+  const failures = [lessonPage, answer, gradebook, analysis, floorBefore, floorAfter].filter((r) => r.non2xx > 0 || r.errors > 0);
+  for (const f of failures) console.log(`warning: ${f.name} had ${f.non2xx} answers that were not 2xx and ${f.errors} errors`);
+  console.log(missed === 0 ? "Every target is met." : `${missed} target(s) missed.`);
+  exitCode = 0;
+} catch (error) {
+  console.error(`\nThe benchmark could not go on:\n${(error as Error).stack ?? error}`);
+} finally {
+  await cleanUp();
+}
+process.exit(exitCode);
