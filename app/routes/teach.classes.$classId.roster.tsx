@@ -7,7 +7,8 @@ import { z } from "zod";
 import type { Route } from "./+types/teach.classes.$classId.roster";
 import { db } from "~/db/client.server";
 import { assertSameOrigin } from "~/lib/auth.server";
-import { seatLedgerForYear } from "~/lib/seats.server";
+import { noFreeSeatNotice, seatLedgerForYear, type NoFreeSeatNotice as SeatNotice, type SeatRefusal } from "~/lib/seats.server";
+import { NoFreeSeatNotice } from "~/components/seats";
 import { classHeading } from "~/lib/teaching/classes.server";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import {
@@ -43,9 +44,9 @@ const intentSchema = z.discriminatedUnion("intent", [
 
 type Added = { displayName: string; username: string; password: string }[];
 type ActionResult =
-  | { intent: "add-one"; errors: Record<string, string>; values: Record<string, string> }
-  | { intent: "add-existing"; error?: string; done?: string }
-  | { intent: "preview-csv" | "import-csv"; preview?: RosterPreview; csv?: string; gradeBand?: string; fileName?: string; error?: string }
+  | { intent: "add-one"; errors: Record<string, string>; values: Record<string, string>; seatNotice?: SeatNotice }
+  | { intent: "add-existing"; error?: string; done?: string; seatNotice?: SeatNotice }
+  | { intent: "preview-csv" | "import-csv"; preview?: RosterPreview; csv?: string; gradeBand?: string; fileName?: string; error?: string; seatNotice?: SeatNotice }
   | { intent: "added"; added: Added }
   | { intent: "form"; error: string };
 
@@ -60,13 +61,24 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   assertSameOrigin(request);
-  const { klass } = await requireTeacherClass(request, params.classId);
+  const { klass, user } = await requireTeacherClass(request, params.classId);
   const reply = (result: ActionResult, status = 200) => (status === 200 ? result : data(result, { status }));
+  // A refused seat comes with the seat rules' own words: a buy link for an administrator, their names for a teacher.
+  const notice = async (refusal: SeatRefusal | null | undefined) =>
+    refusal
+      ? noFreeSeatNotice({ db }, refusal, {
+          organisationId: klass.organisationId,
+          isAdministrator: user.memberships.some((m) => m.organisationId === klass.organisationId && m.role === "school_admin"),
+        })
+      : undefined;
   if ((request.headers.get("content-type") ?? "").startsWith("multipart/form-data")) {
     const upload = await readUpload(request);
     if ("error" in upload) return reply({ intent: "preview-csv", error: upload.error }, 400);
     const preview = await previewRoster({ db }, klass, upload.text);
-    return reply({ intent: "preview-csv", preview, csv: upload.text, gradeBand: upload.gradeBand, fileName: upload.fileName }, preview.problems.length > 0 ? 400 : 200);
+    return reply(
+      { intent: "preview-csv", preview, csv: upload.text, gradeBand: upload.gradeBand, fileName: upload.fileName, seatNotice: await notice(preview.seatShortage) },
+      preview.problems.length > 0 ? 400 : 200,
+    );
   }
   const form = Object.fromEntries(await request.formData());
   const parsed = intentSchema.safeParse(form);
@@ -86,8 +98,8 @@ export async function action({ request, params }: Route.ActionArgs) {
       if (Object.keys(errors).length > 0) return reply({ intent: "add-one", errors, values }, 400);
       const result = await addStudents({ db }, klass, [{ ...input }]);
       if (!result.ok) {
-        const field = result.message.includes("username") ? "username" : "form";
-        return reply({ intent: "add-one", errors: { [field]: result.message }, values }, field === "form" ? 409 : 400);
+        const field = result.refusal ? "form" : result.message.includes("username") ? "username" : "form";
+        return reply({ intent: "add-one", errors: { [field]: result.message }, values, seatNotice: await notice(result.refusal) }, field === "form" ? 409 : 400);
       }
       return reply({ intent: "added", added: result.added });
     }
@@ -95,12 +107,15 @@ export async function action({ request, params }: Route.ActionArgs) {
       const result = await addExistingStudent({ db }, klass, input.username);
       return result.ok
         ? reply({ intent: "add-existing", done: `${result.displayName} is now in this class.` })
-        : reply({ intent: "add-existing", error: result.message }, 400);
+        : reply({ intent: "add-existing", error: result.message, seatNotice: await notice(result.refusal) }, 400);
     }
     case "import-csv": {
       const result = await importRoster({ db }, klass, input.csv, input.gradeBand);
       if (!result.ok) {
-        return reply({ intent: "import-csv", preview: result.preview, csv: input.csv, gradeBand: input.gradeBand, fileName: input.fileName, error: result.message }, 400);
+        return reply(
+          { intent: "import-csv", preview: result.preview, csv: input.csv, gradeBand: input.gradeBand, fileName: input.fileName, error: result.message, seatNotice: await notice(result.refusal ?? result.preview.seatShortage) },
+          400,
+        );
       }
       return reply({ intent: "added", added: result.added });
     }
@@ -219,7 +234,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
       <div className="grid gap-6 md:grid-cols-2">
         <section className="card" aria-labelledby="add-one">
           <h2 id="add-one" className="mb-3 text-[length:var(--text-step-1)]">Add one student</h2>
-          {addOne?.errors.form ? <Notice tone="problem">{addOne.errors.form}</Notice> : null}
+          {addOne?.seatNotice ? <NoFreeSeatNotice notice={addOne.seatNotice} /> : addOne?.errors.form ? <Notice tone="problem">{addOne.errors.form}</Notice> : null}
           <Form method="post" preventScrollReset key={added ? added.map((a) => a.username).join() : "add-one"}>
             <input type="hidden" name="intent" value="add-one" />
             <TextField label="Display name" hint="First name and initial is enough." name="displayName" required maxLength={60} autoComplete="off" defaultValue={addOne?.values.displayName} error={addOne?.errors.displayName} />
@@ -234,9 +249,10 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
           <h2 id="add-existing" className="mb-3 text-[length:var(--text-step-1)]">Add a student who already has an account</h2>
           <p className="mb-3 text-ink-soft">For a student at your school who is in another class already. They keep their password and their work.</p>
           {existing?.done ? <Notice tone="done">{existing.done}</Notice> : null}
+          {existing?.seatNotice ? <NoFreeSeatNotice notice={existing.seatNotice} /> : null}
           <Form method="post" preventScrollReset>
             <input type="hidden" name="intent" value="add-existing" />
-            <TextField label="Their username" name="username" required maxLength={60} autoComplete="off" autoCapitalize="none" spellCheck={false} error={existing?.error} />
+            <TextField label="Their username" name="username" required maxLength={60} autoComplete="off" autoCapitalize="none" spellCheck={false} error={existing?.seatNotice ? undefined : existing?.error} />
             <button type="submit" className="btn btn-quiet" disabled={busy}>Add to this class</button>
           </Form>
         </section>
@@ -248,13 +264,15 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
 function RosterCheck({ result, busy }: { result: Extract<ActionResult, { intent: "preview-csv" | "import-csv" }>; busy: boolean }) {
   const { preview } = result;
   if (!preview) return <div className="mt-4"><Notice tone="problem">{result.error}</Notice></div>;
+  const seatNotice = result.seatNotice ? <NoFreeSeatNotice notice={result.seatNotice} /> : null;
   const rowHas = (row: number) => preview.problems.some((p) => p.row === row);
   return (
     <div className="mt-6" data-testid="roster-preview">
       <h3 className="mb-2 font-reading text-[length:var(--text-step-1)]">
         {result.fileName ? `Checked: ${result.fileName}` : "Checked file"}
       </h3>
-      {preview.problems.length > 0 ? (
+      {seatNotice}
+      {seatNotice ? null : preview.problems.length > 0 ? (
         <Notice tone="problem">
           <p className="mb-2 font-bold">
             Nothing has been saved. {preview.problems.length === 1 ? "There is 1 problem" : `There are ${preview.problems.length} problems`} to fix in the file

@@ -132,10 +132,13 @@ describe("uploading a roster to a class", () => {
       row: null,
       message: expect.stringMatching(/3 students, but your school has only 2 free seats for 2026-27/),
     });
+    // The seat rules' notice: this teacher is not an administrator, so it names who can buy more.
+    expect((preview.body as { seatNotice: { askAdministrators: string[] } }).seatNotice.askAdministrators).toHaveLength(1);
     // Even a confirm sent past the preview saves nothing: the seat rules refuse the third inside the transaction.
     const teacherClass = (await findTeacherClass({ db }, { id: teacher.id, schoolIds: [school.id] }, klass.id))!;
     const refused = await runRoute(roster.action as never, post(`/teach/classes/${klass.id}/roster`, { intent: "import-csv", csv, gradeBand: "6-8" }, { cookie }), { classId: klass.id });
     expect(refused.status).toBe(400);
+    expect((refused.body as { seatNotice?: { message: string } }).seatNotice?.message).toMatch(/only 2 free seats/);
     expect((await db.select().from(users).where(eq(users.homeOrganisationId, school.id))).filter((u) => u.username)).toHaveLength(0);
     expect(await db.select().from(enrollments).where(eq(enrollments.classId, teacherClass.id))).toHaveLength(0);
 
@@ -144,6 +147,16 @@ describe("uploading a roster to a class", () => {
     const direct = await addStudents({ db }, teacherClass, ["aa.b", "cc.d", "ee.f"].map((u, i) => ({ displayName: `S ${i}`, username: u, studentNumber: "", gradeBand: "6-8" as const, row: i + 2 })));
     expect(direct).toMatchObject({ ok: false, row: 4, message: expect.stringMatching(/All 2 seats for 2026-27 are in use/) });
     expect((await db.select().from(users).where(eq(users.homeOrganisationId, school.id))).filter((u) => u.username)).toHaveLength(0);
+
+    // One by one: two fit, the third is refused with the seat rules' own message, and no account is left behind.
+    const addOne = (username: string) =>
+      runRoute(roster.action as never, post(`/teach/classes/${klass.id}/roster`, { intent: "add-one", displayName: username, username, gradeBand: "6-8", studentNumber: "", password: "" }, { cookie }), { classId: klass.id });
+    expect((await addOne("gg.h")).status).toBe(200);
+    expect((await addOne("ii.j")).status).toBe(200);
+    const third = await addOne("kk.l");
+    expect(third.status).toBe(409);
+    expect((third.body as { seatNotice: { message: string } }).seatNotice.message).toMatch(/All 2 seats for 2026-27 are in use/);
+    expect((await db.select().from(users).where(eq(users.homeOrganisationId, school.id))).filter((u) => u.username).map((u) => u.username).sort()).toEqual(["gg.h", "ii.j"]);
   });
 
   it("tells what is wrong with an upload that is not a CSV file", async () => {

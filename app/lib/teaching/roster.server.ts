@@ -13,7 +13,7 @@ import { classes, enrollments, memberships, users } from "~/db/schema.server";
 import { resetChildPassword } from "~/lib/auth.server";
 import { checkNewPassword } from "~/lib/auth/password-rules.server";
 import { hashPassword } from "~/lib/passwords.server";
-import { enrollStudentUsingSeat, releaseSeat, seatLedgerForYear } from "~/lib/seats.server";
+import { enrollStudentUsingSeat, releaseSeat, seatLedgerForYear, type SeatRefusal } from "~/lib/seats.server";
 import type { TeacherClass } from "./classes.server";
 import type { RosterProblem } from "./shared";
 
@@ -91,6 +91,8 @@ export interface RosterPreview {
   /** the column names as the file writes them */
   columns: { displayName: string; username: string; studentNumber: string };
   seats: { schoolYear: string; free: number };
+  /** set when the file has more students than the school has free seats */
+  seatShortage: SeatRefusal | null;
 }
 
 const COLUMN_NAMES: Record<"displayName" | "username" | "studentNumber", string[]> = {
@@ -128,18 +130,21 @@ export async function previewRoster({ db }: Db, klass: Pick<TeacherClass, "id" |
       });
     }
   }
+  let seatShortage: SeatRefusal | null = null;
   if (rows.length > 0 && problems.length === 0 && rows.length > ledger.free) {
-    problems.push({
+    const problem: RosterProblem = {
       row: null,
       column: null,
       message:
         ledger.free === 0
           ? `Your school has no free seats for ${ledger.schoolYear}, so these ${rows.length} students cannot be added. Seats need to be bought first.`
           : `This file has ${rows.length} students, but your school has only ${ledger.free} free seats for ${ledger.schoolYear}. Nothing was saved. More seats need to be bought first, or upload fewer students.`,
-    });
+    };
+    problems.push(problem);
+    seatShortage = { ok: false, reason: "no-free-seat", message: problem.message, ledger };
   }
   problems.sort((a, b) => (a.row ?? 0) - (b.row ?? 0));
-  return { rows, problems, ignoredColumns, columns, seats: { schoolYear: ledger.schoolYear, free: ledger.free } };
+  return { rows, problems, ignoredColumns, columns, seats: { schoolYear: ledger.schoolYear, free: ledger.free }, seatShortage };
 }
 
 const stripBom = (text: string) => text.replace(/^\uFEFF/, "");
@@ -244,10 +249,10 @@ export interface NewStudent {
 
 export type AddResult =
   | { ok: true; added: { id: string; displayName: string; username: string; password: string }[] }
-  | { ok: false; message: string; row?: number };
+  | { ok: false; message: string; row?: number; refusal?: SeatRefusal };
 
 class Undo extends Error {
-  constructor(readonly result: { ok: false; message: string; row?: number }) {
+  constructor(readonly result: { ok: false; message: string; row?: number; refusal?: SeatRefusal }) {
     super(result.message);
   }
 }
@@ -300,7 +305,7 @@ export async function addStudents({ db }: Db, klass: TeacherClass, students: (Ne
 /** The seat rules, run inside our transaction (their own transaction becomes a savepoint in ours). */
 async function enrollInside(tx: Tx, classId: string, studentId: string, row?: number) {
   const result = await enrollStudentUsingSeat({ db: tx as unknown as Database }, { classId, studentId });
-  if (!result.ok) throw new Undo({ ok: false, row, message: result.message });
+  if (!result.ok) throw new Undo({ ok: false, row, message: result.message, refusal: result.reason === "no-free-seat" ? result : undefined });
 }
 
 /** Every roster row checked again (the file comes back with the confirm) and saved, or nothing. */
@@ -309,19 +314,31 @@ export async function importRoster(
   klass: TeacherClass,
   text: string,
   gradeBand: GradeBand,
-): Promise<{ ok: true; added: { id: string; displayName: string; username: string; password: string }[] } | { ok: false; preview: RosterPreview; message?: string }> {
+): Promise<
+  | { ok: true; added: { id: string; displayName: string; username: string; password: string }[] }
+  | { ok: false; preview: RosterPreview; message?: string; refusal?: SeatRefusal }
+> {
   const preview = await previewRoster({ db }, klass, text);
   if (preview.problems.length > 0) return { ok: false, preview };
   const result = await addStudents({ db }, klass, preview.rows.map((r) => ({ ...r, gradeBand })));
   if (!result.ok) {
     const where = result.row ? `Row ${result.row}: ` : "";
-    return { ok: false, preview: { ...preview, problems: [{ row: result.row ?? null, column: null, message: result.message }] }, message: `${where}${result.message} Nothing was saved.` };
+    return {
+      ok: false,
+      preview: { ...preview, problems: [{ row: result.row ?? null, column: null, message: result.message }] },
+      message: `${where}${result.message} Nothing was saved.`,
+      refusal: result.refusal,
+    };
   }
   return result;
 }
 
 /** A student who already has an account at the school (say, in another teacher's class) joins this class. */
-export async function addExistingStudent({ db }: Db, klass: TeacherClass, username: string): Promise<{ ok: true; displayName: string } | { ok: false; message: string }> {
+export async function addExistingStudent(
+  { db }: Db,
+  klass: TeacherClass,
+  username: string,
+): Promise<{ ok: true; displayName: string } | { ok: false; message: string; refusal?: SeatRefusal }> {
   const name = username.trim().toLowerCase();
   const [student] = await db
     .select({ id: users.id, displayName: users.displayName })
@@ -330,7 +347,7 @@ export async function addExistingStudent({ db }: Db, klass: TeacherClass, userna
     .where(and(eq(users.homeOrganisationId, klass.organisationId), eq(users.username, name)));
   if (!student) return { ok: false, message: `No student at your school has the username “${name}”.` };
   const result = await enrollStudentUsingSeat({ db }, { classId: klass.id, studentId: student.id });
-  if (!result.ok) return { ok: false, message: result.message };
+  if (!result.ok) return { ok: false, message: result.message, refusal: result.reason === "no-free-seat" ? result : undefined };
   if (result.alreadyEnrolled) return { ok: false, message: `${student.displayName} is already in this class.` };
   return { ok: true, displayName: student.displayName };
 }
