@@ -30,11 +30,13 @@ const mailPort = () => {
   return port;
 };
 
-/** The e-mails to one address, waiting up to `timeoutMs` for at least `count` of them. */
-export async function mailsTo(address: string, count = 1, timeoutMs = 8000, webPort = mailPort()): Promise<CaughtMail[]> {
+/** The e-mails to one address (with this subject, if given), waiting up to `timeoutMs` for at least `count` of them. */
+export async function mailsTo(address: string, count = 1, timeoutMs = 8000, subject?: string, webPort = mailPort()): Promise<CaughtMail[]> {
   const deadline = Date.now() + timeoutMs;
   for (;;) {
-    const mine = (await listCaughtMail(webPort)).filter((m) => m.to.some((t) => t.address.toLowerCase() === address.toLowerCase()));
+    const mine = (await listCaughtMail(webPort)).filter(
+      (m) => m.to.some((t) => t.address.toLowerCase() === address.toLowerCase()) && (subject === undefined || m.subject === subject),
+    );
     if (mine.length >= count || Date.now() > deadline) return mine;
     await new Promise((r) => setTimeout(r, 100));
   }

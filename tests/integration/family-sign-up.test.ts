@@ -97,8 +97,8 @@ describe("family sign-up", () => {
     const existing = demoSignIns.teacher.email;
     const asked = await runRoute(joinRoute.action as never, post("/join/family", form(existing)));
     expect(asked.body).toEqual({ sentTo: existing });
-    const [mail] = await mailsTo(existing);
-    expect(mail.subject).toBe("You already have a Bendwise account");
+    const [mail] = await mailsTo(existing, 1, 8000, "You already have a Bendwise account");
+    expect(mail).toBeDefined();
     expect(mail.text).not.toContain("/join/family/confirm");
     expect(await db.select().from(familySignUps).where(eq(familySignUps.email, existing))).toEqual([]);
   });
