@@ -317,14 +317,45 @@ export async function signOutCookies(request: Request): Promise<string[]> {
 
 const sessionShape = z.object({ userId: z.string().uuid(), sessionVersion: z.number().int() });
 
+type SessionClaims = z.infer<typeof sessionShape>;
+
+/**
+ * Sessions already read, by the exact session cookie: opening the cookie (Auth's session endpoint:
+ * key derivation, decryption, and a fresh cookie it builds and we drop) costs milliseconds on every
+ * request, and its answer depends only on the cookie and the clock. So the answer is kept until the
+ * session's own end. The session version is still checked against the database on every request
+ * (getUser), so "sign out everywhere" holds at once. Bounded: the oldest entries go first.
+ */
+const readSessions = new Map<string, { claims: SessionClaims; until: number }>();
+const READ_SESSIONS_KEPT = 10_000;
+
+function sessionCookieKey(cookie: string): string {
+  return cookie
+    .split(/;\s*/)
+    .filter((pair) => pair.split("=", 1)[0].includes("authjs.session-token"))
+    .sort()
+    .join("; ");
+}
+
 /** The session's user id and version from the cookie, through Auth's own session endpoint; null when none. */
-export async function readSession(request: Request, cookieHeader?: string): Promise<z.infer<typeof sessionShape> | null> {
+export async function readSession(request: Request, cookieHeader?: string): Promise<SessionClaims | null> {
   const cookie = cookieHeader ?? request.headers.get("cookie") ?? "";
   if (!cookie.includes("authjs.session-token")) return null;
+  const key = sessionCookieKey(cookie);
+  const known = readSessions.get(key);
+  if (known && Date.now() < known.until) return known.claims;
+  if (known) readSessions.delete(key);
   const response = await Auth(authRequest(request, "/auth/session", { method: "GET", cookie }), authConfig());
   if (!response.ok) return null;
-  const parsed = sessionShape.safeParse(await response.json().catch(() => null));
-  return parsed.success ? parsed.data : null;
+  const body = await response.json().catch(() => null);
+  const parsed = sessionShape.safeParse(body);
+  if (!parsed.success) return null;
+  const until = Date.parse((body as { expires?: string }).expires ?? "");
+  if (Number.isFinite(until) && key) {
+    if (readSessions.size >= READ_SESSIONS_KEPT) readSessions.delete(readSessions.keys().next().value!);
+    readSessions.set(key, { claims: parsed.data, until });
+  }
+  return parsed.data;
 }
 
 /** The /auth/* resource route: Auth's own endpoints (csrf, session, providers, callback, signout). */

@@ -1,10 +1,10 @@
 // Who is asking, and may they? Loaders and actions call these at the top, every time: a check that
 // lives only in a parent layout is the usual hole. A refusal is a 403 with a sentence saying why,
 // shown by the root error page; a signed-out visitor is sent to sign in and brought back.
-import { asc, eq } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import { redirect } from "react-router";
 import { db } from "~/db/client.server";
-import { memberships, organisations, users, type Role } from "~/db/schema.server";
+import { users, type Role } from "~/db/schema.server";
 import { readSession } from "./auth-config.server";
 
 export type { Role };
@@ -57,22 +57,24 @@ export function getUser(request: Request): Promise<SessionUser | null> {
 export async function loadUser(request: Request, cookieHeader?: string): Promise<SessionUser | null> {
   const session = await readSession(request, cookieHeader);
   if (!session) return null;
+  // One statement: the user and their memberships (as JSON, by organisation name).
   const [user] = await db
-    .select({ id: users.id, displayName: users.displayName, email: users.email, sessionVersion: users.sessionVersion })
+    .select({
+      id: users.id,
+      displayName: users.displayName,
+      email: users.email,
+      sessionVersion: users.sessionVersion,
+      // Plain SQL names: inside a select list drizzle writes columns without their table.
+      memberships: sql<Membership[]>`coalesce((
+        select json_agg(json_build_object('organisationId', m.organisation_id, 'organisationKind', o.kind,
+          'organisationName', o.name, 'role', m.role) order by o.name)
+        from memberships m join organisations o on o.id = m.organisation_id
+        where m.user_id = users.id), '[]'::json)`,
+    })
     .from(users)
     .where(eq(users.id, session.userId));
   if (!user || user.sessionVersion !== session.sessionVersion) return null;
-  const rows = await db
-    .select({
-      organisationId: memberships.organisationId,
-      organisationKind: organisations.kind,
-      organisationName: organisations.name,
-      role: memberships.role,
-    })
-    .from(memberships)
-    .innerJoin(organisations, eq(organisations.id, memberships.organisationId))
-    .where(eq(memberships.userId, user.id))
-    .orderBy(asc(organisations.name));
+  const rows = [...user.memberships];
   rows.sort((a, b) => ROLE_ORDER.indexOf(a.role) - ROLE_ORDER.indexOf(b.role));
   return { id: user.id, displayName: user.displayName, email: user.email, memberships: rows };
 }
