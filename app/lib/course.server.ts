@@ -1,6 +1,6 @@
 // The course model: a student's exercise instances, attempts, predictions, own readings, written
 // answers, photos and progress. Functions take `{ db }` so tests can call them directly.
-import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { and, eq, inArray, sql, type SQL } from "drizzle-orm";
 import type { AnyPgColumn } from "drizzle-orm/pg-core";
 import type { Database } from "~/db/client.server";
 import {
@@ -186,21 +186,16 @@ export async function recordAttempt(
   },
 ): Promise<{ feedback: Feedback; counted: boolean } | { refused: string }> {
   const { studentId, slug, definition } = input;
-  const [readings, policy] = await Promise.all([loadReadings({ db }, studentId, slug), lessonPolicyFor({ db }, studentId, slug)]);
+  // Three statements: the readings and this exercise's earlier tries together, the policy, then the
+  // attempt and the visit written together.
+  const [{ readings, past }, policy] = await Promise.all([
+    exerciseContext({ db }, studentId, slug, definition.id),
+    lessonPolicyFor({ db }, studentId, slug),
+  ]);
   if (closedForAnswers(policy)) return { refused: closedMessage(policy!) };
   const instance = exerciseInstance(studentId, slug, definition, readings);
   if (instance.waitingForReadings) return { refused: "Save your readings first; this question uses them." };
 
-  const past = await db
-    .select({ correct: exerciseAttempts.correct, outcome: exerciseAttempts.outcome })
-    .from(exerciseAttempts)
-    .where(
-      and(
-        eq(exerciseAttempts.studentId, studentId),
-        eq(exerciseAttempts.lessonSlug, slug),
-        eq(exerciseAttempts.exerciseId, definition.id),
-      ),
-    );
   const used = past.filter((a) => !FREE_OUTCOMES.has(a.outcome)).length;
   if (past.some((a) => a.correct === 1)) return { refused: "You already have this one right." };
   if (used >= attemptsAllowed(policy, definition)) return { refused: "You have used every attempt at this exercise." };
@@ -208,7 +203,7 @@ export async function recordAttempt(
   const { result, raw } = judge(instance, definition, input.submission);
   const right = result.outcome === "correct";
   const counted = !FREE_OUTCOMES.has(result.outcome);
-  await db.insert(exerciseAttempts).values({
+  const attempt = db.insert(exerciseAttempts).values({
     studentId,
     lessonSlug: slug,
     exerciseId: definition.id,
@@ -219,7 +214,8 @@ export async function recordAttempt(
     correct: right ? 1 : 0,
     slipCode: result.slip?.code ?? null,
   });
-  await touchVisit({ db }, studentId, slug, `exercise-${definition.id}`);
+  // One statement, so the attempt and the place to continue from are saved together or not at all.
+  await db.execute(sql`with attempt as (${attempt.getSQL()} returning 1) ${visitUpsert({ db }, studentId, slug, `exercise-${definition.id}`).getSQL()}`);
   return {
     counted,
     feedback: {
@@ -239,14 +235,45 @@ export async function loadReadings({ db }: Db, studentId: string, slug: string):
     .select()
     .from(readingSets)
     .where(and(eq(readingSets.studentId, studentId), eq(readingSets.lessonSlug, slug)));
-  return rows.map((r) => ({
+  return rows.map(toSavedReadings);
+}
+
+function toSavedReadings(r: Pick<typeof readingSets.$inferSelect, "readingsId" | "mode" | "material" | "unloadedCm" | "resolutionCm" | "points">): SavedReadings {
+  return {
     readingsId: r.readingsId,
     mode: r.mode,
     material: r.material,
     unloadedCm: r.unloadedCm,
     resolutionCm: r.resolutionCm,
     points: r.points as SavedReadings["points"],
-  }));
+  };
+}
+
+// The lesson page and the answer check read several small sets of one student's rows in one lesson.
+// Each set comes back as a JSON array from a sub-select of one statement: one round trip instead of
+// one per table, with each sub-select on its table's (student, lesson) key. Each sub-select reads one
+// table only: inside a select list drizzle writes column names without their table.
+const jsonRows = (select: SQL) => sql`coalesce((${select}), '[]'::json)`;
+
+const readingsJson = (studentId: string, slug: string) =>
+  jsonRows(sql`select json_agg(json_build_object('readingsId', ${readingSets.readingsId}, 'mode', ${readingSets.mode}, 'material', ${readingSets.material},
+    'unloadedCm', ${readingSets.unloadedCm}, 'resolutionCm', ${readingSets.resolutionCm}, 'points', ${readingSets.points}) order by ${readingSets.readingsId})
+    from ${readingSets} where ${readingSets.studentId} = ${studentId} and ${readingSets.lessonSlug} = ${slug}`);
+
+type AttemptRow = Pick<typeof exerciseAttempts.$inferSelect, "exerciseId" | "rawAnswer" | "outcome" | "correct" | "slipCode">;
+
+const attemptsJson = (studentId: string, slug: string, exerciseId?: string) =>
+  jsonRows(sql`select json_agg(json_build_object('exerciseId', ${exerciseAttempts.exerciseId}, 'rawAnswer', ${exerciseAttempts.rawAnswer},
+    'outcome', ${exerciseAttempts.outcome}, 'correct', ${exerciseAttempts.correct}, 'slipCode', ${exerciseAttempts.slipCode}) order by ${exerciseAttempts.createdAt})
+    from ${exerciseAttempts} where ${exerciseAttempts.studentId} = ${studentId} and ${exerciseAttempts.lessonSlug} = ${slug}
+    ${exerciseId === undefined ? sql`` : sql`and ${exerciseAttempts.exerciseId} = ${exerciseId}`}`);
+
+/** What the answer check needs besides the policy: the student's readings and their earlier tries at this exercise, in one statement. */
+async function exerciseContext({ db }: Db, studentId: string, slug: string, exerciseId: string): Promise<{ readings: SavedReadings[]; past: AttemptRow[] }> {
+  const [row] = await db
+    .select({ readings: readingsJson(studentId, slug), past: attemptsJson(studentId, slug, exerciseId) })
+    .from(sql`(select 1) as one`);
+  return { readings: (row.readings as Parameters<typeof toSavedReadings>[0][]).map(toSavedReadings), past: row.past as AttemptRow[] };
 }
 
 export interface LessonState {
@@ -261,19 +288,32 @@ export interface LessonState {
   assignment: AssignmentNotice | null;
 }
 
-/** Everything a student's lesson page shows, in a fixed, small number of queries. */
+/** Everything a student's lesson page shows, in two statements whatever the lesson: the student's rows, and the policy. */
 export async function loadLessonState({ db }: Db, studentId: string, slug: string): Promise<LessonState> {
-  const where = (t: { studentId: AnyPgColumn; lessonSlug: AnyPgColumn }) =>
-    and(eq(t.studentId, studentId), eq(t.lessonSlug, slug));
-  const [attemptRows, predictionRows, readings, answerRows, photoRows, visitRows, policy] = await Promise.all([
-    db.select().from(exerciseAttempts).where(where(exerciseAttempts)).orderBy(asc(exerciseAttempts.createdAt)),
-    db.select().from(predictions).where(where(predictions)),
-    loadReadings({ db }, studentId, slug),
-    db.select().from(writtenAnswers).where(where(writtenAnswers)),
-    db.select().from(photos).where(where(photos)).orderBy(asc(photos.createdAt)),
-    db.select().from(lessonVisits).where(where(lessonVisits)),
+  const mine = (t: { studentId: AnyPgColumn; lessonSlug: AnyPgColumn }) => sql`${t.studentId} = ${studentId} and ${t.lessonSlug} = ${slug}`;
+  const [[row], policy] = await Promise.all([
+    db
+      .select({
+        attempts: attemptsJson(studentId, slug),
+        predictions: jsonRows(sql`select json_agg(json_build_object('predictionId', ${predictions.predictionId}, 'choice', ${predictions.choice}))
+          from ${predictions} where ${mine(predictions)}`),
+        readings: readingsJson(studentId, slug),
+        answers: jsonRows(sql`select json_agg(json_build_object('answerId', ${writtenAnswers.answerId}, 'claim', ${writtenAnswers.claim},
+          'evidence', ${writtenAnswers.evidence}, 'reasoning', ${writtenAnswers.reasoning}, 'handedIn', ${writtenAnswers.handedInAt} is not null,
+          'reviewComment', ${writtenAnswers.reviewComment}, 'reviewScores', ${writtenAnswers.reviewScores}))
+          from ${writtenAnswers} where ${mine(writtenAnswers)}`),
+        photos: jsonRows(sql`select json_agg(json_build_object('photoId', ${photos.photoId}, 'id', ${photos.id}, 'contentType', ${photos.contentType},
+          'bytes', ${photos.bytes}) order by ${photos.createdAt}) from ${photos} where ${mine(photos)}`),
+        lastPlace: sql<string | null>`(select ${lessonVisits.lastPlace} from ${lessonVisits} where ${mine(lessonVisits)})`,
+      })
+      .from(sql`(select 1) as one`),
     lessonPolicyFor({ db }, studentId, slug),
   ]);
+  const attemptRows = row.attempts as AttemptRow[];
+  const predictionRows = row.predictions as { predictionId: string; choice: string }[];
+  const readings = (row.readings as Parameters<typeof toSavedReadings>[0][]).map(toSavedReadings);
+  const answerRows = row.answers as ({ answerId: string } & LessonState["writtenAnswers"][string])[];
+  const photoRows = row.photos as { photoId: string; id: string; contentType: string; bytes: number }[];
 
   const { exercises: definitions, writtenAnswers: requiredAnswers = [] } = lessonExercises(slug);
   const exercises: Record<string, ExerciseState> = {};
@@ -284,16 +324,7 @@ export async function loadLessonState({ db }: Db, studentId: string, slug: strin
   }
 
   const answers: LessonState["writtenAnswers"] = {};
-  for (const a of answerRows) {
-    answers[a.answerId] = {
-      claim: a.claim,
-      evidence: a.evidence,
-      reasoning: a.reasoning,
-      handedIn: a.handedInAt !== null,
-      reviewComment: a.reviewComment,
-      reviewScores: a.reviewScores,
-    };
-  }
+  for (const { answerId, ...answer } of answerRows) answers[answerId] = answer;
   const photoMap: LessonState["photos"] = {};
   for (const p of photoRows) (photoMap[p.photoId] ??= []).push({ id: p.id, contentType: p.contentType, bytes: p.bytes });
 
@@ -307,7 +338,7 @@ export async function loadLessonState({ db }: Db, studentId: string, slug: strin
     readings: Object.fromEntries(readings.map((r) => [r.readingsId, r])),
     writtenAnswers: answers,
     photos: photoMap,
-    lastPlace: visitRows[0]?.lastPlace ?? null,
+    lastPlace: row.lastPlace ?? null,
     complete,
     assignment: assignmentNotice(policy),
   };
@@ -316,7 +347,7 @@ export async function loadLessonState({ db }: Db, studentId: string, slug: strin
 function exerciseState(
   definition: ExerciseDefinition,
   instance: ExerciseInstance,
-  attempts: (typeof exerciseAttempts.$inferSelect)[],
+  attempts: AttemptRow[],
   allowed: number,
 ): ExerciseState {
   const counted = attempts.filter((a) => !FREE_OUTCOMES.has(a.outcome));
@@ -366,7 +397,11 @@ function submissionFromRaw(definition: ExerciseDefinition, raw: string): Submiss
 // ───────────────────────────── Saving the other parts ─────────────────────────────
 
 export async function touchVisit({ db }: Db, studentId: string, slug: string, place: string | null) {
-  await db
+  await visitUpsert({ db }, studentId, slug, place);
+}
+
+function visitUpsert({ db }: Db, studentId: string, slug: string, place: string | null) {
+  return db
     .insert(lessonVisits)
     .values({ studentId, lessonSlug: slug, lastPlace: place })
     .onConflictDoUpdate({
