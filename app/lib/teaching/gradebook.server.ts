@@ -1,8 +1,8 @@
 // The gradebook: students × assigned lessons, each cell with completion, score, lateness and where a
-// student is stuck. Built for any number of classes at once in six SQL statements, whatever the
+// student is stuck. Built for any number of classes at once in one SQL statement, whatever the
 // number of students, lessons or classes: students, assignments, accommodations, attempt totals per
-// (student, lesson, exercise), written answers and lesson visits, each one query; the rest is done
-// here in memory. The teacher's gradebook, its JSON route, its CSV export, the teaching home and the
+// (student, lesson, exercise), written answers and lesson visits, each a JSON array of it; the rest
+// is done here in memory. The teacher's gradebook, its JSON route, its CSV export, the teaching home and the
 // school's overview all use it, so they always agree.
 //
 // The rules, in one place:
@@ -15,18 +15,9 @@
 // - stuck: STUCK_AFTER_WRONG or more wrong answers to one exercise and no right one yet;
 // - late: past the student's due date without finishing, or finished after it;
 // - a student's average counts every lesson already open, a lesson not started as 0.
-import { and, eq, inArray, sql } from "drizzle-orm";
+import { sql } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
-import {
-  accommodations,
-  assignments,
-  enrollments,
-  exerciseAttempts,
-  lessonVisits,
-  users,
-  writtenAnswers,
-  type LatePolicy,
-} from "~/db/schema.server";
+import { accommodations, assignments, type LatePolicy } from "~/db/schema.server";
 import { attemptsAllowed } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { effectiveAccommodation } from "./policy.server";
@@ -48,57 +39,81 @@ export function lateCredit(at: Date, due: Date, policy: LatePolicy, penaltyPerce
   return Math.max(0, 1 - (penaltyPercent / 100) * days);
 }
 
-/** The gradebooks of these classes, six statements in all. */
+type StudentRow = { classId: string; id: string; displayName: string; username: string | null; studentNumber: string | null };
+type AssignmentRow = Pick<typeof assignments.$inferSelect, "id" | "classId" | "lessonSlug" | "opensAt" | "dueAt" | "latePolicy" | "latePenaltyPercent">;
+type AccommodationRow = Pick<typeof accommodations.$inferSelect, "classId" | "studentId" | "assignmentId" | "extraAttempts" | "extraDays">;
+type AttemptTotals = { studentId: string; lessonSlug: string; exerciseId: string; right: number; counted: number; wrong: number; firstRightAt: Date | null; lastCountedAt: Date | null; lastAt: Date };
+type AnswerRow = { studentId: string; lessonSlug: string; answerId: string; handedInAt: Date | null; reviewedAt: Date | null; updatedAt: Date };
+type VisitRow = { studentId: string; lessonSlug: string; updatedAt: Date };
+
+const dateOf = (ms: number | null) => (ms === null ? null : new Date(ms));
+
+/**
+ * Every row a gradebook needs, in ONE statement: the roster, the assignments, the accommodations, and
+ * per enrolled student the attempt totals per exercise, the written answers and the lesson visits of
+ * the assigned lessons, each set a JSON array. The per-student sets are LATERAL sub-selects, so each
+ * reads its table through the (student, lesson) index however large the table grows across schools.
+ * Times travel as epoch milliseconds.
+ */
+async function gradebookRows({ db }: Db, classIds: string[]) {
+  const ids = sql`(${sql.join(classIds.map((id) => sql`${id}::uuid`), sql`, `)})`;
+  const ms = (column: string) => sql.raw(`(extract(epoch from ${column}) * 1000)::float8`);
+  const [row] = await db.execute<{ students: StudentRow[]; assignments: (Omit<AssignmentRow, "opensAt" | "dueAt"> & { opensAt: number; dueAt: number })[]; accommodations: AccommodationRow[]; attempts: (Omit<AttemptTotals, "firstRightAt" | "lastCountedAt" | "lastAt"> & { firstRightAt: number | null; lastCountedAt: number | null; lastAt: number })[]; answers: (Omit<AnswerRow, "handedInAt" | "reviewedAt" | "updatedAt"> & { handedInAt: number | null; reviewedAt: number | null; updatedAt: number })[]; visits: (Omit<VisitRow, "updatedAt"> & { updatedAt: number })[] }>(sql`
+    with roster as (
+      select e.class_id, u.id, u.display_name, u.username, u.student_number
+      from enrollments e join users u on u.id = e.student_id
+      where e.class_id in ${ids}
+    ),
+    pupils as (select distinct id from roster),
+    assigned as (select * from assignments where class_id in ${ids}),
+    slugs as (select distinct lesson_slug from assigned)
+    select
+      coalesce((select json_agg(json_build_object('classId', class_id, 'id', id, 'displayName', display_name, 'username', username,
+        'studentNumber', student_number)) from roster), '[]'::json) as students,
+      coalesce((select json_agg(json_build_object('id', id, 'classId', class_id, 'lessonSlug', lesson_slug, 'opensAt', ${ms("opens_at")},
+        'dueAt', ${ms("due_at")}, 'latePolicy', late_policy, 'latePenaltyPercent', late_penalty_percent)) from assigned), '[]'::json) as assignments,
+      coalesce((select json_agg(json_build_object('classId', class_id, 'studentId', student_id, 'assignmentId', assignment_id,
+        'extraAttempts', extra_attempts, 'extraDays', extra_days)) from accommodations where class_id in ${ids}), '[]'::json) as accommodations,
+      coalesce((select json_agg(t) from pupils p cross join lateral (
+        select a.student_id as "studentId", a.lesson_slug as "lessonSlug", a.exercise_id as "exerciseId",
+          max(a.correct) as "right",
+          count(*) filter (where a.outcome not in ${FREE}) as "counted",
+          count(*) filter (where a.outcome not in ${FREE} and a.correct = 0) as "wrong",
+          ${ms("min(a.created_at) filter (where a.correct = 1)")} as "firstRightAt",
+          ${ms(`max(a.created_at) filter (where a.outcome not in ('unreadable', 'not-checkable'))`)} as "lastCountedAt",
+          ${ms("max(a.created_at)")} as "lastAt"
+        from exercise_attempts a
+        where a.student_id = p.id and a.lesson_slug in (select lesson_slug from slugs)
+        group by a.student_id, a.lesson_slug, a.exercise_id) t), '[]'::json) as attempts,
+      coalesce((select json_agg(json_build_object('studentId', w.student_id, 'lessonSlug', w.lesson_slug, 'answerId', w.answer_id,
+        'handedInAt', ${ms("w.handed_in_at")}, 'reviewedAt', ${ms("w.reviewed_at")}, 'updatedAt', ${ms("w.updated_at")}))
+        from pupils p join written_answers w on w.student_id = p.id where w.lesson_slug in (select lesson_slug from slugs)), '[]'::json) as answers,
+      coalesce((select json_agg(json_build_object('studentId', v.student_id, 'lessonSlug', v.lesson_slug, 'updatedAt', ${ms("v.updated_at")}))
+        from pupils p join lesson_visits v on v.student_id = p.id where v.lesson_slug in (select lesson_slug from slugs)), '[]'::json) as visits
+  `);
+  return {
+    studentRows: row.students,
+    assignmentRows: row.assignments.map((a): AssignmentRow => ({ ...a, opensAt: new Date(a.opensAt), dueAt: new Date(a.dueAt) })),
+    accommodationRows: row.accommodations,
+    attemptRows: row.attempts.map((a): AttemptTotals => ({
+      ...a,
+      right: Number(a.right),
+      counted: Number(a.counted),
+      wrong: Number(a.wrong),
+      firstRightAt: dateOf(a.firstRightAt),
+      lastCountedAt: dateOf(a.lastCountedAt),
+      lastAt: new Date(a.lastAt),
+    })),
+    answerRows: row.answers.map((a): AnswerRow => ({ ...a, handedInAt: dateOf(a.handedInAt), reviewedAt: dateOf(a.reviewedAt), updatedAt: new Date(a.updatedAt) })),
+    visitRows: row.visits.map((v): VisitRow => ({ ...v, updatedAt: new Date(v.updatedAt) })),
+  };
+}
+
+/** The gradebooks of these classes, in one statement. */
 export async function loadGradebooks({ db }: Db, classIds: string[], now: Date = new Date()): Promise<Map<string, Gradebook>> {
   const books = new Map<string, Gradebook>();
   if (classIds.length === 0) return books;
-  const enrolled = db.select({ id: enrollments.studentId }).from(enrollments).where(inArray(enrollments.classId, classIds));
-  const assigned = db.select({ slug: assignments.lessonSlug }).from(assignments).where(inArray(assignments.classId, classIds));
-  const [studentRows, assignmentRows, accommodationRows, attemptRows, answerRows, visitRows] = await Promise.all([
-    db
-      .select({
-        classId: enrollments.classId,
-        id: users.id,
-        displayName: users.displayName,
-        username: users.username,
-        studentNumber: users.studentNumber,
-      })
-      .from(enrollments)
-      .innerJoin(users, eq(users.id, enrollments.studentId))
-      .where(inArray(enrollments.classId, classIds)),
-    db.select().from(assignments).where(inArray(assignments.classId, classIds)),
-    db.select().from(accommodations).where(inArray(accommodations.classId, classIds)),
-    db
-      .select({
-        studentId: exerciseAttempts.studentId,
-        lessonSlug: exerciseAttempts.lessonSlug,
-        exerciseId: exerciseAttempts.exerciseId,
-        right: sql<number>`max(${exerciseAttempts.correct})`.mapWith(Number),
-        counted: sql<number>`count(*) filter (where ${exerciseAttempts.outcome} not in ${FREE})`.mapWith(Number),
-        wrong: sql<number>`count(*) filter (where ${exerciseAttempts.outcome} not in ${FREE} and ${exerciseAttempts.correct} = 0)`.mapWith(Number),
-        firstRightAt: sql<Date | null>`min(${exerciseAttempts.createdAt}) filter (where ${exerciseAttempts.correct} = 1)`.mapWith(exerciseAttempts.createdAt),
-        lastCountedAt: sql<Date | null>`max(${exerciseAttempts.createdAt}) filter (where ${exerciseAttempts.outcome} not in ${FREE})`.mapWith(exerciseAttempts.createdAt),
-        lastAt: sql<Date>`max(${exerciseAttempts.createdAt})`.mapWith(exerciseAttempts.createdAt),
-      })
-      .from(exerciseAttempts)
-      .where(and(inArray(exerciseAttempts.studentId, enrolled), inArray(exerciseAttempts.lessonSlug, assigned)))
-      .groupBy(exerciseAttempts.studentId, exerciseAttempts.lessonSlug, exerciseAttempts.exerciseId),
-    db
-      .select({
-        studentId: writtenAnswers.studentId,
-        lessonSlug: writtenAnswers.lessonSlug,
-        answerId: writtenAnswers.answerId,
-        handedInAt: writtenAnswers.handedInAt,
-        reviewedAt: writtenAnswers.reviewedAt,
-        updatedAt: writtenAnswers.updatedAt,
-      })
-      .from(writtenAnswers)
-      .where(and(inArray(writtenAnswers.studentId, enrolled), inArray(writtenAnswers.lessonSlug, assigned))),
-    db
-      .select({ studentId: lessonVisits.studentId, lessonSlug: lessonVisits.lessonSlug, updatedAt: lessonVisits.updatedAt })
-      .from(lessonVisits)
-      .where(and(inArray(lessonVisits.studentId, enrolled), inArray(lessonVisits.lessonSlug, assigned))),
-  ]);
+  const { studentRows, assignmentRows, accommodationRows, attemptRows, answerRows, visitRows } = await gradebookRows({ db }, classIds);
 
   const key = (...parts: (string | null)[]) => parts.join("|");
   const attempts = new Map(attemptRows.map((a) => [key(a.studentId, a.lessonSlug, a.exerciseId), a]));

@@ -3,6 +3,19 @@
 // teacher typed it, and server and browser render the same text (no hydration mismatch).
 // Pure functions: no database, safe in the browser.
 
+// Making an Intl.DateTimeFormat costs far more than using one (a gradebook writes dozens of dates per
+// request), so each (locale, options) is made once and kept.
+const formatters = new Map<string, Intl.DateTimeFormat>();
+function formatter(locale: string, options: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
+  const key = `${locale}|${JSON.stringify(options)}`;
+  let known = formatters.get(key);
+  if (!known) {
+    known = new Intl.DateTimeFormat(locale, options);
+    formatters.set(key, known);
+  }
+  return known;
+}
+
 /** True for a time zone this runtime knows, such as "America/Chicago" or "UTC". */
 export function isTimeZone(value: string): boolean {
   if (!value || value.length > 64) return false;
@@ -16,7 +29,7 @@ export function isTimeZone(value: string): boolean {
 
 /** Milliseconds the zone's wall clock is ahead of UTC at `date`. */
 function offsetMs(date: Date, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat("en-US", {
+  const parts = formatter("en-US", {
     timeZone,
     hourCycle: "h23",
     year: "numeric",
@@ -61,9 +74,9 @@ export function dateToZonedInput(date: Date | string, timeZone: string): string 
 export function formatDue(date: Date | string, timeZone: string, now: Date = new Date()): string {
   const instant = new Date(date);
   const sameYear =
-    new Intl.DateTimeFormat("en-GB", { timeZone, year: "numeric" }).format(instant) ===
-    new Intl.DateTimeFormat("en-GB", { timeZone, year: "numeric" }).format(now);
-  return new Intl.DateTimeFormat("en-GB", {
+    formatter("en-GB", { timeZone, year: "numeric" }).format(instant) ===
+    formatter("en-GB", { timeZone, year: "numeric" }).format(now);
+  return formatter("en-GB", {
     timeZone,
     weekday: "short",
     day: "numeric",
@@ -77,7 +90,7 @@ export function formatDue(date: Date | string, timeZone: string, now: Date = new
 
 /** "11 Dec 2026, 16:05:09" for lists of attempts. */
 export function formatMoment(date: Date | string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", {
+  return formatter("en-GB", {
     timeZone,
     day: "numeric",
     month: "short",
