@@ -10,9 +10,10 @@ import path from "node:path";
 import matter from "gray-matter";
 import { z } from "zod";
 import type { LessonExercises } from "./exercises";
+import { remarkEquations } from "./lesson-equations.server";
 
 /** Bumped by hand when our own compile options change, so old cache entries are not used. */
-const PIPELINE_REVISION = 1;
+const PIPELINE_REVISION = 2;
 
 const lessonsDir = () => path.resolve(process.env.BENDWISE_LESSONS_DIR ?? path.join(process.cwd(), "lessons"));
 const cacheDir = () => path.resolve(process.env.BENDWISE_LESSON_CACHE_DIR ?? path.join(process.cwd(), ".cache", "lessons"));
@@ -178,7 +179,7 @@ async function compile(slug: string, hash: string): Promise<CompiledLesson> {
     source: readFileSync(path.join(dir, "index.mdx"), "utf8"),
     cwd: dir,
     mdxOptions(options) {
-      options.remarkPlugins = [...(options.remarkPlugins ?? []), remarkMath];
+      options.remarkPlugins = [...(options.remarkPlugins ?? []), remarkMath, remarkEquations];
       // KaTeX writes HTML for the eye and MathML for screen readers.
       options.rehypePlugins = [...(options.rehypePlugins ?? []), [rehypeKatex, { output: "htmlAndMathml" }]];
       return options;

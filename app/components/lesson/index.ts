@@ -1,6 +1,6 @@
-// Every component a lesson's MDX can use, by the name it uses.
+// Every component a lesson's MDX can use, by the name it uses. (<Equation tex="…" /> is turned into
+// math when the lesson is compiled: see app/lib/lesson-equations.server.ts.)
 import { DataTable } from "./data-table";
-import { Equation } from "./equation";
 import { Exercise } from "./exercise";
 import { ForceChart } from "./force-chart";
 import { Caution, Hint } from "./notes";
@@ -12,7 +12,6 @@ import { WrittenAnswer } from "./written-answer";
 export const lessonComponents = {
   Caution,
   DataTable,
-  Equation,
   Exercise,
   ForceChart,
   Hint,
