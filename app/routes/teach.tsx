@@ -40,7 +40,7 @@ export default function Teach({ loaderData }: Route.ComponentProps) {
           What you can do here
         </h2>
         <ul className="list-disc space-y-1 pl-5">
-          <li>See each class with the code its students sign in with; open its gradebook to see who has finished and who is stuck.</li>
+          <li>See each class with the code its students sign in with; open it for its gradebook, to see who has finished and who is stuck.</li>
           <li>
             <Link to="/teach/classes">Make a class</Link>, add students one by one or from a CSV file, assign lessons with due dates, review
             written answers, give a student more tries or time, and set a new password for a student who forgot theirs.
@@ -69,7 +69,7 @@ export default function Teach({ loaderData }: Route.ComponentProps) {
             {rows.map((c) => (
               <tr key={c.id} className="border-b border-rule">
                 <td className="py-2 pr-4">
-                  <Link to={`/teach/classes/${c.id}/gradebook`}>{c.name}</Link>
+                  <Link to={`/teach/classes/${c.id}`}>{c.name}</Link>
                   {schools.length > 1 ? <span className="block text-[length:var(--text-step--1)] text-ink-soft">{c.school}</span> : null}
                 </td>
                 <td className="py-2 pr-4">{c.schoolYear}</td>
