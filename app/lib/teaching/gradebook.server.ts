@@ -87,9 +87,9 @@ async function gradebookRows({ db }: Db, classIds: string[]) {
         group by a.student_id, a.lesson_slug, a.exercise_id) t), '[]'::json) as attempts,
       coalesce((select json_agg(json_build_object('studentId', w.student_id, 'lessonSlug', w.lesson_slug, 'answerId', w.answer_id,
         'handedInAt', ${ms("w.handed_in_at")}, 'reviewedAt', ${ms("w.reviewed_at")}, 'updatedAt', ${ms("w.updated_at")}))
-        from pupils p join written_answers w on w.student_id = p.id where w.lesson_slug in (select lesson_slug from slugs)), '[]'::json) as answers,
+        from pupils p cross join lateral (select * from written_answers w where w.student_id = p.id and w.lesson_slug in (select lesson_slug from slugs)) w), '[]'::json) as answers,
       coalesce((select json_agg(json_build_object('studentId', v.student_id, 'lessonSlug', v.lesson_slug, 'updatedAt', ${ms("v.updated_at")}))
-        from pupils p join lesson_visits v on v.student_id = p.id where v.lesson_slug in (select lesson_slug from slugs)), '[]'::json) as visits
+        from pupils p cross join lateral (select * from lesson_visits v where v.student_id = p.id and v.lesson_slug in (select lesson_slug from slugs)) v), '[]'::json) as visits
   `);
   return {
     studentRows: row.students,
