@@ -35,7 +35,7 @@ export async function sendMail(mail: OutgoingMail): Promise<void> {
   await boss.send(MAIL_QUEUE, job, mailJobOptions());
   if (serverEnv().BENDWISE_MAIL_WORKER === "in-process") {
     // Integration tests: this process sends its own queue, woken at once instead of at the next poll.
-    const { inProcessMailWorker } = await import("~/lib/mail/worker.server");
+    const { inProcessMailWorker } = await import("~/lib/mail/in-process.server");
     (await inProcessMailWorker()).wake();
   }
 }

@@ -84,7 +84,7 @@ export default function NewChild({ loaderData, actionData }: Route.ComponentProp
       )}
       {Object.keys(errors).length > 0 ? <Notice tone="problem">Please fix what is marked below; the rest is kept (except the password).</Notice> : null}
       <Form method="post" noValidate className="card">
-        <Field label="Name" hint="What Bendwise calls your child, e.g. a first name." name="displayName" autoComplete="off" required defaultValue={values.displayName} error={errors.displayName} />
+        <Field label="Your child's name" hint="What Bendwise calls them, e.g. a first name." name="displayName" autoComplete="off" required defaultValue={values.displayName} error={errors.displayName} />
         <Field
           label="Username"
           hint="For signing in: 3 to 40 letters a–z, digits, dots, hyphens or underscores, e.g. juno or juno.s."

@@ -125,9 +125,12 @@ export default function Family({ loaderData, actionData }: Route.ComponentProps)
                   a username, a password and a grade band are all we need.
                 </p>
               ) : (
-                <p>
-                  No children's accounts yet. First <Link to="/family/seats">buy a seat for each child</Link> ({schoolYear}); then add them here.
-                </p>
+                <>
+                  <p className="mb-3">No children's accounts yet. Each child needs a seat for {schoolYear}: buy them first, then add your children here.</p>
+                  <Link to="/family/seats" className="btn">
+                    Buy seats
+                  </Link>
+                </>
               )}
             </div>
           ) : (

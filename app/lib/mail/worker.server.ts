@@ -89,17 +89,6 @@ export async function startMailWorker(options: MailWorkerOptions = {}): Promise<
   };
 }
 
-let inProcess: Promise<MailWorker> | undefined;
-
-/** A worker inside this process (BENDWISE_MAIL_WORKER=in-process, as in integration tests), started once. */
-export function inProcessMailWorker(): Promise<MailWorker> {
-  inProcess ??= startMailWorker({ schedule: false, pollingIntervalSeconds: 0.5, log: () => {} }).catch((error) => {
-    inProcess = undefined;
-    throw error;
-  });
-  return inProcess;
-}
-
 /** The weekly summaries now (the demo command `npm run mail:weekly`); `force` sends this week's again. */
 export function weeklySummariesNow(options: { force?: boolean } = {}) {
   return queueWeeklySummaries({ db }, options);
