@@ -34,9 +34,40 @@ export function isSameOrigin(request: Request): boolean {
   return false;
 }
 
+export const UNREADABLE_FORM_MESSAGE =
+  "This form arrived in a shape Bendwise cannot read, so nothing was done. Reload the page and send it again.";
+
+const guarded = new WeakSet<Request>();
+
+/**
+ * A body that is not a form (another content type, a multipart body cut short or with the wrong
+ * boundary) makes `request.formData()` throw a TypeError, which would be a 500. Every action calls
+ * assertSameOrigin first, so it also wraps this request's formData(): an unreadable form becomes a 400
+ * with a plain sentence, thrown like the 403 above. Nothing else about the request changes.
+ */
+function answerUnreadableFormsWith400(request: Request) {
+  if (guarded.has(request)) return;
+  guarded.add(request);
+  const read = request.formData.bind(request);
+  Object.defineProperty(request, "formData", {
+    configurable: true,
+    value: async () => {
+      try {
+        return await read();
+      } catch (error) {
+        if (error instanceof TypeError) {
+          throw new Response(UNREADABLE_FORM_MESSAGE, { status: 400, headers: { "Content-Type": "text/plain; charset=utf-8" } });
+        }
+        throw error;
+      }
+    },
+  });
+}
+
 /** Throws a 403 (shown by the root error page) unless the request comes from Bendwise's own pages. */
 export function assertSameOrigin(request: Request): void {
   if (!isSameOrigin(request)) {
     throw new Response(CROSS_SITE_MESSAGE, { status: 403, headers: { "Content-Type": "text/plain; charset=utf-8" } });
   }
+  if (!SAFE_METHODS.has(request.method.toUpperCase())) answerUnreadableFormsWith400(request);
 }
