@@ -75,6 +75,10 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
           {child.displayName}'s account is ready. They sign in on the sign-in page under “Students” with the family code{" "}
           <strong className="font-mono">{household.code}</strong>, the username <strong className="font-mono">{child.username}</strong> and the password you
           chose.
+          <span className="mt-2 flex flex-wrap gap-3">
+            <Link to="/family/children/new">Add another child</Link>
+            <Link to="/family">Back to your family page</Link>
+          </span>
         </Notice>
       ) : null}
 
@@ -143,14 +147,14 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
                   {l.exercises.map((e) => (
                     <li key={e.id}>
                       <span className="font-bold">{e.title}</span> — {e.right ? <strong className="text-ok">right</strong> : <span>not right yet</span>}
-                      <ol className="mt-1 space-y-0.5 pl-5 text-[length:var(--text-step--1)]" style={{ listStyle: "decimal" }}>
-                        {e.tries.map((t) => (
+                      <ul className="mt-1 space-y-0.5 pl-5 text-[length:var(--text-step--1)]">
+                        {e.tries.map((t, i) => (
                           <li key={t.id}>
-                            <span className="font-mono">{t.answer || "(empty)"}</span> — {t.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{t.what}</span>}{" "}
-                            <span className="text-ink-soft">· {t.at}</span>
+                            Try {i + 1}: <span className="font-mono">{t.answer || "(empty)"}</span> —{" "}
+                            {t.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{t.what}</span>} <span className="text-ink-soft">· {t.at}</span>
                           </li>
                         ))}
-                      </ol>
+                      </ul>
                     </li>
                   ))}
                 </ul>
