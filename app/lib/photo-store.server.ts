@@ -49,6 +49,8 @@ export async function readPhotoForm(request: Request): Promise<PhotoUploadResult
       return key;
     });
   } catch (error) {
+    // A refused upload keeps nothing: a photo stored before the refusal (the first of two files) goes.
+    if (photo) await photoStorage().remove((photo as { key: string }).key);
     if (error instanceof MaxFilesExceededError) return { ok: false, error: "Send one photo at a time." };
     const name = (error as Error)?.name ?? "";
     if (name === "MaxFileSizeExceededError" || /size/i.test(String((error as Error)?.message))) {

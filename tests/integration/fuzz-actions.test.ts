@@ -15,16 +15,16 @@
 import { readFileSync } from "node:fs";
 import path from "node:path";
 import fc from "fast-check";
-import { sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import type { RouteConfigEntry } from "@react-router/dev/routes";
 import routes from "~/routes";
 import { db } from "~/db/client.server";
 import { classes } from "~/db/schema.server";
 import { eq } from "drizzle-orm";
+import { changedTables, snapshotter, type Snapshot } from "./db-snapshot";
 import { appUrl, runRoute, sessionCookieFor, userIdOf, type DemoPerson } from "./auth-helpers";
 
-const RUNS = Number(process.env.FUZZ_RUNS ?? 12);
+const RUNS = Number(process.env.FUZZ_RUNS ?? 20);
 const NO_SUCH_ID = "00000000-0000-4000-8000-000000000000";
 type Ids = { mapleClass: string; amira: string; juno: string };
 type Who = DemoPerson | "anon";
@@ -169,14 +169,7 @@ function requestFor(url: string, body: Body, cookie: string | undefined): Reques
   return new Request(`${appUrl}${url}`, { method: "POST", headers, body: payload });
 }
 
-let snapshotQuery: string;
-async function snapshot(): Promise<Map<string, string>> {
-  const rows = (await db.execute(sql.raw(snapshotQuery))) as unknown as { t: string; n: number; h: string }[];
-  return new Map(rows.map((r) => [r.t, `${r.n}:${r.h}`]));
-}
-function changedTables(before: Map<string, string>, after: Map<string, string>): string[] {
-  return [...before.keys()].filter((table) => before.get(table) !== after.get(table));
-}
+let snapshot: () => Promise<Snapshot>;
 
 function matchParams(pattern: string, pathname: string): Record<string, string> {
   const regex = new RegExp(`^${pattern.replace(/\/\*$/, "/(?<splat>.*)").replace(/:(\w+)/g, (_, name) => `(?<${name}>[^/]+)`)}$`);
@@ -193,12 +186,7 @@ beforeAll(async () => {
   }
   const [mapleClass] = await db.select({ id: classes.id }).from(classes).where(eq(classes.signInCode, "MAPLE7A"));
   ids = { mapleClass: mapleClass.id, amira: await userIdOf("student"), juno: await userIdOf("child") };
-  const tables = (await db.execute(sql`select table_name from information_schema.tables where table_schema = 'public' and table_type = 'BASE TABLE' order by 1`)) as unknown as { table_name: string }[];
-  snapshotQuery = tables
-    .map((r) => r.table_name)
-    .filter((name) => !RECORDS_REFUSALS.has(name))
-    .map((name) => `select '${name}' as t, count(*)::int as n, coalesce(md5(string_agg(md5(x::text), '' order by md5(x::text))), '') as h from "${name}" x`)
-    .join(" union all ");
+  snapshot = await snapshotter(RECORDS_REFUSALS);
 }, 120_000);
 
 describe("fuzzing", () => {
