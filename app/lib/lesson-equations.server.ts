@@ -1,42 +1,41 @@
-// Displayed equations in a lesson (<Equation tex="…" /> in the MDX) become math at compile time, the
-// same way $$…$$ does: rehype-katex renders them to HTML with MathML beside it, once, when the lesson
-// is compiled. So no KaTeX code ships to the browser (it was most of a lesson page's JavaScript) and
-// no request renders math: the page only carries the finished markup and KaTeX's stylesheet.
+// Displayed equations in a lesson (<Equation tex="…" /> in the MDX) are rendered once, when the lesson
+// is compiled: react-katex's BlockMath renders each formula to KaTeX's HTML with MathML beside it, and
+// the finished markup is handed to the <Equation> component as a plain string. So no KaTeX code ships
+// to the browser (it was most of a lesson page's JavaScript) and no request renders math.
+import { createElement } from "react";
+import { renderToStaticMarkup } from "react-dom/server";
+import ReactKatex from "react-katex";
 
-type Node = { type: string; name?: string | null; value?: unknown; attributes?: Attribute[]; children?: Node[]; data?: unknown };
+// react-katex is a CommonJS package: its default import is the module object.
+const { BlockMath } = ReactKatex;
+
+type Node = { type: string; name?: string | null; attributes?: Attribute[]; children?: Node[] };
 type Attribute = { type: string; name?: string; value?: unknown };
 
-/** The mdast node remark-math makes for a $$…$$ block, with the hast it turns into. */
-function displayMath(tex: string): Node {
-  return {
-    type: "math",
-    value: tex,
-    data: {
-      hName: "pre",
-      hChildren: [{ type: "element", tagName: "code", properties: { className: ["language-math", "math-display"] }, children: [{ type: "text", value: tex }] }],
-    },
-  };
+/** KaTeX's markup for a displayed formula; a formula KaTeX cannot read fails the compile with its message. */
+export function renderDisplayedFormula(tex: string): string {
+  return renderToStaticMarkup(
+    createElement(BlockMath, {
+      math: tex,
+      renderError: (error: Error) => {
+        throw new Error(`<Equation tex="${tex}">: ${error.message}`);
+      },
+    }),
+  );
 }
 
-/** A remark plugin: each <Equation tex="…" /> becomes a displayed formula in a scrolling box. */
+/** A remark plugin: each <Equation tex="…" /> gets its rendered markup as an `html` attribute. */
 export function remarkEquations() {
   return (tree: Node) => {
     const walk = (node: Node) => {
-      if (!node.children) return;
-      node.children = node.children.map((child) => {
+      for (const child of node.children ?? []) {
         if ((child.type === "mdxJsxFlowElement" || child.type === "mdxJsxTextElement") && child.name === "Equation") {
           const tex = child.attributes?.find((a) => a.type === "mdxJsxAttribute" && a.name === "tex")?.value;
           if (typeof tex !== "string") throw new Error('<Equation> needs its formula as a plain string: <Equation tex="k = F / x" />');
-          return {
-            type: child.type,
-            name: "div",
-            attributes: [{ type: "mdxJsxAttribute", name: "className", value: "my-5 overflow-x-auto" }],
-            children: [displayMath(tex)],
-          };
+          child.attributes = [...(child.attributes ?? []), { type: "mdxJsxAttribute", name: "html", value: renderDisplayedFormula(tex) }];
         }
         walk(child);
-        return child;
-      });
+      }
     };
     walk(tree);
   };

@@ -13,7 +13,7 @@ import type { LessonExercises } from "./exercises";
 import { remarkEquations } from "./lesson-equations.server";
 
 /** Bumped by hand when our own compile options change, so old cache entries are not used. */
-const PIPELINE_REVISION = 2;
+const PIPELINE_REVISION = 3;
 
 const lessonsDir = () => path.resolve(process.env.BENDWISE_LESSONS_DIR ?? path.join(process.cwd(), "lessons"));
 const cacheDir = () => path.resolve(process.env.BENDWISE_LESSON_CACHE_DIR ?? path.join(process.cwd(), ".cache", "lessons"));

@@ -1,6 +1,7 @@
-// Every component a lesson's MDX can use, by the name it uses. (<Equation tex="…" /> is turned into
-// math when the lesson is compiled: see app/lib/lesson-equations.server.ts.)
+// Every component a lesson's MDX can use, by the name it uses. (<Equation tex="…" /> gets its math
+// rendered when the lesson is compiled: see app/lib/lesson-equations.server.ts.)
 import { DataTable } from "./data-table";
+import { Equation } from "./equation";
 import { Exercise } from "./exercise";
 import { ForceChart } from "./force-chart";
 import { Caution, Hint } from "./notes";
@@ -12,6 +13,7 @@ import { WrittenAnswer } from "./written-answer";
 export const lessonComponents = {
   Caution,
   DataTable,
+  Equation,
   Exercise,
   ForceChart,
   Hint,
