@@ -67,8 +67,9 @@ export async function deleteStudentData(
   return { displayName: result.displayName, seatsFreed: result.seatsFreed, photosRemoved };
 }
 
-/** Whether what was typed matches the name (spaces and capitals do not matter). */
+/** Whether what was typed matches the name. Spaces, capitals and accents do not matter: "theo" confirms "Théo". */
 export function confirmationMatches(typed: string, expected: string): boolean {
-  const norm = (s: string) => s.normalize("NFKC").trim().replace(/\s+/g, " ").toLowerCase();
+  const norm = (s: string) =>
+    s.normalize("NFKD").replace(/\p{M}/gu, "").trim().replace(/\s+/g, " ").toLowerCase();
   return norm(typed) !== "" && norm(typed) === norm(expected);
 }

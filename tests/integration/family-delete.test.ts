@@ -23,6 +23,7 @@ import * as studentsRoute from "~/routes/school.students";
 import { demoSignIns } from "../../drizzle/scripts/seed";
 import { givePaidSeats } from "../factories/schools";
 import { get, post, runRoute, sessionCookieFor, userIdOf } from "./auth-helpers";
+import { confirmationMatches } from "~/lib/student-deletion.server";
 import { findIdEverywhere, signInWith } from "./family-helpers";
 
 const YEAR = "2026-27";
@@ -62,6 +63,12 @@ async function childWithEverything() {
 }
 
 describe("deleting a child's account and data", () => {
+  it("takes the name as typed on any keyboard: spaces, capitals and accents do not matter, anything else does", () => {
+    expect(confirmationMatches("  theo ", "Théo")).toBe(true);
+    expect(confirmationMatches("AMIRA k.", "Amira K.")).toBe(true);
+    for (const typed of ["", "Théodore", "Thea", "Amira"]) expect(confirmationMatches(typed, typed === "Amira" ? "Amira K." : "Théo")).toBe(false);
+  });
+
   it("asks for the child's name and deletes nothing on a wrong one", async () => {
     const juno = await userIdOf("child");
     const page = await runRoute(deleteChildRoute.loader as never, get(`/family/children/${juno}/delete`, { cookie: parentCookie }), { childId: juno });

@@ -159,7 +159,9 @@ export async function composeWeeklySummaries({ db }: { db: Database }, now: Date
       paragraphs: [`Hello ${r.displayName},`, "here is what happened on Bendwise in the last seven days."],
       sections,
       button: { label: mine.length > 0 ? "Open your family page" : "Open your teaching page", url: home },
-      footnote: "You get this summary once a week because you follow children or teach classes on Bendwise. One click on the link below stops it; no sign-in needed.",
+      footnote: `You get this summary once a week because you ${
+        mine.length > 0 && theirClasses.length > 0 ? "have children and teach classes" : mine.length > 0 ? "have children" : "teach classes"
+      } on Bendwise. One click on the link below stops it; no sign-in needed.`,
       smallLink: { label: "Stop the weekly summary", url: stopUrl },
     });
     summaries.push({
