@@ -47,11 +47,11 @@ export function retryWindowSeconds(n: number, delaySeconds: number): [number, nu
 }
 
 /** A pg-boss instance with Bendwise's settings. The app's only queues jobs; a worker's also keeps the tables tidy and runs the schedule. */
-export function createBoss(connectionString: string, role: "app" | "worker"): PgBoss {
+export function createBoss(connectionString: string, role: "app" | "worker", maxConnections = role === "app" ? 2 : 4): PgBoss {
   const boss = new PgBoss({
     connectionString,
     application_name: `bendwise-${role}`,
-    max: role === "app" ? 2 : 4,
+    max: maxConnections,
     // Only workers look after the tables and the weekly schedule; app processes only add jobs.
     supervise: role === "worker",
     schedule: role === "worker",

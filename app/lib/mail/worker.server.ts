@@ -20,6 +20,8 @@ export interface MailWorkerOptions {
   smtpUrl?: string;
   /** How many e-mails may be in flight at once in this process. */
   concurrency?: number;
+  /** The queue's own connection pool (default 4). */
+  maxConnections?: number;
   pollingIntervalSeconds?: number;
   /** Put the weekly summaries on their schedule (every long-running worker does; tests do not). */
   schedule?: boolean;
@@ -38,7 +40,7 @@ export interface MailWorker {
 export async function startMailWorker(options: MailWorkerOptions = {}): Promise<MailWorker> {
   const env = serverEnv();
   const log = options.log ?? ((line: string) => console.log(`[mail worker] ${line}`));
-  const boss = createBoss(options.connectionString ?? env.DATABASE_URL, "worker");
+  const boss = createBoss(options.connectionString ?? env.DATABASE_URL, "worker", options.maxConnections);
   await boss.start();
   await ensureQueues(boss);
   const transport: Transporter = smtpTransport(options.smtpUrl ?? env.SMTP_URL);
