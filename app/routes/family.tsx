@@ -34,23 +34,26 @@ export async function loader({ request }: Route.LoaderArgs) {
     households: households.map((h, i) => ({
       ...h,
       ledger: ledgers[i],
-      children: children
-        .map((c, j) => ({ ...c, progress: progress[j] }))
-        .filter((c) => c.householdId === h.id)
-        .map(({ progress: lessons, ...c }) => {
-          const next = lessons.find((l) => !l.complete);
-          return {
-            id: c.id,
-            displayName: c.displayName,
-            username: c.username,
-            gradeBand: c.gradeBand,
-            lessonsComplete: lessons.filter((l) => l.complete).length,
-            lessons: lessons.length,
-            started: lessons.filter((l) => l.started).length,
-            path: lessons.map((l) => ({ number: l.number, title: l.title, complete: l.complete, started: l.started, done: l.requiredDone, total: l.requiredTotal })),
-            next: next ? { number: next.number, title: next.title, done: next.requiredDone, total: next.requiredTotal } : null,
-          };
-        }),
+      // Each child: only what the account holds (name, username, grade band); their progress beside it, by id.
+      children: children.filter((c) => c.householdId === h.id).map((c) => ({ id: c.id, displayName: c.displayName, username: c.username, gradeBand: c.gradeBand })),
+      progress: Object.fromEntries(
+        children
+          .map((c, j) => [c, progress[j]] as const)
+          .filter(([c]) => c.householdId === h.id)
+          .map(([c, lessons]) => {
+            const next = lessons.find((l) => !l.complete);
+            return [
+              c.id,
+              {
+                lessonsComplete: lessons.filter((l) => l.complete).length,
+                lessons: lessons.length,
+                started: lessons.filter((l) => l.started).length,
+                path: lessons.map((l) => ({ number: l.number, title: l.title, complete: l.complete, started: l.started, done: l.requiredDone, total: l.requiredTotal })),
+                next: next ? { number: next.number, title: next.title, done: next.requiredDone, total: next.requiredTotal } : null,
+              },
+            ];
+          }),
+      ),
     })),
   };
 }
@@ -135,7 +138,7 @@ export default function Family({ loaderData, actionData }: Route.ComponentProps)
             </div>
           ) : (
             <ul className="grid gap-4 md:grid-cols-2">
-              {h.children.map((c) => (
+              {h.children.map((child) => ({ ...child, ...h.progress[child.id] })).map((c) => (
                 <li key={c.id} className="card" data-child={c.username ?? c.id}>
                   <h3 className="mb-1 text-[length:var(--text-step-1)]">
                     <Link to={`/family/children/${c.id}`}>{c.displayName}</Link>

@@ -126,8 +126,9 @@ describe("the parent as the household's teacher", () => {
     await recordAttempt({ db }, { studentId: wrenId, slug: "01-measuring-deformation", definition, submission: { kind: "text", answer: "999 cm" } });
 
     const home = await runRoute(familyRoute.loader as never, get("/family", { cookie: parentCookie }));
-    const kids = (home.body as { households: { children: { displayName: string; started: number; lessonsComplete: number }[] }[] }).households[0].children;
-    expect(kids).toEqual([expect.objectContaining({ displayName: "Wren", started: 1, lessonsComplete: 0 })]);
+    const [family] = (home.body as { households: { children: { id: string; displayName: string }[]; progress: Record<string, { started: number; lessonsComplete: number }> }[] }).households;
+    expect(family.children).toEqual([{ id: wrenId, displayName: "Wren", username: "wren", gradeBand: "6-8" }]);
+    expect(family.progress[wrenId]).toMatchObject({ started: 1, lessonsComplete: 0 });
 
     const page = await runRoute(childRoute.loader as never, get(`/family/children/${wrenId}`, { cookie: parentCookie }), { childId: wrenId });
     expect(page.status).toBe(200);
