@@ -1,11 +1,8 @@
 // React Router's server entry, as the framework ships it, plus Bendwise's security headers
 // and a nonce for the inline scripts that hydration needs.
-import { PassThrough } from "node:stream";
+import { Writable } from "node:stream";
 import type { EntryContext } from "react-router";
-import { createReadableStreamFromReadable } from "@react-router/node";
 import { ServerRouter } from "react-router";
-import { isbot } from "isbot";
-import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import { NonceContext } from "~/lib/nonce";
 import { applySecurityHeaders, newNonce } from "~/lib/security-headers.server";
@@ -25,40 +22,42 @@ export default function handleRequest(
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
   }
 
+  // The whole page is rendered, then sent in one piece with its length. No Bendwise page streams a
+  // part later (no Suspense, no deferred data), so streaming would only cut the page into many small
+  // writes, and the compression the server puts in front of it (brotli or gzip) pays per write.
   return new Promise((resolve, reject) => {
-    let shellRendered = false;
-    const userAgent = request.headers.get("user-agent");
-    const readyOption: keyof RenderToPipeableStreamOptions =
-      (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
-
     let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
-
     const { pipe, abort } = renderToPipeableStream(
       <NonceContext.Provider value={nonce}>
         <ServerRouter context={routerContext} url={request.url} nonce={nonce} />
       </NonceContext.Provider>,
       {
         nonce,
-        [readyOption]() {
-          shellRendered = true;
-          const body = new PassThrough({
+        onAllReady() {
+          const chunks: Buffer[] = [];
+          const body = new Writable({
+            write(chunk, _encoding, callback) {
+              chunks.push(Buffer.isBuffer(chunk) ? chunk : Buffer.from(chunk));
+              callback();
+            },
             final(callback) {
               clearTimeout(timeoutId);
               timeoutId = undefined;
+              const html = Buffer.concat(chunks);
+              responseHeaders.set("Content-Type", "text/html; charset=utf-8");
+              responseHeaders.set("Content-Length", String(html.length));
+              resolve(new Response(html, { headers: responseHeaders, status: responseStatusCode }));
               callback();
             },
           });
-          const stream = createReadableStreamFromReadable(body);
-          responseHeaders.set("Content-Type", "text/html; charset=utf-8");
           pipe(body);
-          resolve(new Response(stream, { headers: responseHeaders, status: responseStatusCode }));
         },
         onShellError(error: unknown) {
           reject(error);
         },
         onError(error: unknown) {
           responseStatusCode = 500;
-          if (shellRendered) console.error(error);
+          console.error(error);
         },
       },
     );

@@ -113,7 +113,8 @@ async function load(name: string, appUrl: string, next: (i: number) => Req): Pro
       url: appUrl,
       connections: CONNECTIONS,
       duration: seconds,
-      requests: [{ setupRequest: (req: Record<string, unknown>) => ({ ...req, ...next(i++) }) }],
+      // Every request says what a browser says about compression, so pages and JSON go out gzipped as they would.
+      requests: [{ setupRequest: (req: Record<string, unknown>) => { const r = next(i++); return { ...req, ...r, headers: { "accept-encoding": process.env.BENCH_ACCEPT_ENCODING ?? "gzip, deflate, br", ...r.headers } }; } }],
     });
   await run(WARM_UP_SECONDS);
   const result = await run(SECONDS);
@@ -273,6 +274,16 @@ try {
   const worst = lessonJs.reduce((a, b) => (b.gzip > a.gzip ? b : a));
   console.log(`  landing page ${kb(sum(landing))} in ${landing.length} files; lesson pages ${kb(Math.min(...lessonJs.map((l) => l.gzip)))}–${kb(worst.gzip)} (largest: ${worst.slug})`);
 
+  const sizeOf = async (pathname: string, cookie: string) => {
+    const body = Buffer.from(await (await fetch(`${appUrl}${pathname}`, { headers: { cookie } })).arrayBuffer());
+    return { bytes: body.length, gzip: gzipSync(body).length };
+  };
+  const responseSizes = {
+    lessonPage: await sizeOf(`/learn/${PAGE_LESSON}`, cookieOf.get(school.students[0].id)!),
+    gradebook: await sizeOf(`/api/teach/classes/${school.gradebookClass.id}/gradebook`, teacherCookie),
+  };
+  console.log(`  response sizes: lesson page ${kb(responseSizes.lessonPage.bytes)} (${kb(responseSizes.lessonPage.gzip)} gzip), gradebook JSON ${kb(responseSizes.gradebook.bytes)} (${kb(responseSizes.gradebook.gzip)} gzip)`);
+
   step(`Load: ${CONNECTIONS} connections, ${WARM_UP_SECONDS} s warm-up then ${SECONDS} s each, autocannon in this process`);
   const students = school.students;
   const floorBefore = await load("floor (GET /api/ping)", appUrl, () => ({ method: "GET", path: "/api/ping", headers: {} }));
@@ -336,6 +347,7 @@ try {
       [lessonPage, answer, gradebook, analysis].map((r) => [r.name, { ...r, ratioToFloor: ratio(r) }]),
     ),
     sqlStatementsPerRequest: sql,
+    responseSizes,
     clientJavaScript: { landingGzip: sum(landing), landingFiles: landing, lessons: lessonJs, largestLesson: worst.slug, ratio: jsRatio },
     compile: inProcess.compile,
     targets: {
