@@ -106,6 +106,9 @@ describe("compiling a lesson against serving it from the cache", () => {
   it("times compiledLesson() cold, from memory and from the disk cache", async () => {
     const folder = mkdtempSync(path.join(tmpdir(), "bendwise-bench-lessons-"));
     const previous = process.env.BENDWISE_LESSON_CACHE_DIR;
+    // As in the production server, where a lesson's content hash is worked out once (lessonHash).
+    const previousNodeEnv = process.env.NODE_ENV;
+    process.env.NODE_ENV = "production";
     const freshModule = async () => {
       vi.resetModules();
       return import("~/lib/lessons.server");
@@ -142,6 +145,7 @@ describe("compiling a lesson against serving it from the cache", () => {
       out.compile = { lessons: rows, meanCompileMs: mean("compileMs"), meanMemoryMs: mean("memoryMs"), meanDiskMs: mean("diskMs") };
     } finally {
       process.env.BENDWISE_LESSON_CACHE_DIR = previous;
+      process.env.NODE_ENV = previousNodeEnv;
       rmSync(folder, { recursive: true, force: true });
       writeFileSync(process.env.BENCH_IN_PROCESS_OUT!, JSON.stringify(out, null, 2));
     }
