@@ -111,7 +111,7 @@ export default function Home() {
           <li>Elastic, permanent, broken: return readings and the elastic limit</li>
           <li>Width, thickness and span: why a glued stack is far stiffer</li>
           <li>A home lab with two household materials</li>
-          <li>A design challenge: a shelf that must not sag too far</li>
+          <li>A design challenge: a bridge of strips that must not sag too far</li>
         </ol>
         <p className="mt-4 text-ink-soft">
           Hands-on lessons carry the usual cautions — eye protection, loads within the scale's range, brittle
