@@ -108,7 +108,10 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
   return (
     <div className="mx-auto max-w-5xl px-5 py-12">
       <h1 className="mb-2 text-[length:var(--text-step-3)]">Sign in to Bendwise</h1>
-      <p className="mb-8 text-ink-soft">Grown-ups sign in on the left. Students sign in on the right, with no e-mail address needed.</p>
+      <p className="mb-8 text-ink-soft">
+        Grown-ups use their e-mail address, under “Adults”. Students use their class or family code, under{" "}
+        <a href="#student-door">“Students”</a>: no e-mail address needed.
+      </p>
 
       {loaderData.signedInAs ? (
         <Notice tone="info">
