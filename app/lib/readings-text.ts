@@ -5,6 +5,8 @@ import type { ReadingPoint } from "./science";
 
 export interface ReadingsTextResult {
   points: ReadingPoint[];
+  /** the line (counted from 1) each point came from, for naming it in a problem */
+  lines: number[];
   problems: string[];
 }
 
@@ -12,6 +14,7 @@ const BROKE_WORDS = new Set(["broke", "broken", "b", "yes", "x", "true"]);
 
 export function parseReadingsText(text: string, secondColumn: "reading" | "deformation"): ReadingsTextResult {
   const points: ReadingPoint[] = [];
+  const lineOfPoint: number[] = [];
   const problems: string[] = [];
   const lines = text.replace(/\r/g, "").split("\n").slice(0, 1200);
   lines.forEach((raw, index) => {
@@ -41,6 +44,7 @@ export function parseReadingsText(text: string, secondColumn: "reading" | "defor
       ...(back !== undefined ? { returnReadingCm: back } : {}),
       ...(broke ? { broke: true } : {}),
     });
+    lineOfPoint.push(row);
   });
-  return { points, problems };
+  return { points, lines: lineOfPoint, problems };
 }

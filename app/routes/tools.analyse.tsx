@@ -39,7 +39,7 @@ export async function action({ request }: Route.ActionArgs) {
   if (!limit.allowed) {
     return data({ values, problems: [`Too many analyses from here: try again in ${limit.retryAfter} seconds.`], analysis: null }, { status: 429 });
   }
-  const { points, problems } = parseReadingsText(values.readings, values.secondColumn);
+  const { points, lines, problems } = parseReadingsText(values.readings, values.secondColumn);
   const unloaded = values.unloadedCm.trim() === "" ? undefined : Number(values.unloadedCm.replace(",", "."));
   if (values.secondColumn === "reading" && unloaded === undefined) problems.push("Give the unloaded reading: deformations are worked out from it.");
   if (unloaded !== undefined && !Number.isFinite(unloaded)) problems.push(`The unloaded reading “${values.unloadedCm}” is not a number.`);
@@ -50,10 +50,34 @@ export async function action({ request }: Route.ActionArgs) {
     points,
   });
   if (problems.length > 0 || !checked.ok) {
-    const all = [...problems, ...(checked.ok ? [] : checked.errors.map((e) => e.replace(/points\[(\d+)\]\.?/, (_m, i) => `Line with the ${Number(i) + 1}. reading, `)))];
+    const unloadedNamed = problems.some((p) => p.includes("unloaded reading"));
+    const fromChecks = checked.ok ? [] : checked.errors.map((e) => inFormWords(e, lines)).filter((p) => !(unloadedNamed && p.includes("unloaded reading")));
+    const all = [...new Set([...problems, ...fromChecks])];
     return data({ values, problems: all, analysis: null }, { status: 400 });
   }
   return { values, problems: [] as string[], analysis: analyseReadings(checked.data) };
+}
+
+/**
+ * The analysis checks speak to programmers ("points[2].forceN: forceN must be 0 or more"); this page
+ * names the same problems in the words of its own form, with the line of the pasted text.
+ */
+function inFormWords(error: string, lines: number[]): string {
+  const point = /^points\[(\d+)\]\.(\w+): (.*)$/.exec(error);
+  if (point) {
+    const where = `Line ${lines[Number(point[1])] ?? Number(point[1]) + 1}`;
+    if (point[2] === "forceN" && point[3].includes("0 or more")) return `${where}: the force must be 0 or more.`;
+    return `${where}: a number could not be read.`;
+  }
+  if (error.startsWith("unloadedCm:")) {
+    return error.includes("needed")
+      ? "Give the unloaded reading: deformations are worked out from it."
+      : "The unloaded reading is not a number.";
+  }
+  if (error.startsWith("resolutionCm:")) return "“Ruler read to” needs a number above 0 in centimetres, such as 0.1.";
+  if (error.includes("at least")) return "Give at least two loading steps, one per line: the force, then the reading.";
+  if (error.includes("at most")) return "Paste at most 1000 loading steps.";
+  return error.replace(/^[\w.[\]]+: /, "");
 }
 
 export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
