@@ -159,29 +159,31 @@ function AnalysisReport({ analysis }: { analysis: AnalysisResult }) {
         <PrintButton />
       </div>
       <div className="grid gap-6 md:grid-cols-2">
-        <div>
-          <table className="mb-4 w-full border-collapse">
-            <caption className="mb-1 text-left font-bold">Each reading</caption>
-            <thead>
-              <tr>
-                <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Force (N)</th>
-                <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Deformation (cm)</th>
-                <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Stiffness (N/cm)</th>
-                <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Permanent set (cm)</th>
-              </tr>
-            </thead>
-            <tbody>
-              {analysis.points.map((p, i) => (
-                <tr key={i}>
-                  <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.forceN)}</td>
-                  <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.deformationCm)}</td>
-                  <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.stiffnessNPerCm, "", 3)}</td>
-                  <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.permanentSetCm)}</td>
+        <div className="min-w-0">
+          <div className="mb-4 overflow-x-auto">
+            <table className="w-full border-collapse">
+              <caption className="mb-1 text-left font-bold">Each reading</caption>
+              <thead>
+                <tr>
+                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Force (N)</th>
+                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Deformation (cm)</th>
+                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Stiffness (N/cm)</th>
+                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Permanent set (cm)</th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
-          <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1">
+              </thead>
+              <tbody>
+                {analysis.points.map((p, i) => (
+                  <tr key={i}>
+                    <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.forceN)}</td>
+                    <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.deformationCm)}</td>
+                    <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.stiffnessNPerCm, "", 3)}</td>
+                    <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.permanentSetCm)}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          <dl className="grid gap-x-4 sm:grid-cols-[auto_1fr] sm:gap-y-1 [&>dd]:mb-2 sm:[&>dd]:mb-0">
             <dt className="font-bold">Stiffness, line through the origin</dt>
             <dd data-testid="slope-through-origin">{show(origin.slope, "N/cm")} (± {show(origin.slopeSE, "", 2)})</dd>
             <dt className="font-bold">R² (through the origin)</dt>
