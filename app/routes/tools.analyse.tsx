@@ -151,6 +151,14 @@ function AnalysisReport({ analysis }: { analysis: AnalysisResult }) {
   const show = (v: number | null, unit = "", sig = 4) => (v === null ? "—" : formatForStudent(v, unit, sig));
   // Readings are shown as measured (no padding zeros); worked-out values to 3 significant figures.
   const plain = (v: number | null) => (v === null ? "—" : String(Number(v.toPrecision(6))));
+  // A fitted value is written to the decimal place of its uncertainty (given to 2 figures), so the
+  // intercept reads 0.034 N (± 0.047), not 0.03448 N.
+  const withUncertainty = (v: number | null, se: number | null, unit: string) => {
+    if (v === null || se === null || !Number.isFinite(se) || se <= 0 || se < Math.abs(v) * 1e-6) return `${show(v, unit)} (± ${show(se, "", 2)})`;
+    const places = Math.min(10, Math.max(0, 1 - Math.floor(Math.log10(se))));
+    const fixed = (n: number) => (Number(n.toFixed(places)) === 0 ? (0).toFixed(places) : n.toFixed(places));
+    return `${fixed(v)} ${unit} (± ${fixed(se)})`;
+  };
   const hasReturns = analysis.points.some((p) => p.permanentSetCm !== null);
   return (
     <section aria-labelledby="results" className="font-ui" data-testid="analysis-report">
@@ -185,11 +193,11 @@ function AnalysisReport({ analysis }: { analysis: AnalysisResult }) {
           </div>
           <dl className="grid gap-x-4 sm:grid-cols-[auto_1fr] sm:gap-y-1 [&>dd]:mb-2 sm:[&>dd]:mb-0">
             <dt className="font-bold">Stiffness, line through the origin</dt>
-            <dd data-testid="slope-through-origin">{show(origin.slope, "N/cm")} (± {show(origin.slopeSE, "", 2)})</dd>
+            <dd data-testid="slope-through-origin">{withUncertainty(origin.slope, origin.slopeSE, "N/cm")}</dd>
             <dt className="font-bold">R² (through the origin)</dt>
             <dd>{show(origin.r2, "", 5)}</dd>
             <dt className="font-bold">Line with an intercept</dt>
-            <dd>slope {show(free.slope, "N/cm")}, intercept {show(free.intercept, "N")} (± {show(free.interceptSE, "", 2)})</dd>
+            <dd>slope {show(free.slope, "N/cm")}, intercept {withUncertainty(free.intercept, free.interceptSE, "N")}</dd>
             <dt className="font-bold">R² (with intercept)</dt>
             <dd>{show(free.r2, "", 5)}</dd>
             <dt className="font-bold">Proportional?</dt>
