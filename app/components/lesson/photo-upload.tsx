@@ -4,7 +4,7 @@ import { PHOTO_MAX_BYTES } from "~/lib/photo-rules";
 import { useLesson } from "./lesson-context";
 
 export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id: string; prompt?: string }) {
-  const { state, canAnswer, slug } = useLesson();
+  const { state, canAnswer } = useLesson();
   const fetcher = useFetcher<{ photoId?: string; error?: string; saved?: boolean }>();
   // Each upload box has its own fetcher, so its answer is always about this box.
   const mine = fetcher.data;
@@ -21,7 +21,7 @@ export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id
           <input type="hidden" name="photoId" value={id} />
           <label className="block">
             <span className="mb-1 block font-bold">Choose a photo (JPEG, PNG or WebP, up to {PHOTO_MAX_BYTES / 1024 / 1024} MB)</span>
-            <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" required className="block" />
+            <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" required className="block w-full max-w-full" />
           </label>
           <button type="submit" className="btn mt-3" disabled={fetcher.state !== "idle"}>
             {fetcher.state !== "idle" ? "Uploading…" : "Upload the photo"}
@@ -36,7 +36,7 @@ export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id
         <ul className="mt-3 flex flex-wrap gap-3">
           {photos.map((p) => (
             <li key={p.id}>
-              <img src={`/photos/${p.id}`} alt={`Your set-up photo for ${slug}`} className="h-32 rounded border border-rule object-cover" />
+              <img src={`/photos/${p.id}`} alt="Your photo of the set-up" className="h-32 rounded border border-rule object-cover" />
             </li>
           ))}
         </ul>
