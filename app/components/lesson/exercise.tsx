@@ -137,47 +137,49 @@ function AnswerFields({ exercise, formId, disabled }: { exercise: ExerciseState;
     let cell = 0;
     const { columns, rows } = exercise.prompt.table;
     return (
-      <table className="border-collapse">
-        <thead>
-          <tr>
-            {columns.map((c) => (
-              <th key={c} scope="col" className="border-b-2 border-ink-soft px-3 py-1 text-left">
-                {c}
-              </th>
-            ))}
-          </tr>
-        </thead>
-        <tbody>
-          {rows.map((row, r) => (
-            <tr key={r}>
-              {row.map((value, c) => {
-                if (value !== null) {
+      <div className="overflow-x-auto">
+        <table className="border-collapse">
+          <thead>
+            <tr>
+              {columns.map((c) => (
+                <th key={c} scope="col" className="border-b-2 border-ink-soft px-3 py-1 text-left">
+                  {c}
+                </th>
+              ))}
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((row, r) => (
+              <tr key={r}>
+                {row.map((value, c) => {
+                  if (value !== null) {
+                    return (
+                      <td key={c} className="border-b border-rule px-3 py-1 tabular-nums">
+                        {value}
+                      </td>
+                    );
+                  }
+                  const index = cell++;
                   return (
-                    <td key={c} className="border-b border-rule px-3 py-1 tabular-nums">
-                      {value}
+                    <td key={c} className="border-b border-rule px-2 py-1">
+                      <input
+                        name="cell"
+                        aria-label={typeof row[0] === "string" && c > 0 ? `${columns[c]}, ${row[0]}` : `${columns[c]}, row ${r + 1}`}
+                        className="field w-32"
+                        autoComplete="off"
+                        maxLength={60}
+                        defaultValue={lastCells[index] ?? ""}
+                        disabled={disabled}
+                        required
+                      />
                     </td>
                   );
-                }
-                const index = cell++;
-                return (
-                  <td key={c} className="border-b border-rule px-2 py-1">
-                    <input
-                      name="cell"
-                      aria-label={`${columns[c]}, row ${r + 1}`}
-                      className="field w-32"
-                      autoComplete="off"
-                      maxLength={60}
-                      defaultValue={lastCells[index] ?? ""}
-                      disabled={disabled}
-                      required
-                    />
-                  </td>
-                );
-              })}
-            </tr>
-          ))}
-        </tbody>
-      </table>
+                })}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
     );
   }
   return (
