@@ -16,10 +16,13 @@ export function Prediction({ id, question, options, children }: {
     return (
       <div id={`prediction-${id}`} className="my-6">
         {chosen && (
-          <p className="rounded bg-spruce-wash p-3 font-ui">
-            <span className="font-bold">Your prediction: </span>
-            {chosen.label}. Now compare it with the data.
-          </p>
+          <div className="rounded bg-spruce-wash p-3 font-ui">
+            <p className="mb-1">{question}</p>
+            <p>
+              <span className="font-bold">Your prediction: </span>
+              {chosen.label}. Now compare it with what follows.
+            </p>
+          </div>
         )}
         {children}
       </div>
