@@ -1,7 +1,7 @@
 // /family/children/:childId/delete: a parent deletes a child's account and everything recorded for it
 // (answers, readings, written work, photos, progress), for good, and the seat is freed. The page says
 // what goes, and the parent types the child's name to confirm.
-import { Link, data, useNavigation } from "react-router";
+import { Link, data, useNavigation, type ShouldRevalidateFunctionArgs } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/family.children.$childId.delete";
 import { DeleteStudentForm } from "~/components/delete-student";
@@ -37,6 +37,13 @@ export async function action({ request, params }: Route.ActionArgs) {
   const deleted = await deleteStudentData({ db }, child.householdId, child.id);
   if (!deleted) throw new Response(NOT_FOUND, { status: 404 });
   return { deleted: deleted.displayName, seatsFreed: deleted.seatsFreed };
+}
+
+// Once the account is gone this page's loader can only answer 404, so it is not asked again after a
+// deletion: the page shows the action's "Deleted" answer instead of "Page not found".
+export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
+  if ((actionResult as { deleted?: string } | undefined)?.deleted) return false;
+  return defaultShouldRevalidate;
 }
 
 export default function DeleteChild({ loaderData, actionData }: Route.ComponentProps) {

@@ -1,7 +1,7 @@
 // /school/students/:studentId/delete: a school administrator deletes a student's account and
 // everything recorded for it, for good; the seat is freed. The administrator types the student's
 // name to confirm. Another school's student is simply not found.
-import { Link, data, useNavigation } from "react-router";
+import { Link, data, useNavigation, type ShouldRevalidateFunctionArgs } from "react-router";
 import { Notice } from "~/components/auth-forms";
 import { z } from "zod";
 import type { Route } from "./+types/school.students.$studentId.delete";
@@ -37,6 +37,13 @@ export async function action({ request, params }: Route.ActionArgs) {
   const deleted = await deleteStudentData({ db }, student.organisationId!, student.id);
   if (!deleted) throw new Response(NOT_FOUND, { status: 404 });
   return { deleted: deleted.displayName, seatsFreed: deleted.seatsFreed };
+}
+
+// Once the account is gone this page's loader can only answer 404, so it is not asked again after a
+// deletion: the page shows the action's "Deleted" answer instead of "Page not found".
+export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
+  if ((actionResult as { deleted?: string } | undefined)?.deleted) return false;
+  return defaultShouldRevalidate;
 }
 
 export default function DeleteStudent({ loaderData, actionData }: Route.ComponentProps) {
