@@ -150,7 +150,7 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
                       <ul className="mt-1 space-y-0.5 pl-5 text-[length:var(--text-step--1)]">
                         {e.tries.map((t, i) => (
                           <li key={t.id}>
-                            Try {i + 1}: <span className="font-mono">{t.answer || "(empty)"}</span> —{" "}
+                            Try {i + 1}: <span className="font-mono wrap-anywhere">{t.answer || "(empty)"}</span> —{" "}
                             {t.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{t.what}</span>} <span className="text-ink-soft">· {t.at}</span>
                           </li>
                         ))}
@@ -190,11 +190,11 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
                 </h4>
                 <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
                   <dt className="font-bold">Claim</dt>
-                  <dd className="whitespace-pre-wrap">{a.claim || "—"}</dd>
+                  <dd className="whitespace-pre-wrap wrap-anywhere">{a.claim || "—"}</dd>
                   <dt className="font-bold">Evidence</dt>
-                  <dd className="whitespace-pre-wrap">{a.evidence || "—"}</dd>
+                  <dd className="whitespace-pre-wrap wrap-anywhere">{a.evidence || "—"}</dd>
                   <dt className="font-bold">Reasoning</dt>
-                  <dd className="whitespace-pre-wrap">{a.reasoning || "—"}</dd>
+                  <dd className="whitespace-pre-wrap wrap-anywhere">{a.reasoning || "—"}</dd>
                 </dl>
                 {a.comment ? (
                   <p className="mt-2">

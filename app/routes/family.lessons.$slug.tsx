@@ -132,7 +132,7 @@ export default function FamilyLesson({ loaderData }: Route.ComponentProps) {
             <ul className="mt-2 space-y-0.5 text-[length:var(--text-step--1)]">
               {tries.map((t) => (
                 <li key={t.id}>
-                  {t.child} · {items.find((i) => i.exerciseId === t.exerciseId)?.title ?? t.exerciseId}: <span className="font-mono">{t.answer}</span> —{" "}
+                  {t.child} · {items.find((i) => i.exerciseId === t.exerciseId)?.title ?? t.exerciseId}: <span className="font-mono wrap-anywhere">{t.answer}</span> —{" "}
                   {t.right ? <strong className="text-ok">right</strong> : <span className="text-danger">not right</span>} <span className="text-ink-soft">· {t.at}</span>
                 </li>
               ))}
@@ -158,11 +158,11 @@ export default function FamilyLesson({ loaderData }: Route.ComponentProps) {
             </h3>
             <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
               <dt className="font-bold">Claim</dt>
-              <dd className="whitespace-pre-wrap">{a.claim || "—"}</dd>
+              <dd className="whitespace-pre-wrap wrap-anywhere">{a.claim || "—"}</dd>
               <dt className="font-bold">Evidence</dt>
-              <dd className="whitespace-pre-wrap">{a.evidence || "—"}</dd>
+              <dd className="whitespace-pre-wrap wrap-anywhere">{a.evidence || "—"}</dd>
               <dt className="font-bold">Reasoning</dt>
-              <dd className="whitespace-pre-wrap">{a.reasoning || "—"}</dd>
+              <dd className="whitespace-pre-wrap wrap-anywhere">{a.reasoning || "—"}</dd>
             </dl>
             <ReviewForm action={`/family/lessons/${lesson.slug}`} answer={{ studentId: a.studentId, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
           </article>

@@ -81,7 +81,7 @@ export default function ExerciseAnalysis({ loaderData }: Route.ComponentProps) {
                   {g.examples.map((e, i) => (
                     <span key={e.answer}>
                       {i > 0 ? ", " : ""}
-                      <span className="font-mono">{e.answer || "(empty)"}</span>
+                      <span className="font-mono wrap-anywhere">{e.answer || "(empty)"}</span>
                       {e.count > 1 ? ` (${e.count}×)` : ""}
                     </span>
                   ))}
@@ -108,7 +108,7 @@ export default function ExerciseAnalysis({ loaderData }: Route.ComponentProps) {
                 <ol className="mt-1 space-y-0.5 pl-1 text-[length:var(--text-step--1)]">
                   {s.attempts.map((a, i) => (
                     <li key={a.id}>
-                      <span className="text-ink-soft">Try {i + 1}:</span> <span className="font-mono">{a.answer || "(empty)"}</span> — {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.words}</span>}{" "}
+                      <span className="text-ink-soft">Try {i + 1}:</span> <span className="font-mono wrap-anywhere">{a.answer || "(empty)"}</span> — {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.words}</span>}{" "}
                       <span className="text-ink-soft">· {a.at}</span>
                     </li>
                   ))}

@@ -121,11 +121,11 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
             </h3>
             <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
               <dt className="font-bold">Claim</dt>
-              <dd className="whitespace-pre-wrap">{a.claim || "—"}</dd>
+              <dd className="whitespace-pre-wrap wrap-anywhere">{a.claim || "—"}</dd>
               <dt className="font-bold">Evidence</dt>
-              <dd className="whitespace-pre-wrap">{a.evidence || "—"}</dd>
+              <dd className="whitespace-pre-wrap wrap-anywhere">{a.evidence || "—"}</dd>
               <dt className="font-bold">Reasoning</dt>
-              <dd className="whitespace-pre-wrap">{a.reasoning || "—"}</dd>
+              <dd className="whitespace-pre-wrap wrap-anywhere">{a.reasoning || "—"}</dd>
             </dl>
             <ReviewForm action={`/teach/classes/${klass.id}/lessons/${lesson.slug}`} answer={{ studentId: a.studentId, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
           </article>

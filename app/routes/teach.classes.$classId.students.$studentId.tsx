@@ -252,7 +252,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
                   <ol className="mt-1 space-y-0.5 pl-1 text-[length:var(--text-step--1)]">
                     {e.attempts.map((a, i) => (
                       <li key={a.id}>
-                        <span className="text-ink-soft">Try {i + 1}:</span> <span className="font-mono">{a.answer || "(empty)"}</span> —{" "}
+                        <span className="text-ink-soft">Try {i + 1}:</span> <span className="font-mono wrap-anywhere">{a.answer || "(empty)"}</span> —{" "}
                         {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.slip ?? a.outcome}</span>}{" "}
                         <span className="text-ink-soft">· {a.at}</span>
                       </li>
@@ -301,11 +301,11 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
               </h3>
               <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
                 <dt className="font-bold">Claim</dt>
-                <dd className="whitespace-pre-wrap">{a.claim || "—"}</dd>
+                <dd className="whitespace-pre-wrap wrap-anywhere">{a.claim || "—"}</dd>
                 <dt className="font-bold">Evidence</dt>
-                <dd className="whitespace-pre-wrap">{a.evidence || "—"}</dd>
+                <dd className="whitespace-pre-wrap wrap-anywhere">{a.evidence || "—"}</dd>
                 <dt className="font-bold">Reasoning</dt>
-                <dd className="whitespace-pre-wrap">{a.reasoning || "—"}</dd>
+                <dd className="whitespace-pre-wrap wrap-anywhere">{a.reasoning || "—"}</dd>
               </dl>
               <ReviewForm action={`/teach/classes/${klass.id}/students/${student.id}`} answer={{ studentId: student.id, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
             </div>

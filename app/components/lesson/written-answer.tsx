@@ -59,7 +59,7 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
       {saved?.reviewComment && (
         <div className="mt-3 rounded bg-spruce-wash p-3" data-testid="review-comment">
           <p className="font-bold">Your teacher's comment</p>
-          <p>{saved.reviewComment}</p>
+          <p className="whitespace-pre-wrap wrap-anywhere">{saved.reviewComment}</p>
         </div>
       )}
     </section>
