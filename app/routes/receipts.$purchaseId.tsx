@@ -42,13 +42,13 @@ export default function Receipt({ loaderData }: Route.ComponentProps) {
           {receipt.status === "void" ? "This order was cancelled; nothing was paid." : "This becomes a receipt once the payment is confirmed."}
         </p>
       ) : null}
-      <dl className="card grid grid-cols-[max-content_1fr] gap-x-6 gap-y-2" data-testid="receipt">
+      <dl className="card grid grid-cols-1 gap-x-6 sm:grid-cols-[max-content_minmax(0,1fr)] sm:gap-y-2" data-testid="receipt">
         {rows
           .filter(([, value]) => value)
           .map(([label, value]) => (
             <div key={label} className="contents">
               <dt className="font-bold">{label}</dt>
-              <dd>{value}</dd>
+              <dd className="mb-2 wrap-anywhere sm:mb-0">{value}</dd>
             </div>
           ))}
       </dl>
