@@ -82,13 +82,13 @@ export default function School({ loaderData }: Route.ComponentProps) {
                 <ul>
                   {school.seats.map((s) => (
                     <li key={s.schoolYear}>
-                      <strong>{s.seats}</strong> seats for {s.schoolYear}
+                      <strong>{s.seats}</strong> {s.seats === 1 ? "seat" : "seats"} for {s.schoolYear}
                     </li>
                   ))}
                 </ul>
               )}
               <p className="mt-2 text-ink-soft">
-                <Link to="/school/students">{school.students} students have accounts</Link>.
+                <Link to="/school/students">{school.students === 1 ? "1 student has an account" : `${school.students} students have accounts`}</Link>.
               </p>
               <p className="mt-2">
                 <Link to="/school/seats">Seat ledger, purchases and receipts</Link>
@@ -112,7 +112,7 @@ export default function School({ loaderData }: Route.ComponentProps) {
             <div className="card">
               <h2 className="mb-2 text-[length:var(--text-step-1)]">Classes</h2>
               <p>
-                <strong>{school.classes}</strong> classes
+                <strong>{school.classes}</strong> {school.classes === 1 ? "class" : "classes"}
               </p>
               <p className="mt-2">
                 <Link to="/school/classes">Every class and teacher, with how the students are doing</Link>
