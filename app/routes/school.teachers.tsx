@@ -92,7 +92,8 @@ export default function SchoolTeachers({ loaderData, actionData }: Route.Compone
         <p className="mb-4 text-ink-soft">
           We e-mail them a link that works for {days} days. New to Bendwise, they choose a password; with an account already, your school is added to it.
         </p>
-        <Form method="post" noValidate>
+        {/* A new key after each invitation sent empties the form, ready for the next teacher. */}
+        <Form method="post" noValidate key={invite?.done ?? "invite"}>
           <input type="hidden" name="intent" value="invite" />
           <div className="grid gap-x-4 sm:grid-cols-2">
             <Field label="Name" name="displayName" autoComplete="off" required defaultValue={invite?.values?.displayName ?? ""} error={invite?.fieldErrors?.displayName} />
