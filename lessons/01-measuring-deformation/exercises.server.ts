@@ -180,6 +180,9 @@ export const lesson: LessonExercises = {
         const readings = random.shuffle(offsets).map((o) => tenth(base + o));
         const mean = readings.reduce((s, r) => s + r, 0) / readings.length;
         const spread = tenth(Math.max(...readings) - Math.min(...readings));
+        // 49.8 cm ÷ 3 comes out even (16.6 cm); 49.9 cm ÷ 3 = 16.63 cm is rounded to the ruler's 0.1 cm.
+        const even = Math.abs(mean * 10 - Math.round(mean * 10)) < 1e-9;
+        const meanWorded = even ? cm1(mean) : `${formatForStudent(mean, "cm", 4)}, about ${cm1(mean)} to the ruler's 0.1 cm`;
         return {
           prompt: `${a}, ${b} and ${c} each read the reference height of the same unloaded strip, eyes level, without telling each other: ${a} ${cm1(readings[0])}, ${b} ${cm1(readings[1])}, ${c} ${cm1(readings[2])}.\nFill in the mean of the three readings and their spread (largest − smallest), each with a unit.`,
           hint: "Mean = (sum of the three readings) ÷ 3. Spread = largest reading − smallest reading.",
@@ -194,7 +197,7 @@ export const lesson: LessonExercises = {
             { value: mean, unit: "cm", tolerance: { absolute: 0.05 } },
             { value: spread, unit: "cm", tolerance: { absolute: 0.05 } },
           ],
-          solution: `Mean = (${readings.map((r) => cm1(r)).join(" + ")}) ÷ 3 = ${cm1(readings[0] + readings[1] + readings[2])} ÷ 3 = ${formatForStudent(mean)} cm, about ${cm1(mean)} to the ruler's 0.1 cm.\nSpread = ${cm1(Math.max(...readings))} − ${cm1(Math.min(...readings))} = ${cm1(spread)}. A spread of one or two marks is normal for careful readers; a bigger one means someone's eye was not level.`,
+          solution: `Mean = (${readings.map((r) => cm1(r)).join(" + ")}) ÷ 3 = ${cm1(readings[0] + readings[1] + readings[2])} ÷ 3 = ${meanWorded}.\nSpread = ${cm1(Math.max(...readings))} − ${cm1(Math.min(...readings))} = ${cm1(spread)}. A spread of one or two marks is normal for careful readers; a bigger one means someone's eye was not level.`,
         };
       },
     },
