@@ -161,14 +161,35 @@ export async function openCheckoutUrl({ stripe }: { stripe: Stripe }, providerRe
 
 async function customerFor({ db, stripe }: PaymentsDeps, org: { id: string; name: string }, email: string | null): Promise<string> {
   const [known] = await db.select().from(paymentCustomers).where(eq(paymentCustomers.organisationId, org.id));
-  if (known) return known.providerCustomerId;
+  if (known && (await customerStillThere(stripe, known.providerCustomerId))) return known.providerCustomerId;
+  // None yet, or the provider no longer knows the one we kept: deleted in its dashboard, made with the
+  // test-mode key before the switch to the live one, or made by a local payments fake that has since
+  // restarted. A new one replaces it; a key of its own keeps the replacement from answering the old one.
   const customer = await stripe.customers.create(
     { name: org.name, email: email ?? undefined, metadata: { [META.organisation]: org.id } },
-    { idempotencyKey: `bendwise-customer-${org.id}` },
+    { idempotencyKey: known ? `bendwise-customer-${org.id}-after-${known.providerCustomerId}` : `bendwise-customer-${org.id}` },
   );
-  await db.insert(paymentCustomers).values({ organisationId: org.id, providerCustomerId: customer.id }).onConflictDoNothing();
+  if (known) {
+    await db
+      .update(paymentCustomers)
+      .set({ providerCustomerId: customer.id })
+      .where(and(eq(paymentCustomers.organisationId, org.id), eq(paymentCustomers.providerCustomerId, known.providerCustomerId)));
+  } else {
+    await db.insert(paymentCustomers).values({ organisationId: org.id, providerCustomerId: customer.id }).onConflictDoNothing();
+  }
   const [row] = await db.select().from(paymentCustomers).where(eq(paymentCustomers.organisationId, org.id));
   return row.providerCustomerId;
+}
+
+/** Whether the provider still has this customer (a deleted one is answered with `deleted: true`, an unknown one with 404). */
+async function customerStillThere(stripe: Stripe, customerId: string): Promise<boolean> {
+  try {
+    const customer = await stripe.customers.retrieve(customerId);
+    return !("deleted" in customer && customer.deleted);
+  } catch (error) {
+    if ((error as { code?: string }).code === "resource_missing") return false;
+    throw error;
+  }
 }
 
 /** The provider's product for a seat; made once with a fixed id, then reused. */
