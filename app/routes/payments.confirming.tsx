@@ -64,7 +64,7 @@ export default function PaymentConfirming({ loaderData }: Route.ComponentProps) 
           <h1 className="mb-4 text-[length:var(--text-step-3)]">Payment confirmed</h1>
           <Notice tone="done">
             <p className="font-bold" data-testid="confirmed">
-              {purchase.seats} {seatsWord} for {purchase.schoolYear} have been added.
+              {purchase.seats} {seatsWord} for {purchase.schoolYear} {purchase.seats === 1 ? "has" : "have"} been added.
             </p>
             <p>
               Seats for {purchase.schoolYear} now: {ledger.bought} bought, {ledger.inUse} in use, {ledger.free} free. A receipt is on its way by
@@ -99,9 +99,16 @@ export default function PaymentConfirming({ loaderData }: Route.ComponentProps) 
           </p>
         </>
       )}
-      <Link className="btn" to={backTo}>
-        Back to your seats
-      </Link>
+      <div className="flex flex-wrap gap-3">
+        {status === "paid" && backTo === "/family/seats" ? (
+          <Link className="btn" to="/family/children/new">
+            Add a child
+          </Link>
+        ) : null}
+        <Link className={status === "paid" && backTo === "/family/seats" ? "btn btn-quiet" : "btn"} to={backTo}>
+          Back to your seats
+        </Link>
+      </div>
     </div>
   );
 }
