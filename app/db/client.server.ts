@@ -26,9 +26,36 @@ const sqlClient = postgres(serverEnv().DATABASE_URL, {
 // plans the text again every time. Named (prepared) statements, postgres.js's own default, are parsed
 // once per connection and run in one round trip after that: about half the waiting per query.
 // Connections are recycled after 20 idle seconds, so the statements a connection keeps stay few.
+//
+// When PostgreSQL restarts, each connection that sat idle in the pool learns it was closed only when it
+// is next used: its next statement fails with 57P01 (admin_shutdown), seconds later perhaps. The server
+// ended that connection before the statement ran (a statement caught mid-way is rolled back), so the
+// statement is sent again, on a fresh connection: a restart costs the requests in flight during it and
+// no more. Other errors are never retried (a write whose answer was lost might have been done).
 const unsafe = sqlClient.unsafe.bind(sqlClient);
-sqlClient.unsafe = ((query: string, parameters?: unknown[], options?: { prepare?: boolean }) =>
-  unsafe(query, parameters as never, { ...options, prepare: true })) as typeof sqlClient.unsafe;
+const ENDED_BY_THE_SERVER = new Set(["57P01", "57P02"]);
+const MAX_TRIES = 12; // more than the pool's connections
+function runAgainAfterRestart<T>(run: () => PromiseLike<T>): Promise<T> {
+  const attempt = async (tries: number): Promise<T> => {
+    try {
+      return await run();
+    } catch (error) {
+      if (tries < MAX_TRIES && ENDED_BY_THE_SERVER.has((error as { code?: string }).code ?? "")) return attempt(tries + 1);
+      throw error;
+    }
+  };
+  return attempt(1);
+}
+sqlClient.unsafe = ((query: string, parameters?: unknown[], options?: { prepare?: boolean }) => {
+  const statement = () => unsafe(query, parameters as never, { ...options, prepare: true });
+  // Drizzle either awaits the statement (rows as objects) or calls .values() on it (rows as arrays).
+  const asObjects = () => runAgainAfterRestart(statement);
+  return {
+    then: (onFulfilled?: (v: unknown) => unknown, onRejected?: (e: unknown) => unknown) => asObjects().then(onFulfilled, onRejected),
+    catch: (onRejected?: (e: unknown) => unknown) => asObjects().catch(onRejected),
+    values: () => runAgainAfterRestart(() => statement().values()),
+  };
+}) as unknown as typeof sqlClient.unsafe;
 
 export const db = drizzle(sqlClient, { schema });
 export type Database = typeof db;
