@@ -134,10 +134,19 @@ export async function startCardCheckout(
 export async function abandonCheckout({ db, stripe }: PaymentsDeps, purchaseId: string): Promise<void> {
   const [purchase] = await db.select().from(seatPurchases).where(eq(seatPurchases.id, purchaseId));
   if (!purchase || purchase.method !== "card" || purchase.status !== "pending" || !purchase.providerRef) return;
-  const session = await stripe.checkout.sessions.retrieve(purchase.providerRef);
-  if (session.status !== "open") return;
-  await stripe.checkout.sessions.expire(session.id);
-  // An expired session can never be paid, so the row can close now; the expiry event agrees later.
+  let session: Stripe.Checkout.Session | null;
+  try {
+    session = await stripe.checkout.sessions.retrieve(purchase.providerRef);
+  } catch (error) {
+    // A session the provider does not know (made with another key, or by a local payments fake that
+    // has since restarted) can never be paid either.
+    if ((error as { code?: string }).code !== "resource_missing") throw error;
+    session = null;
+  }
+  // Complete: paid, or being paid; the signed event decides, not this page.
+  if (session?.status === "complete") return;
+  if (session?.status === "open") await stripe.checkout.sessions.expire(session.id);
+  // An expired (or unknown) session can never be paid, so the row can close now; the expiry event agrees later.
   await db.update(seatPurchases).set({ status: "void" }).where(and(eq(seatPurchases.id, purchase.id), eq(seatPurchases.status, "pending")));
 }
 

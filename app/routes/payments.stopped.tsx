@@ -30,7 +30,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (purchase.status === "pending" && purchase.method === "card" && purchase.providerRef) {
     continueUrl = await openCheckoutUrl({ stripe: payments() }, purchase.providerRef).catch(() => null);
   }
-  return { purchase: { id: purchase.id, status: purchase.status, seats: purchase.seats, schoolYear: purchase.schoolYear }, continueUrl, backTo };
+  return { purchase: { id: purchase.id, status: purchase.status, method: purchase.method, seats: purchase.seats, schoolYear: purchase.schoolYear }, continueUrl, backTo };
 }
 
 export async function action({ request }: Route.ActionArgs) {
@@ -64,18 +64,28 @@ export default function PaymentStopped({ loaderData }: Route.ComponentProps) {
           You left the payment page without paying, so no money was taken and <strong>no seats were added</strong>.
         </p>
       </Notice>
-      {purchase.status === "pending" && continueUrl ? (
-        <div className="flex flex-wrap gap-3">
-          <a className="btn" href={continueUrl}>
-            Go back to the payment page
-          </a>
-          <Form method="post">
-            <input type="hidden" name="purchase" value={purchase.id} />
-            <button className="btn btn-quiet" type="submit" name="intent" value="drop">
-              Drop this order
-            </button>
-          </Form>
-        </div>
+      {purchase.status === "pending" && purchase.method === "card" ? (
+        <>
+          {continueUrl ? null : <p className="mb-4">Its payment page has closed and can no longer be used. Drop the order, then buy again from your seats page.</p>}
+          <div className="flex flex-wrap gap-3">
+            {continueUrl ? (
+              <a className="btn" href={continueUrl}>
+                Go back to the payment page
+              </a>
+            ) : null}
+            <Form method="post">
+              <input type="hidden" name="purchase" value={purchase.id} />
+              <button className={continueUrl ? "btn btn-quiet" : "btn"} type="submit" name="intent" value="drop">
+                Drop this order
+              </button>
+            </Form>
+            {continueUrl ? null : (
+              <Link className="btn btn-quiet" to={backTo}>
+                Back to your seats
+              </Link>
+            )}
+          </div>
+        </>
       ) : (
         <Link className="btn" to={backTo}>
           Back to your seats
