@@ -8,7 +8,7 @@
 //    The event is only a nudge: the current state of the session or invoice is read back from the
 //    API, the quantity from its line items, and the purchase row turns paid in one transaction. The
 //    provider's id is unique on the row, so a repeated or late event changes nothing.
-import { and, desc, eq, isNull, ne, or, sql } from "drizzle-orm";
+import { and, desc, eq, isNotNull, isNull, ne, or, sql } from "drizzle-orm";
 import type Stripe from "stripe";
 import type { Database } from "~/db/client.server";
 import { organisations, paymentCustomers, paymentEvents, seatPurchases, users } from "~/db/schema.server";
@@ -509,7 +509,9 @@ export async function purchasesOf({ db }: { db: Database }, organisationId: stri
     .where(
       and(
         eq(seatPurchases.organisationId, organisationId),
-        or(ne(seatPurchases.status, "void"), ne(seatPurchases.method, "card")),
+        // A closed card checkout, or an invoice that could not be made (never numbered nor sent: the
+        // buyer was told nothing was ordered), is no purchase to show; a sent invoice voided later is.
+        or(ne(seatPurchases.status, "void"), and(eq(seatPurchases.method, "invoice"), isNotNull(seatPurchases.invoiceNumber))),
       ),
     )
     .orderBy(desc(seatPurchases.createdAt));
