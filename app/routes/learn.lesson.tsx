@@ -47,6 +47,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const compiled = await compiledLesson(lesson.slug);
   registerLessonOnServer(compiled);
   const isStudent = user.memberships.some((m) => m.role === "student");
+  // Who reads the student's written work: a child learning at home has a parent for a teacher.
+  const reader = user.memberships.some((m) => m.role === "student" && m.organisationKind === "household") ? ("parent" as const) : ("teacher" as const);
   // Adults see the lesson with numbers of their own, and nothing they type is saved.
   const state = await loadLessonState({ db }, user.id, lesson.slug);
   const lessons = listLessons();
@@ -57,6 +59,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     codeUrl: lessonCodeUrl(compiled),
     state,
     canAnswer: isStudent,
+    reader,
     previous: index > 0 ? { slug: lessons[index - 1].slug, title: lessons[index - 1].title } : null,
     next: index < lessons.length - 1 ? { slug: lessons[index + 1].slug, title: lessons[index + 1].title } : null,
   };
@@ -195,7 +198,7 @@ async function photoAction(request: Request, studentId: string, slug: string) {
 }
 
 export default function LessonPage({ loaderData }: Route.ComponentProps) {
-  const { lesson, hash, codeUrl, state, canAnswer, previous, next } = loaderData;
+  const { lesson, hash, codeUrl, state, canAnswer, reader, previous, next } = loaderData;
   const Lesson = lessonComponent(hash);
   const exercises = Object.values(state.exercises);
   const done = exercises.filter((e) => e.status !== "open").length;
@@ -244,7 +247,7 @@ export default function LessonPage({ loaderData }: Route.ComponentProps) {
         </section>
       )}
       <div className="prose-reading lesson-body">
-        <LessonContext.Provider value={{ slug: lesson.slug, canAnswer, state }}>
+        <LessonContext.Provider value={{ slug: lesson.slug, canAnswer, reader, state }}>
           {Lesson ? <Lesson components={lessonComponents} /> : <p>The lesson is loading…</p>}
         </LessonContext.Provider>
       </div>

@@ -98,6 +98,7 @@ export function Exercise({ id }: { id: string }) {
 }
 
 function AnswerFields({ exercise, formId, disabled }: { exercise: ExerciseState; formId: string; disabled: boolean }) {
+  const { reader } = useLesson();
   const last = exercise.lastAnswer;
   if (exercise.kind === "choice") {
     let lastChoice = "";
@@ -121,7 +122,7 @@ function AnswerFields({ exercise, formId, disabled }: { exercise: ExerciseState;
           ))}
         </fieldset>
         <label htmlFor={`${formId}-reason`} className="mt-3 mb-1 block font-bold">
-          Why? (your teacher reads this)
+          Why? (your {reader} reads this)
         </label>
         <textarea id={`${formId}-reason`} name="reason" rows={2} maxLength={1000} className="field" defaultValue={lastReason} disabled={disabled} />
       </>

@@ -6,6 +6,8 @@ export interface LessonContextValue {
   slug: string;
   /** false for adults looking at a lesson: they see it, but nothing is saved */
   canAnswer: boolean;
+  /** who reads and reviews the student's written work: their teacher, or the parent at home */
+  reader: "teacher" | "parent";
   state: LessonState;
 }
 

@@ -3,7 +3,7 @@ import { useFetcher } from "react-router";
 import { useLesson } from "./lesson-context";
 
 export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
-  const { state, canAnswer } = useLesson();
+  const { state, canAnswer, reader } = useLesson();
   const saved = state.writtenAnswers[id];
   const fetcher = useFetcher<{ answerId?: string; errors?: Record<string, string>; saved?: "draft" | "handed-in" }>();
   const mine = fetcher.data?.answerId === id ? fetcher.data : undefined;
@@ -54,11 +54,11 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
         )}
       </fetcher.Form>
       <p aria-live="polite" className="mt-2 font-bold text-ok">
-        {mine?.saved === "draft" ? "Draft saved." : handedIn ? "Handed in. Your teacher can read it now." : ""}
+        {mine?.saved === "draft" ? "Draft saved." : handedIn ? `Handed in. Your ${reader} can read it now.` : ""}
       </p>
       {saved?.reviewComment && (
         <div className="mt-3 rounded bg-spruce-wash p-3" data-testid="review-comment">
-          <p className="font-bold">Your teacher's comment</p>
+          <p className="font-bold">Your {reader}'s comment</p>
           <p className="whitespace-pre-wrap wrap-anywhere">{saved.reviewComment}</p>
         </div>
       )}
