@@ -35,24 +35,26 @@ const sqlClient = postgres(serverEnv().DATABASE_URL, {
 const unsafe = sqlClient.unsafe.bind(sqlClient);
 const ENDED_BY_THE_SERVER = new Set(["57P01", "57P02"]);
 const MAX_TRIES = 12; // more than the pool's connections
-function runAgainAfterRestart<T>(run: () => PromiseLike<T>): Promise<T> {
-  const attempt = async (tries: number): Promise<T> => {
-    try {
-      return await run();
-    } catch (error) {
-      if (tries < MAX_TRIES && ENDED_BY_THE_SERVER.has((error as { code?: string }).code ?? "")) return attempt(tries + 1);
-      throw error;
-    }
-  };
-  return attempt(1);
+
+async function runAgainAfterRestart<T>(run: () => PromiseLike<T>, tries = 1): Promise<T> {
+  try {
+    return await run();
+  } catch (error) {
+    if (tries < MAX_TRIES && ENDED_BY_THE_SERVER.has((error as { code?: string }).code ?? "")) return runAgainAfterRestart(run, tries + 1);
+    throw error;
+  }
 }
-sqlClient.unsafe = ((query: string, parameters?: unknown[], options?: { prepare?: boolean }) => {
+
+sqlClient.unsafe = ((query: string, parameters?: unknown[], options?: Record<string, unknown>) => {
+  // postgres.js's own calls (begin, savepoints) and drizzle's plain query() pass no `prepare`: left as they are.
+  if (!options || !("prepare" in options)) return unsafe(query, parameters as never, options);
   const statement = () => unsafe(query, parameters as never, { ...options, prepare: true });
-  // Drizzle either awaits the statement (rows as objects) or calls .values() on it (rows as arrays).
+  // Drizzle's prepared queries either await the statement (rows as objects) or call .values() on it
+  // (rows as arrays), nothing else; each try is a new statement made the same way.
   const asObjects = () => runAgainAfterRestart(statement);
   return {
-    then: (onFulfilled?: (v: unknown) => unknown, onRejected?: (e: unknown) => unknown) => asObjects().then(onFulfilled, onRejected),
-    catch: (onRejected?: (e: unknown) => unknown) => asObjects().catch(onRejected),
+    then: (onFulfilled?: (rows: unknown) => unknown, onRejected?: (error: unknown) => unknown) => asObjects().then(onFulfilled, onRejected),
+    catch: (onRejected?: (error: unknown) => unknown) => asObjects().catch(onRejected),
     values: () => runAgainAfterRestart(() => statement().values()),
   };
 }) as unknown as typeof sqlClient.unsafe;
