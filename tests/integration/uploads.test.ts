@@ -60,7 +60,7 @@ beforeAll(async () => {
 function multipart(url: string, cookie: string, fields: Record<string, string>, files: { field: string; name: string; type: string; bytes: Uint8Array }[]): Request {
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) form.append(k, v);
-  for (const f of files) form.append(f.field, new File([f.bytes], f.name, { type: f.type }));
+  for (const f of files) form.append(f.field, new File([f.bytes as Uint8Array<ArrayBuffer>], f.name, { type: f.type }));
   return new Request(`${appUrl}${url}`, { method: "POST", headers: { cookie, origin: appUrl, "sec-fetch-site": "same-origin" }, body: form });
 }
 
