@@ -88,6 +88,13 @@ function runVitest(name: string, env: Record<string, string>, files: string[]): 
 let exitCode = 1;
 const totals = { passed: 0, failed: 0 };
 try {
+  // The whole run starts with the type check (`npm run typecheck`): a type error fails it like a test.
+  if (requested.length === 0) {
+    console.log("Type check: react-router typegen && tsc");
+    const bin = (pkg: string, file: string) => path.join(projectDir, "node_modules", pkg, file);
+    execFileSync(process.execPath, [bin("@react-router/dev", "bin.js"), "typegen"], { stdio: ["ignore", "ignore", "inherit"] });
+    execFileSync(process.execPath, [bin("typescript", "bin/tsc")], { stdio: "inherit" });
+  }
   if (wantsBrowser) ensureChromium();
 
   const pg = startThrowAwayPostgres(await freePort());
