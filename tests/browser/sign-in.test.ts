@@ -106,10 +106,14 @@ describe("around sign-in", () => {
     await page.goto("/sign-in");
     const door = page.getByRole("region", { name: "Adults" });
     for (let i = 1; i <= 6; i++) {
+      // Each try waits for its own answer: the alert of the try before is still on the page meanwhile.
+      const answered = page.waitForResponse((r) => r.request().method() === "POST" && new URL(r.url()).pathname.startsWith("/sign-in"));
       await signInAsAdult(page, person.email, `not it ${i}`);
+      await answered;
       await door.getByRole("alert").waitFor();
       await page.waitForFunction(() => !document.querySelector("button[disabled]"));
     }
+    await door.getByRole("alert").filter({ hasText: "Too many wrong tries" }).waitFor({ timeout: 5_000 });
     const alert = await door.getByRole("alert").innerText();
     expect(alert).toContain("Too many wrong tries for this account. Try again in 2 seconds.");
     // The clock time, in the browser's own time zone once the page is live.
