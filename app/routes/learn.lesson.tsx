@@ -5,7 +5,7 @@ import { data, Link } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/learn.lesson";
 import { db } from "~/db/client.server";
-import { assertSameOrigin, requireRole, requireUser } from "~/lib/auth.server";
+import { assertSameOrigin, homePathFor, requireRole, requireUser } from "~/lib/auth.server";
 import { lessonComponents } from "~/components/lesson";
 import { LessonContext } from "~/components/lesson/lesson-context";
 import { parseAnalysisRequest } from "~/lib/analysis-request";
@@ -60,6 +60,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     state,
     canAnswer: isStudent,
     reader,
+    // An adult looking at the lesson goes back to their own page: /learn is for students only.
+    back: isStudent ? { to: "/learn", label: "Your course" } : { to: homePathFor(user), label: "Your page" },
     previous: index > 0 ? { slug: lessons[index - 1].slug, title: lessons[index - 1].title } : null,
     next: index < lessons.length - 1 ? { slug: lessons[index + 1].slug, title: lessons[index + 1].title } : null,
   };
@@ -198,7 +200,7 @@ async function photoAction(request: Request, studentId: string, slug: string) {
 }
 
 export default function LessonPage({ loaderData }: Route.ComponentProps) {
-  const { lesson, hash, codeUrl, state, canAnswer, reader, previous, next } = loaderData;
+  const { lesson, hash, codeUrl, state, canAnswer, reader, back, previous, next } = loaderData;
   const Lesson = lessonComponent(hash);
   const exercises = Object.values(state.exercises);
   const done = exercises.filter((e) => e.status !== "open").length;
@@ -207,7 +209,7 @@ export default function LessonPage({ loaderData }: Route.ComponentProps) {
       {/* The lesson's compiled code, from our own origin; it runs before hydration (see lesson-code.server.ts). */}
       <script src={codeUrl} />
       <nav aria-label="Course" className="mb-6 font-ui text-[length:var(--text-step--1)]">
-        <Link to="/learn">← Your course</Link>
+        <Link to={back.to}>← {back.label}</Link>
       </nav>
       <header className="mb-8">
         <p className="font-ui font-bold uppercase tracking-wider text-ember text-[length:var(--text-step--1)]">
