@@ -47,7 +47,8 @@ export type SlipCode =
   | "unit-factor-10"
   | "unit-factor-100"
   | "unit-factor-1000"
-  | "mass-not-weight";
+  | "mass-not-weight"
+  | "unit-not-converted";
 
 /** Student-facing hints for each slip, in Bendwise's own words. */
 export const SLIP_HINTS: Readonly<Record<SlipCode, string>> = {
@@ -64,6 +65,8 @@ export const SLIP_HINTS: Readonly<Record<SlipCode, string>> = {
   "unit-factor-1000": "The value is off by a factor of 1000 — a unit slip? Remember 1 m = 1000 mm, 1 kN = 1000 N and 1 kg = 1000 g.",
   "mass-not-weight":
     "That is a mass. A spring scale measures force: weight in N = mass in kg × 9.81 N/kg.",
+  "unit-not-converted":
+    "The value is right, but this question asks for it in another unit: convert it, then write the number with the unit asked for.",
 };
 
 /** Acceptable distance from the expected value: relative (0.01 = 1 %), absolute (in the expected unit), or both. */
@@ -120,6 +123,11 @@ export interface ExpectedAnswer {
   sigFigs?: SigFigRule;
   context?: SlipContext;
   knownWrongAnswers?: readonly KnownWrongAnswer[];
+  /**
+   * the question asks for the answer in exactly this unit (a conversion exercise): the right value
+   * written in another unit of the same kind is "incorrect" with the unit-not-converted slip
+   */
+  unitRequired?: boolean;
 }
 
 /** What was read from the typed text. */
@@ -681,6 +689,11 @@ function checkAnswerUnsafe(typed: string, expected: ExpectedAnswer): CheckResult
       parsed,
       message: `The number is right, but it needs its unit after it: this answer is ${describeKind(expectedUnit)}.`,
     };
+  }
+
+  if (expected.unitRequired && answer.unit !== null && answer.unit !== expectedUnit) {
+    const hint = `${SLIP_HINTS["unit-not-converted"]} Here: ${showUnit(expectedUnit)}.`;
+    return { outcome: "incorrect", parsed, slip: { code: "unit-not-converted", hint }, message: `Not in the unit asked for. ${hint}` };
   }
 
   const rule = expected.sigFigs;

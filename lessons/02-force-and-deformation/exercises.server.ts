@@ -106,7 +106,7 @@ export const lesson: LessonExercises = {
         return {
           prompt: `A strip's stiffness is ${formatForStudent(k)} N/cm. Write it in N/m.`,
           hint: "There are 100 cm in 1 m, so each N/cm is 100 N/m.",
-          expected: { value: k * 100, unit: "N/m", tolerance: { relative: 0.01 } },
+          expected: { value: k * 100, unit: "N/m", tolerance: { relative: 0.01 }, unitRequired: true },
           solution: `${formatForStudent(k)} N/cm × 100 cm/m = ${formatForStudent(k * 100)} N/m.`,
         };
       },

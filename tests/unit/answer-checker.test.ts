@@ -393,3 +393,23 @@ describe("a malformed exercise is not the student's fault", () => {
     expect(validateExpectedAnswer({ value: 2.5, unit: "N/cm", tolerance: { absolute: 0.1 }, sigFigs: { count: 2 } })).toEqual([]);
   });
 });
+
+describe("conversion exercises (unitRequired)", () => {
+  // 1 N/cm = 100 N/m (SI prefixes, NIST SP 811 §4.3: centi = 10⁻²).
+  const expected = { value: 520, unit: "N/m", unitRequired: true } as const;
+  it("accepts the value in the unit asked for", () => {
+    expect(checkAnswer("520 N/m", expected).outcome).toBe("correct");
+  });
+  it("does not accept the unconverted value copied from the question, and says why", () => {
+    const result = checkAnswer("5.2 N/cm", expected);
+    expect(result.outcome).toBe("incorrect");
+    expect(result.slip?.code).toBe("unit-not-converted");
+    expect(result.message).toMatch(/N\/m/);
+  });
+  it("still says a unit is missing when there is none", () => {
+    expect(checkAnswer("520", expected).outcome).toBe("unit-missing");
+  });
+  it("without the flag, any unit of the same kind is fine", () => {
+    expect(checkAnswer("5.2 N/cm", { value: 520, unit: "N/m" }).outcome).toBe("correct");
+  });
+});

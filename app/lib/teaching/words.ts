@@ -9,6 +9,7 @@ const SLIP_WORDS: Record<string, string> = {
   "unit-factor-100": "Off by a factor of 100 (a unit slip)",
   "unit-factor-1000": "Off by a factor of 1000 (a unit slip)",
   "mass-not-weight": "Gave a mass instead of a weight in newtons",
+  "unit-not-converted": "Gave the right value without converting it to the unit asked for",
   // Slips named by single exercises of the lessons (lessons/*/exercises.server.ts).
   "millimetres-as-hundredths": "Read each millimetre mark as 0.01 cm",
   "counted-down-from-number-above": "Counted the marks down from the number above",
