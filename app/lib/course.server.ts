@@ -437,6 +437,11 @@ export async function saveReadings({ db }: Db, studentId: string, slug: string, 
   await touchVisit({ db }, studentId, slug, `readings-${set.readingsId}`);
 }
 
+/**
+ * Saves a written answer as a draft or hands it in. A handed-in answer is what the teacher reads, so a
+ * draft never overwrites it ("already-handed-in"); handing in again replaces it and stamps the new time,
+ * so a late second hand-in counts as late.
+ */
 export async function saveWrittenAnswer(
   { db }: Db,
   studentId: string,
@@ -444,21 +449,19 @@ export async function saveWrittenAnswer(
   answerId: string,
   text: { claim: string; evidence: string; reasoning: string },
   handIn: boolean,
-) {
+): Promise<"saved" | "already-handed-in"> {
   const values = { studentId, lessonSlug: slug, answerId, ...text, handedInAt: handIn ? new Date() : null };
-  await db
+  const written = await db
     .insert(writtenAnswers)
     .values(values)
     .onConflictDoUpdate({
       target: [writtenAnswers.studentId, writtenAnswers.lessonSlug, writtenAnswers.answerId],
-      set: {
-        ...text,
-        // Handing in stamps the time; saving a draft after handing in keeps the stamp.
-        handedInAt: handIn ? sql`coalesce(${writtenAnswers.handedInAt}, now())` : sql`${writtenAnswers.handedInAt}`,
-        updatedAt: sql`now()`,
-      },
-    });
+      set: { ...text, handedInAt: handIn ? sql`now()` : sql`${writtenAnswers.handedInAt}`, updatedAt: sql`now()` },
+      ...(handIn ? {} : { setWhere: sql`${writtenAnswers.handedInAt} is null` }),
+    })
+    .returning({ answerId: writtenAnswers.answerId });
   await touchVisit({ db }, studentId, slug, `answer-${answerId}`);
+  return written.length > 0 ? "saved" : "already-handed-in";
 }
 
 // ───────────────────────────── The course path ─────────────────────────────

@@ -125,7 +125,13 @@ export async function action({ request, params }: Route.ActionArgs) {
           return data({ answerId: input.answerId, errors }, { status: 400 });
         }
       }
-      await saveWrittenAnswer({ db }, user.id, slug, input.answerId, text, handIn);
+      const outcome = await saveWrittenAnswer({ db }, user.id, slug, input.answerId, text, handIn);
+      if (outcome === "already-handed-in") {
+        return data(
+          { answerId: input.answerId, errors: { claim: "This answer is handed in. To change it, use “Hand in again”; your teacher then reads the new version." } },
+          { status: 409 },
+        );
+      }
       return { answerId: input.answerId, saved: handIn ? ("handed-in" as const) : ("draft" as const) };
     }
   }

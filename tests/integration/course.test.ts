@@ -6,7 +6,7 @@ import path from "node:path";
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { exerciseAttempts, users } from "~/db/schema.server";
+import { exerciseAttempts, users, writtenAnswers } from "~/db/schema.server";
 import {
   continueTarget,
   courseProgress,
@@ -162,6 +162,21 @@ describe("progress", () => {
     lesson2 = progress.find((p) => p.slug === LESSON)!;
     expect(lesson2).toMatchObject({ complete: true, requiredDone: lesson2.requiredTotal });
     expect((await loadLessonState({ db }, student, LESSON)).complete).toBe(true);
+  });
+
+  it("never lets a draft overwrite a handed-in answer, and stamps a second hand-in with its own time", async () => {
+    const student = await studentId("jonah.b");
+    const text = { claim: "Stiffer at small loads.", evidence: "2.5 then 2.2 N/cm", reasoning: "The ratio fell." };
+    expect(await saveWrittenAnswer({ db }, student, LESSON, "cer-stiffness", text, true)).toBe("saved");
+    const [first] = await db.select().from(writtenAnswers).where(eq(writtenAnswers.studentId, student));
+    expect(await saveWrittenAnswer({ db }, student, LESSON, "cer-stiffness", { ...text, claim: "a draft" }, false)).toBe("already-handed-in");
+    let [row] = await db.select().from(writtenAnswers).where(eq(writtenAnswers.studentId, student));
+    expect(row.claim).toBe(text.claim);
+    await new Promise((r) => setTimeout(r, 20));
+    expect(await saveWrittenAnswer({ db }, student, LESSON, "cer-stiffness", { ...text, claim: "Second thoughts." }, true)).toBe("saved");
+    [row] = await db.select().from(writtenAnswers).where(eq(writtenAnswers.studentId, student));
+    expect(row.claim).toBe("Second thoughts.");
+    expect(row.handedInAt!.getTime()).toBeGreaterThan(first.handedInAt!.getTime());
   });
 
   it("continues where the student stopped", async () => {

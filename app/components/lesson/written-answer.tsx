@@ -44,9 +44,11 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
         {field("reasoning", "Reasoning", "Why the evidence supports the claim: the science that links them.")}
         {canAnswer && (
           <div className="flex flex-wrap gap-3">
-            <button type="submit" name="handIn" value="0" className="btn btn-quiet" disabled={fetcher.state !== "idle"}>
-              Save a draft
-            </button>
+            {!handedIn && (
+              <button type="submit" name="handIn" value="0" className="btn btn-quiet" disabled={fetcher.state !== "idle"}>
+                Save a draft
+              </button>
+            )}
             <button type="submit" name="handIn" value="1" className="btn" disabled={fetcher.state !== "idle"}>
               {handedIn ? "Hand in again" : "Hand in"}
             </button>
