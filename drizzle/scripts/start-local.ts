@@ -23,18 +23,26 @@ let app: ChildProcess | undefined;
 let mailWorker: ChildProcess | undefined;
 let stopping = false;
 
-async function stopEverything(exitCode: number) {
+/**
+ * Stops a child process. After Ctrl-C the child got the same SIGINT from the terminal and is already
+ * closing, so it is not signalled again (a second signal makes the framework server close twice);
+ * otherwise it gets SIGTERM. One that hangs on open connections is ended after a few seconds.
+ */
+async function stopChild(child: ChildProcess | undefined, alreadySignalled: boolean) {
+  if (!child || child.exitCode !== null || child.signalCode !== null) return;
+  const exited = new Promise((r) => child.once("exit", r));
+  const within = (ms: number) => Promise.race([exited.then(() => true), new Promise((r) => setTimeout(() => r(false), ms))]);
+  if (!alreadySignalled) child.kill("SIGTERM");
+  if (await within(8000)) return;
+  child.kill("SIGKILL");
+  await exited;
+}
+
+async function stopEverything(exitCode: number, fromTerminal = false) {
   if (stopping) return;
   stopping = true;
   console.log("\nStopping Bendwise…");
-  if (mailWorker && mailWorker.exitCode === null) {
-    mailWorker.kill("SIGTERM");
-    await new Promise((r) => mailWorker!.once("exit", r));
-  }
-  if (app && app.exitCode === null) {
-    app.kill("SIGTERM");
-    await new Promise((r) => app!.once("exit", r));
-  }
+  await Promise.all([stopChild(mailWorker, fromTerminal), stopChild(app, fromTerminal)]);
   for (const stop of stoppers.reverse()) {
     try {
       await stop();
@@ -45,7 +53,7 @@ async function stopEverything(exitCode: number) {
   console.log("Everything Bendwise started is stopped.");
   process.exit(exitCode);
 }
-process.on("SIGINT", () => void stopEverything(0));
+process.on("SIGINT", () => void stopEverything(0, true));
 process.on("SIGTERM", () => void stopEverything(0));
 
 try {
