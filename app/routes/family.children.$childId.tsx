@@ -7,6 +7,7 @@ import { z } from "zod";
 import type { Route } from "./+types/family.children.$childId";
 import { Field, Notice } from "~/components/auth-forms";
 import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
+import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { db } from "~/db/client.server";
 import { assertSameOrigin, requireRole, resetChildPassword } from "~/lib/auth.server";
@@ -188,14 +189,7 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
                     {a.scores ? ` · reviewed: ${rubricTotal(a.scores)} of 6` : ""}
                   </span>
                 </h4>
-                <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
-                  <dt className="font-bold">Claim</dt>
-                  <dd className="whitespace-pre-wrap wrap-anywhere">{a.claim || "—"}</dd>
-                  <dt className="font-bold">Evidence</dt>
-                  <dd className="whitespace-pre-wrap wrap-anywhere">{a.evidence || "—"}</dd>
-                  <dt className="font-bold">Reasoning</dt>
-                  <dd className="whitespace-pre-wrap wrap-anywhere">{a.reasoning || "—"}</dd>
-                </dl>
+                <ClaimEvidenceReasoning answer={a} />
                 {a.comment ? (
                   <p className="mt-2">
                     <span className="font-bold">Feedback:</span> {a.comment}

@@ -4,6 +4,7 @@
 // family's class.
 import { Link, data } from "react-router";
 import type { Route } from "./+types/family.lessons.$slug";
+import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { db } from "~/db/client.server";
 import { assertSameOrigin, requireRole } from "~/lib/auth.server";
@@ -13,10 +14,11 @@ import { analyseItems, classAttempts } from "~/lib/teaching/analysis.server";
 import { classAssignments } from "~/lib/teaching/assignments.server";
 import { reviewAction } from "~/lib/teaching/review-action.server";
 import { classRoster } from "~/lib/teaching/roster.server";
-import { isRubricScores, rubricTotal } from "~/lib/teaching/shared";
+import { rubricTotal } from "~/lib/teaching/shared";
 import { lessonAnswersForClass } from "~/lib/teaching/student-work.server";
 import { formatDue, formatMoment } from "~/lib/teaching/time";
 import { readableAnswer } from "~/lib/teaching/words";
+import { writtenAnswerView } from "~/lib/teaching/review.server";
 
 async function parentLesson(request: Request, slug: string | undefined) {
   const { user } = await requireRole(request, ["parent"]);
@@ -49,14 +51,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     answers: answers.map((a) => ({
       studentId: a.studentId,
       displayName: a.displayName,
-      answerId: a.answerId,
-      claim: a.claim,
-      evidence: a.evidence,
-      reasoning: a.reasoning,
-      handedIn: a.handedInAt !== null,
-      handedInText: a.handedInAt ? formatMoment(a.handedInAt, tz) : null,
-      scores: isRubricScores(a.reviewScores) ? a.reviewScores : null,
-      comment: a.reviewComment,
+      ...writtenAnswerView(a, tz),
     })),
   };
 }
@@ -156,14 +151,7 @@ export default function FamilyLesson({ loaderData }: Route.ComponentProps) {
                 {a.scores ? ` · reviewed: ${rubricTotal(a.scores)} of 6` : ""}
               </span>
             </h3>
-            <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
-              <dt className="font-bold">Claim</dt>
-              <dd className="whitespace-pre-wrap wrap-anywhere">{a.claim || "—"}</dd>
-              <dt className="font-bold">Evidence</dt>
-              <dd className="whitespace-pre-wrap wrap-anywhere">{a.evidence || "—"}</dd>
-              <dt className="font-bold">Reasoning</dt>
-              <dd className="whitespace-pre-wrap wrap-anywhere">{a.reasoning || "—"}</dd>
-            </dl>
+            <ClaimEvidenceReasoning answer={a} />
             <ReviewForm action={`/family/lessons/${lesson.slug}`} answer={{ studentId: a.studentId, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
           </article>
         ))}

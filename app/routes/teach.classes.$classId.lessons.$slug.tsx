@@ -11,11 +11,13 @@ import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { requireLesson } from "~/lib/teaching/lesson-guard.server";
 import { reviewAction } from "~/lib/teaching/review-action.server";
 import { classRoster } from "~/lib/teaching/roster.server";
-import { LATE_POLICY_WORDS, isRubricScores, rubricTotal } from "~/lib/teaching/shared";
+import { LATE_POLICY_WORDS, rubricTotal } from "~/lib/teaching/shared";
 import { lessonAnswersForClass } from "~/lib/teaching/student-work.server";
-import { formatDue, formatMoment } from "~/lib/teaching/time";
+import { formatDue } from "~/lib/teaching/time";
+import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { ClassHeader } from "~/components/teaching/ui";
+import { writtenAnswerView } from "~/lib/teaching/review.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { klass } = await requireTeacherClass(request, params.classId);
@@ -38,14 +40,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     answers: answers.map((a) => ({
       studentId: a.studentId,
       displayName: a.displayName,
-      answerId: a.answerId,
-      claim: a.claim,
-      evidence: a.evidence,
-      reasoning: a.reasoning,
-      handedIn: a.handedInAt !== null,
-      handedInText: a.handedInAt ? formatMoment(a.handedInAt, tz) : null,
-      scores: isRubricScores(a.reviewScores) ? a.reviewScores : null,
-      comment: a.reviewComment,
+      ...writtenAnswerView(a, tz),
       needsReview: a.handedInAt !== null && (!a.reviewedAt || a.reviewedAt < a.handedInAt),
     })),
   };
@@ -119,14 +114,7 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
                 {a.scores ? ` · reviewed: ${rubricTotal(a.scores)} of 6` : a.needsReview ? " · waiting for review" : ""}
               </span>
             </h3>
-            <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
-              <dt className="font-bold">Claim</dt>
-              <dd className="whitespace-pre-wrap wrap-anywhere">{a.claim || "—"}</dd>
-              <dt className="font-bold">Evidence</dt>
-              <dd className="whitespace-pre-wrap wrap-anywhere">{a.evidence || "—"}</dd>
-              <dt className="font-bold">Reasoning</dt>
-              <dd className="whitespace-pre-wrap wrap-anywhere">{a.reasoning || "—"}</dd>
-            </dl>
+            <ClaimEvidenceReasoning answer={a} />
             <ReviewForm action={`/teach/classes/${klass.id}/lessons/${lesson.slug}`} answer={{ studentId: a.studentId, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
           </article>
         ))}

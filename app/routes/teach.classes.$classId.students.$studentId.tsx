@@ -13,14 +13,16 @@ import { classHeading } from "~/lib/teaching/classes.server";
 import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
 import { notFound, requireTeacherClass } from "~/lib/teaching/guard.server";
 import { reviewAction } from "~/lib/teaching/review-action.server";
-import { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS, isRubricScores, rubricTotal } from "~/lib/teaching/shared";
+import { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS, rubricTotal } from "~/lib/teaching/shared";
 import { findClassStudent, moveStudent, moveTargets, removeFromClass, setStudentPassword } from "~/lib/teaching/roster.server";
 import { loadStudentWork } from "~/lib/teaching/student-work.server";
 import { formatMoment } from "~/lib/teaching/time";
 import { outcomeWords, readableAnswer, wrongAnswerGroup } from "~/lib/teaching/words";
 import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
+import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
+import { writtenAnswerView } from "~/lib/teaching/review.server";
 
 const STUDENT_NOT_FOUND = "There is no such student in this class.";
 const whole = (max: number, what: string) =>
@@ -94,16 +96,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         }),
       answers: work.answers
         .filter((a) => a.lessonSlug === slug)
-        .map((a) => ({
-          answerId: a.answerId,
-          claim: a.claim,
-          evidence: a.evidence,
-          reasoning: a.reasoning,
-          handedIn: a.handedInAt !== null,
-          handedInText: a.handedInAt ? formatMoment(a.handedInAt, tz) : null,
-          scores: isRubricScores(a.reviewScores) ? a.reviewScores : null,
-          comment: a.reviewComment,
-        })),
+        .map((a) => writtenAnswerView(a, tz)),
       photos: work.photos.filter((p) => p.lessonSlug === slug).map((p) => ({ id: p.id, photoId: p.photoId, at: formatMoment(p.createdAt, tz) })),
     };
   });
@@ -299,14 +292,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
                 Written answer {a.handedIn ? `· handed in ${a.handedInText}` : "· draft"}
                 {a.scores ? ` · reviewed: ${rubricTotal(a.scores)} of 6` : ""}
               </h3>
-              <dl className="grid gap-1 sm:grid-cols-[8rem_1fr]">
-                <dt className="font-bold">Claim</dt>
-                <dd className="whitespace-pre-wrap wrap-anywhere">{a.claim || "—"}</dd>
-                <dt className="font-bold">Evidence</dt>
-                <dd className="whitespace-pre-wrap wrap-anywhere">{a.evidence || "—"}</dd>
-                <dt className="font-bold">Reasoning</dt>
-                <dd className="whitespace-pre-wrap wrap-anywhere">{a.reasoning || "—"}</dd>
-              </dl>
+              <ClaimEvidenceReasoning answer={a} />
               <ReviewForm action={`/teach/classes/${klass.id}/students/${student.id}`} answer={{ studentId: student.id, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
             </div>
           ))}

@@ -7,11 +7,12 @@ import { courseProgress } from "~/lib/course.server";
 import { lessonExercises } from "~/lib/lessons.server";
 import { analyseReadings, type AnalysisResult } from "~/lib/science";
 import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
-import { isRubricScores, type GradebookCell, type RubricScores } from "~/lib/teaching/shared";
+import type { GradebookCell, RubricScores } from "~/lib/teaching/shared";
 import { loadStudentWork } from "~/lib/teaching/student-work.server";
 import { formatMoment } from "~/lib/teaching/time";
 import { outcomeWords, readableAnswer, wrongAnswerGroup } from "~/lib/teaching/words";
 import type { TeacherClass } from "~/lib/teaching/classes.server";
+import { writtenAnswerView } from "~/lib/teaching/review.server";
 
 export interface ChildLesson {
   slug: string;
@@ -89,16 +90,7 @@ export async function childReport({ db }: { db: Database }, childId: string, kla
         .filter((e) => e.tries.length > 0),
       answers: work.answers
         .filter((a) => a.lessonSlug === p.slug)
-        .map((a) => ({
-          answerId: a.answerId,
-          claim: a.claim,
-          evidence: a.evidence,
-          reasoning: a.reasoning,
-          handedIn: a.handedInAt !== null,
-          handedInText: a.handedInAt ? formatMoment(a.handedInAt, tz) : null,
-          scores: isRubricScores(a.reviewScores) ? a.reviewScores : null,
-          comment: a.reviewComment,
-        })),
+        .map((a) => writtenAnswerView(a, tz)),
       readings: work.readings
         .filter((r) => r.lessonSlug === p.slug)
         .map((r) => {

@@ -6,7 +6,8 @@ import { writtenAnswers } from "~/db/schema.server";
 
 type Db = { db: Database };
 
-import type { RubricScores } from "./shared";
+import { isRubricScores as isRubricScoresHere, type RubricScores } from "./shared";
+import { formatMoment } from "./time";
 
 export { RUBRIC, isRubricScores, rubricTotal, type RubricScores } from "./shared";
 
@@ -31,4 +32,21 @@ export async function saveReview(
     )
     .returning({ answerId: writtenAnswers.answerId });
   return updated.length > 0 ? { ok: true } : { ok: false, message: "This answer has not been handed in yet, so it cannot be reviewed." };
+}
+
+/** A written answer as the teacher's and parent's pages show it, with times in the class's time zone. */
+export function writtenAnswerView(
+  a: Pick<typeof writtenAnswers.$inferSelect, "answerId" | "claim" | "evidence" | "reasoning" | "handedInAt" | "reviewScores" | "reviewComment">,
+  timeZone: string,
+) {
+  return {
+    answerId: a.answerId,
+    claim: a.claim,
+    evidence: a.evidence,
+    reasoning: a.reasoning,
+    handedIn: a.handedInAt !== null,
+    handedInText: a.handedInAt ? formatMoment(a.handedInAt, timeZone) : null,
+    scores: isRubricScoresHere(a.reviewScores) ? a.reviewScores : null,
+    comment: a.reviewComment,
+  };
 }
