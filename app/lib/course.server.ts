@@ -1,8 +1,9 @@
 // The course model: a student's exercise instances, attempts, predictions, own readings, written
 // answers, photos and progress. Functions take `{ db }` so tests can call them directly.
-import { and, eq, inArray, sql, type SQL } from "drizzle-orm";
+import { and, eq, inArray, sql, type Placeholder, type SQL } from "drizzle-orm";
 import type { AnyPgColumn } from "drizzle-orm/pg-core";
 import type { Database } from "~/db/client.server";
+import { preparedOnce } from "~/db/prepared.server";
 import {
   exerciseAttempts,
   lessonVisits,
@@ -255,24 +256,33 @@ function toSavedReadings(r: Pick<typeof readingSets.$inferSelect, "readingsId" |
 // table only: inside a select list drizzle writes column names without their table.
 const jsonRows = (select: SQL) => sql`coalesce((${select}), '[]'::json)`;
 
-const readingsJson = (studentId: string, slug: string) =>
+/** A value or the placeholder of a prepared statement. */
+type Param = string | Placeholder;
+const P = { studentId: sql.placeholder("studentId"), slug: sql.placeholder("slug"), exerciseId: sql.placeholder("exerciseId") };
+
+const readingsJson = (studentId: Param, slug: Param) =>
   jsonRows(sql`select json_agg(json_build_object('readingsId', ${readingSets.readingsId}, 'mode', ${readingSets.mode}, 'material', ${readingSets.material},
     'unloadedCm', ${readingSets.unloadedCm}, 'resolutionCm', ${readingSets.resolutionCm}, 'points', ${readingSets.points}) order by ${readingSets.readingsId})
     from ${readingSets} where ${readingSets.studentId} = ${studentId} and ${readingSets.lessonSlug} = ${slug}`);
 
 type AttemptRow = Pick<typeof exerciseAttempts.$inferSelect, "exerciseId" | "rawAnswer" | "outcome" | "correct" | "slipCode">;
 
-const attemptsJson = (studentId: string, slug: string, exerciseId?: string) =>
+const attemptsJson = (studentId: Param, slug: Param, exerciseId?: Param) =>
   jsonRows(sql`select json_agg(json_build_object('exerciseId', ${exerciseAttempts.exerciseId}, 'rawAnswer', ${exerciseAttempts.rawAnswer},
     'outcome', ${exerciseAttempts.outcome}, 'correct', ${exerciseAttempts.correct}, 'slipCode', ${exerciseAttempts.slipCode}) order by ${exerciseAttempts.createdAt})
     from ${exerciseAttempts} where ${exerciseAttempts.studentId} = ${studentId} and ${exerciseAttempts.lessonSlug} = ${slug}
     ${exerciseId === undefined ? sql`` : sql`and ${exerciseAttempts.exerciseId} = ${exerciseId}`}`);
 
+const exerciseContextStatement = preparedOnce((db) =>
+  db
+    .select({ readings: readingsJson(P.studentId, P.slug), past: attemptsJson(P.studentId, P.slug, P.exerciseId) })
+    .from(sql`(select 1) as one`)
+    .prepare("exercise_context"),
+);
+
 /** What the answer check needs besides the policy: the student's readings and their earlier tries at this exercise, in one statement. */
 async function exerciseContext({ db }: Db, studentId: string, slug: string, exerciseId: string): Promise<{ readings: SavedReadings[]; past: AttemptRow[] }> {
-  const [row] = await db
-    .select({ readings: readingsJson(studentId, slug), past: attemptsJson(studentId, slug, exerciseId) })
-    .from(sql`(select 1) as one`);
+  const [row] = await exerciseContextStatement(db).execute({ studentId, slug, exerciseId });
   return { readings: (row.readings as Parameters<typeof toSavedReadings>[0][]).map(toSavedReadings), past: row.past as AttemptRow[] };
 }
 
@@ -288,27 +298,29 @@ export interface LessonState {
   assignment: AssignmentNotice | null;
 }
 
+const lessonRowsStatement = preparedOnce((db) => {
+  const mine = (t: { studentId: AnyPgColumn; lessonSlug: AnyPgColumn }) => sql`${t.studentId} = ${P.studentId} and ${t.lessonSlug} = ${P.slug}`;
+  return db
+    .select({
+      attempts: attemptsJson(P.studentId, P.slug),
+      predictions: jsonRows(sql`select json_agg(json_build_object('predictionId', ${predictions.predictionId}, 'choice', ${predictions.choice}))
+        from ${predictions} where ${mine(predictions)}`),
+      readings: readingsJson(P.studentId, P.slug),
+      answers: jsonRows(sql`select json_agg(json_build_object('answerId', ${writtenAnswers.answerId}, 'claim', ${writtenAnswers.claim},
+        'evidence', ${writtenAnswers.evidence}, 'reasoning', ${writtenAnswers.reasoning}, 'handedIn', ${writtenAnswers.handedInAt} is not null,
+        'reviewComment', ${writtenAnswers.reviewComment}, 'reviewScores', ${writtenAnswers.reviewScores}))
+        from ${writtenAnswers} where ${mine(writtenAnswers)}`),
+      photos: jsonRows(sql`select json_agg(json_build_object('photoId', ${photos.photoId}, 'id', ${photos.id}, 'contentType', ${photos.contentType},
+        'bytes', ${photos.bytes}) order by ${photos.createdAt}) from ${photos} where ${mine(photos)}`),
+      lastPlace: sql<string | null>`(select ${lessonVisits.lastPlace} from ${lessonVisits} where ${mine(lessonVisits)})`,
+    })
+    .from(sql`(select 1) as one`)
+    .prepare("lesson_rows");
+});
+
 /** Everything a student's lesson page shows, in two statements whatever the lesson: the student's rows, and the policy. */
 export async function loadLessonState({ db }: Db, studentId: string, slug: string): Promise<LessonState> {
-  const mine = (t: { studentId: AnyPgColumn; lessonSlug: AnyPgColumn }) => sql`${t.studentId} = ${studentId} and ${t.lessonSlug} = ${slug}`;
-  const [[row], policy] = await Promise.all([
-    db
-      .select({
-        attempts: attemptsJson(studentId, slug),
-        predictions: jsonRows(sql`select json_agg(json_build_object('predictionId', ${predictions.predictionId}, 'choice', ${predictions.choice}))
-          from ${predictions} where ${mine(predictions)}`),
-        readings: readingsJson(studentId, slug),
-        answers: jsonRows(sql`select json_agg(json_build_object('answerId', ${writtenAnswers.answerId}, 'claim', ${writtenAnswers.claim},
-          'evidence', ${writtenAnswers.evidence}, 'reasoning', ${writtenAnswers.reasoning}, 'handedIn', ${writtenAnswers.handedInAt} is not null,
-          'reviewComment', ${writtenAnswers.reviewComment}, 'reviewScores', ${writtenAnswers.reviewScores}))
-          from ${writtenAnswers} where ${mine(writtenAnswers)}`),
-        photos: jsonRows(sql`select json_agg(json_build_object('photoId', ${photos.photoId}, 'id', ${photos.id}, 'contentType', ${photos.contentType},
-          'bytes', ${photos.bytes}) order by ${photos.createdAt}) from ${photos} where ${mine(photos)}`),
-        lastPlace: sql<string | null>`(select ${lessonVisits.lastPlace} from ${lessonVisits} where ${mine(lessonVisits)})`,
-      })
-      .from(sql`(select 1) as one`),
-    lessonPolicyFor({ db }, studentId, slug),
-  ]);
+  const [[row], policy] = await Promise.all([lessonRowsStatement(db).execute({ studentId, slug }), lessonPolicyFor({ db }, studentId, slug)]);
   const attemptRows = row.attempts as AttemptRow[];
   const predictionRows = row.predictions as { predictionId: string; choice: string }[];
   const readings = (row.readings as Parameters<typeof toSavedReadings>[0][]).map(toSavedReadings);

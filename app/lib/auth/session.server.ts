@@ -53,26 +53,30 @@ export function getUser(request: Request): Promise<SessionUser | null> {
   return pending;
 }
 
+// One statement: the user and their memberships (as JSON, by organisation name). Built once and
+// prepared: it runs on every signed-in request.
+const userWithMemberships = db
+  .select({
+    id: users.id,
+    displayName: users.displayName,
+    email: users.email,
+    sessionVersion: users.sessionVersion,
+    // Plain SQL names: inside a select list drizzle writes columns without their table.
+    memberships: sql<Membership[]>`coalesce((
+      select json_agg(json_build_object('organisationId', m.organisation_id, 'organisationKind', o.kind,
+        'organisationName', o.name, 'role', m.role) order by o.name)
+      from memberships m join organisations o on o.id = m.organisation_id
+      where m.user_id = users.id), '[]'::json)`,
+  })
+  .from(users)
+  .where(eq(users.id, sql.placeholder("userId")))
+  .prepare("user_with_memberships");
+
 /** Looks up the user of a session cookie (used right after sign-in, before the browser has the cookie). */
 export async function loadUser(request: Request, cookieHeader?: string): Promise<SessionUser | null> {
   const session = await readSession(request, cookieHeader);
   if (!session) return null;
-  // One statement: the user and their memberships (as JSON, by organisation name).
-  const [user] = await db
-    .select({
-      id: users.id,
-      displayName: users.displayName,
-      email: users.email,
-      sessionVersion: users.sessionVersion,
-      // Plain SQL names: inside a select list drizzle writes columns without their table.
-      memberships: sql<Membership[]>`coalesce((
-        select json_agg(json_build_object('organisationId', m.organisation_id, 'organisationKind', o.kind,
-          'organisationName', o.name, 'role', m.role) order by o.name)
-        from memberships m join organisations o on o.id = m.organisation_id
-        where m.user_id = users.id), '[]'::json)`,
-    })
-    .from(users)
-    .where(eq(users.id, session.userId));
+  const [user] = await userWithMemberships.execute({ userId: session.userId });
   if (!user || user.sessionVersion !== session.sessionVersion) return null;
   const rows = [...user.memberships];
   rows.sort((a, b) => ROLE_ORDER.indexOf(a.role) - ROLE_ORDER.indexOf(b.role));

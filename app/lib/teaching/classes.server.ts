@@ -2,8 +2,9 @@
 // type (renewable). Every look-up is scoped to the teacher in the WHERE clause, so another teacher's
 // class, or another school's, is simply not found.
 import { randomInt } from "node:crypto";
-import { and, asc, eq, inArray, isNotNull, isNull } from "drizzle-orm";
+import { and, asc, eq, inArray, isNotNull, isNull, sql } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
+import { preparedOnce } from "~/db/prepared.server";
 import { classes, organisations } from "~/db/schema.server";
 import { isSchoolYear } from "~/lib/school-year";
 import { isTimeZone } from "./time";
@@ -53,13 +54,25 @@ const classColumns = {
 };
 
 /** One class of this teacher in one of their schools, or null. */
-export async function findTeacherClass({ db }: Db, teacher: { id: string; schoolIds: string[] }, classId: string): Promise<TeacherClass | null> {
-  if (teacher.schoolIds.length === 0) return null;
-  const [row] = await db
+// Every teacher page asks for its class first: built once, prepared.
+const teacherClassStatement = preparedOnce((db) =>
+  db
     .select(classColumns)
     .from(classes)
     .innerJoin(organisations, eq(organisations.id, classes.organisationId))
-    .where(and(eq(classes.id, classId), eq(classes.teacherId, teacher.id), inArray(classes.organisationId, teacher.schoolIds)));
+    .where(
+      and(
+        eq(classes.id, sql.placeholder("classId")),
+        eq(classes.teacherId, sql.placeholder("teacherId")),
+        sql`${classes.organisationId} = any(${sql.placeholder("schoolIds")}::uuid[])`,
+      ),
+    )
+    .prepare("teacher_class"),
+);
+
+export async function findTeacherClass({ db }: Db, teacher: { id: string; schoolIds: string[] }, classId: string): Promise<TeacherClass | null> {
+  if (teacher.schoolIds.length === 0) return null;
+  const [row] = await teacherClassStatement(db).execute({ classId, teacherId: teacher.id, schoolIds: teacher.schoolIds });
   return row ?? null;
 }
 

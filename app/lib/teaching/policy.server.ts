@@ -2,9 +2,10 @@
 // extra days), how late work counts, and how many extra tries they have. The student's lesson page,
 // the answer check and /learn read it in one query, whatever the number of classes; nothing on the
 // student's page says that an accommodation exists, it simply applies.
-import { and, eq, inArray, isNull, sql } from "drizzle-orm";
+import { and, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { Database } from "~/db/client.server";
+import { preparedOnce } from "~/db/prepared.server";
 import { accommodations, assignments, classes, enrollments, type LatePolicy } from "~/db/schema.server";
 import { DAY_MS, formatDue } from "./time";
 
@@ -26,16 +27,11 @@ export interface LessonPolicy {
 
 type Queryable = Pick<Database, "select">;
 
-/**
- * The policy of every assigned lesson for a student (or only `slugs`), one query. When two of the
- * student's classes assign the same lesson, the more generous one holds (the later due date, the
- * more tries).
- */
-export async function lessonPolicies({ db }: { db: Queryable }, studentId: string, slugs?: string[]): Promise<Map<string, LessonPolicy>> {
-  if (slugs && slugs.length === 0) return new Map();
+/** The rows behind the policies: the student's assignments (in classes not archived) with their accommodations. */
+function policyRows(db: Queryable, where: (lessonSlug: typeof assignments.lessonSlug) => SQL | undefined, studentId: unknown) {
   const general = alias(accommodations, "general_accommodation");
   const specific = alias(accommodations, "specific_accommodation");
-  const rows = await db
+  return db
     .select({
       assignmentId: assignments.id,
       classId: classes.id,
@@ -62,12 +58,18 @@ export async function lessonPolicies({ db }: { db: Queryable }, studentId: strin
       specific,
       and(eq(specific.classId, classes.id), eq(specific.studentId, enrollments.studentId), eq(specific.assignmentId, assignments.id)),
     )
-    .where(
-      and(
-        eq(enrollments.studentId, studentId),
-        slugs ? inArray(assignments.lessonSlug, slugs) : sql`true`,
-      ),
-    );
+    .where(and(eq(enrollments.studentId, studentId as string), where(assignments.lessonSlug)));
+}
+
+type PolicyRow = Awaited<ReturnType<typeof policyRows>>[number];
+
+/** One lesson's rows, prepared: every lesson page and every answer check asks for them. */
+const oneLessonRows = preparedOnce((db) =>
+  policyRows(db, (lessonSlug) => eq(lessonSlug, sql.placeholder("slug") as unknown as string), sql.placeholder("studentId")).prepare("lesson_policy"),
+);
+
+/** When two of the student's classes assign the same lesson, the more generous one holds (the later due date, the more tries). */
+function policiesOf(rows: PolicyRow[]): Map<string, LessonPolicy> {
   const policies = new Map<string, LessonPolicy>();
   for (const row of rows) {
     const policy = toPolicy(row);
@@ -82,8 +84,14 @@ export async function lessonPolicies({ db }: { db: Queryable }, studentId: strin
   return policies;
 }
 
-export async function lessonPolicyFor({ db }: { db: Queryable }, studentId: string, slug: string): Promise<LessonPolicy | null> {
-  return (await lessonPolicies({ db }, studentId, [slug])).get(slug) ?? null;
+/** The policy of every assigned lesson for a student (or only `slugs`), one query. */
+export async function lessonPolicies({ db }: { db: Queryable }, studentId: string, slugs?: string[]): Promise<Map<string, LessonPolicy>> {
+  if (slugs && slugs.length === 0) return new Map();
+  return policiesOf(await policyRows(db, (lessonSlug) => (slugs ? inArray(lessonSlug, slugs) : undefined), studentId));
+}
+
+export async function lessonPolicyFor({ db }: { db: Database }, studentId: string, slug: string): Promise<LessonPolicy | null> {
+  return policiesOf(await oneLessonRows(db).execute({ studentId, slug })).get(slug) ?? null;
 }
 
 /** An accommodation for one assignment replaces the class-wide one for that lesson. */
