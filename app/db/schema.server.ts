@@ -1,6 +1,7 @@
 // The database schema. One file so a newcomer sees every table at once;
 // drizzle-kit reads it to generate the SQL migrations in drizzle/.
 import {
+  bigint,
   boolean,
   doublePrecision,
   index,
@@ -59,6 +60,11 @@ export const users = pgTable(
     passwordHash: text("password_hash"),
     /** Raised by "sign out everywhere" and by password changes; old sessions stop working. */
     sessionVersion: integer("session_version").notNull().default(1),
+    /**
+     * Students: raised (from the sequence gradebook_versions) by database triggers whenever their
+     * work or their name changes, so a cached gradebook knows it is out of date (gradebook-cache.server.ts).
+     */
+    workVersion: bigint("work_version", { mode: "number" }).notNull().default(0),
     createdAt: createdAt(),
   },
   (t) => [
@@ -102,6 +108,8 @@ export const classes = pgTable(
     /** An IANA time zone; due dates are entered and shown in it, so server and browser agree. */
     timeZone: text("time_zone").notNull().default("UTC"),
     archivedAt: timestamp("archived_at", { withTimezone: true }),
+    /** Raised by database triggers when the roster, assignments or accommodations change (see users.workVersion). */
+    gradebookVersion: bigint("gradebook_version", { mode: "number" }).notNull().default(0),
     createdAt: createdAt(),
   },
   (t) => [

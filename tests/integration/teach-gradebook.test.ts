@@ -5,11 +5,11 @@ import { eq } from "drizzle-orm";
 import Papa from "papaparse";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db, sqlStatements } from "~/db/client.server";
-import { accommodations, assignments, classes, readingSets, users, writtenAnswers } from "~/db/schema.server";
+import { accommodations, assignments, classes, enrollments, lessonVisits, readingSets, users, writtenAnswers } from "~/db/schema.server";
 import { loadLessonState } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { analyseItems, classAttempts } from "~/lib/teaching/analysis.server";
-import { loadGradebook } from "~/lib/teaching/gradebook.server";
+import { gradebookVersion, loadGradebook } from "~/lib/teaching/gradebook.server";
 import { filterRows } from "~/lib/teaching/shared";
 import * as gradebookPage from "~/routes/teach.classes.$classId.gradebook";
 import * as gradebookJson from "~/routes/api.teach.classes.$classId.gradebook";
@@ -115,9 +115,91 @@ describe("the number of SQL statements", () => {
     const small = await measure(5);
     const large = await measure(35);
     expect(large).toEqual(small);
+    // Nothing changed since the page and the JSON route read it: only the version is asked for.
     expect(small.model).toBe(1);
     expect(small.page).toBeLessThanOrEqual(10);
     console.log(`gradebook SQL statements — 5 students: ${JSON.stringify(small)}; 35 students: ${JSON.stringify(large)}`);
+  });
+});
+
+describe("a gradebook kept between reads", () => {
+  /** Reads the class's gradebook, saying whether it was computed afresh (more than the version's one statement). */
+  async function read(classId: string, now?: Date) {
+    const before = sqlStatements.count;
+    const book = await loadGradebook({ db }, classId, now);
+    return { book, computed: sqlStatements.count - before > 1 };
+  }
+
+  it("is computed again after every kind of change a gradebook shows, and only then", async () => {
+    const [klass] = await db
+      .insert(classes)
+      .values({ organisationId: ids.maplebrook.id, teacherId: ids.oduya.id, name: "Kept gradebook", schoolYear: "2026-27", signInCode: "KEPTBOOK" })
+      .returning();
+    const [first, second] = await enrollInventedStudents(ids.maplebrook.id, klass.id, 2);
+    const [assignment] = await db
+      .insert(assignments)
+      .values({ classId: klass.id, lessonSlug: LESSON, opensAt: new Date(Date.now() - DAY), dueAt: new Date(Date.now() + 5 * DAY) })
+      .returning();
+    expect((await read(klass.id)).computed).toBe(true);
+    const unchanged = await read(klass.id);
+    expect(unchanged.computed).toBe(false);
+    expect(unchanged.book.rows).toHaveLength(2);
+
+    const cell = (book: Awaited<ReturnType<typeof loadGradebook>>, studentId: string) => book.rows.find((r) => r.student.id === studentId)?.cells[assignment.id];
+    const changes: { change: string; make: () => Promise<unknown>; shows: (book: Awaited<ReturnType<typeof loadGradebook>>) => boolean }[] = [
+      { change: "an answer", make: () => recordTry(first.id, LESSON, required[0], { right: true }), shows: (b) => cell(b, first.id)?.requiredDone === 1 },
+      { change: "a lesson visit", make: () => db.insert(lessonVisits).values({ studentId: second.id, lessonSlug: LESSON, lastPlace: "intro" }), shows: (b) => cell(b, second.id)?.status === "working" },
+      {
+        change: "a handed-in written answer",
+        make: () => db.insert(writtenAnswers).values({ studentId: first.id, lessonSlug: LESSON, answerId: "cer-stiffness", claim: "c", evidence: "e", reasoning: "r", handedInAt: new Date() }),
+        shows: (b) => cell(b, first.id)?.toReview === 1,
+      },
+      {
+        change: "a review",
+        make: () => db.update(writtenAnswers).set({ reviewedAt: new Date(Date.now() + 1000) }).where(eq(writtenAnswers.studentId, first.id)),
+        shows: (b) => cell(b, first.id)?.toReview === 0,
+      },
+      { change: "a new name", make: () => db.update(users).set({ displayName: "Renamed Student" }).where(eq(users.id, second.id)), shows: (b) => b.rows.some((r) => r.student.displayName === "Renamed Student") },
+      {
+        change: "an accommodation",
+        make: () => db.insert(accommodations).values({ classId: klass.id, studentId: second.id, assignmentId: assignment.id, extraDays: 2 }),
+        shows: (b) => cell(b, second.id)?.accommodated === true,
+      },
+      { change: "a new due date", make: () => db.update(assignments).set({ dueAt: new Date(Date.now() + 9 * DAY) }).where(eq(assignments.id, assignment.id)), shows: (b) => b.lessons[0].dueAt === cell(b, first.id)?.dueAt && Date.parse(b.lessons[0].dueAt) > Date.now() + 8 * DAY },
+      { change: "a student leaving the class", make: () => db.delete(enrollments).where(eq(enrollments.studentId, second.id)), shows: (b) => b.rows.length === 1 },
+      { change: "a student joining", make: () => db.insert(enrollments).values({ classId: klass.id, studentId: second.id }), shows: (b) => b.rows.length === 2 },
+      { change: "an assignment removed", make: () => db.delete(assignments).where(eq(assignments.id, assignment.id)), shows: (b) => b.lessons.length === 0 },
+    ];
+    for (const { change, make, shows } of changes) {
+      const before = await gradebookVersion({ db }, klass.id);
+      await make();
+      expect(await gradebookVersion({ db }, klass.id), change).toBeGreaterThan(before);
+      const after = await read(klass.id);
+      expect(after.computed, change).toBe(true);
+      expect(shows(after.book), change).toBe(true);
+      expect((await read(klass.id)).computed, `${change}, read again`).toBe(false);
+    }
+  });
+
+  it("is computed again when a lesson opens or a due date passes, even with no change in the database", async () => {
+    const [klass] = await db
+      .insert(classes)
+      .values({ organisationId: ids.maplebrook.id, teacherId: ids.oduya.id, name: "Clock gradebook", schoolYear: "2026-27", signInCode: "CLOCKBK1" })
+      .returning();
+    await enrollInventedStudents(ids.maplebrook.id, klass.id, 1);
+    const opensAt = new Date(Date.now() + DAY);
+    const dueAt = new Date(Date.now() + 2 * DAY);
+    await db.insert(assignments).values({ classId: klass.id, lessonSlug: LESSON, opensAt, dueAt });
+    const now = new Date();
+    expect((await read(klass.id, now)).book.lessons[0].opened).toBe(false);
+    expect((await read(klass.id, new Date(now.getTime() + 60_000))).computed).toBe(false);
+    const opened = await read(klass.id, new Date(opensAt.getTime() + 1));
+    expect(opened.computed).toBe(true);
+    expect(opened.book.lessons[0].opened).toBe(true);
+    expect(opened.book.rows[0].notStarted).toBe(true);
+    const overdue = await read(klass.id, new Date(dueAt.getTime() + 1));
+    expect(overdue.computed).toBe(true);
+    expect(Object.values(overdue.book.rows[0].cells)[0].overdue).toBe(true);
   });
 });
 

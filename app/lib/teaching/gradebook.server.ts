@@ -3,7 +3,8 @@
 // number of students, lessons or classes: students, assignments, accommodations, attempt totals per
 // (student, lesson, exercise), written answers and lesson visits, each a JSON array of it; the rest
 // is done here in memory. The teacher's gradebook, its JSON route, its CSV export, the teaching home and the
-// school's overview all use it, so they always agree.
+// school's overview all use it, so they always agree. One class's gradebook is kept between reads
+// while nothing in it has changed (loadGradebook, at the end).
 //
 // The rules, in one place:
 // - a lesson is complete when each required exercise is right or out of tries and each required
@@ -15,13 +16,15 @@
 // - stuck: STUCK_AFTER_WRONG or more wrong answers to one exercise and no right one yet;
 // - late: past the student's due date without finishing, or finished after it;
 // - a student's average counts every lesson already open, a lesson not started as 0.
-import { sql } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
 import type { Database } from "~/db/client.server";
-import { accommodations, assignments, type LatePolicy } from "~/db/schema.server";
+import { preparedOnce } from "~/db/prepared.server";
+import { accommodations, assignments, classes, enrollments, users, type LatePolicy } from "~/db/schema.server";
 import { attemptsAllowed } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { effectiveAccommodation } from "./policy.server";
-import { DAY_MS, daysLate, formatDue } from "./time";
+import { DAY_MS, daysLate, formatClockTime, formatDue } from "./time";
 import type { ClassSummary, Gradebook, GradebookCell, GradebookLesson, GradebookRow } from "./shared";
 
 export type { ClassSummary, Gradebook, GradebookCell, GradebookLesson, GradebookRow } from "./shared";
@@ -228,8 +231,82 @@ export async function loadGradebooks({ db }: Db, classIds: string[], now: Date =
   return books;
 }
 
+// One class's gradebook is kept computed between reads: the page's fetcher asks again every 30 s
+// from every open tab, and most of the time nothing has changed. Each read first asks PostgreSQL
+// for the class's gradebook version (one small statement): the largest of the class's own number
+// and its students' numbers, which database triggers raise from one sequence whenever anything a
+// gradebook is made of changes (drizzle/0005_gradebook-versions.sql). The version is read BEFORE
+// computing, so a change made during the computation makes the next read compute again. Flags that
+// depend on the clock (a lesson opened, a due date passed) are kept only until the next such instant,
+// and nothing is kept longer than KEEP_AT_MOST_MS. Each server process keeps its own copies.
+const KEEP_AT_MOST_MS = 10 * 60_000;
+const keptBooks = new LRUCache<string, KeptBook>({ max: 500 });
+
+const versionStatement = preparedOnce((db) =>
+  db
+    .select({ version: sql<string | number>`greatest(${classes.gradebookVersion}, coalesce(max(${users.workVersion}), 0))` })
+    .from(classes)
+    .leftJoin(enrollments, eq(enrollments.classId, classes.id))
+    .leftJoin(users, eq(users.id, enrollments.studentId))
+    .where(eq(classes.id, sql.placeholder("classId")))
+    .groupBy(classes.id)
+    .prepare("gradebook_version"),
+);
+
+/** The class's gradebook version: it grows with every change to the class's roster, assignments, accommodations or students' work. */
+export async function gradebookVersion({ db }: Db, classId: string): Promise<number> {
+  const [row] = await versionStatement(db).execute({ classId });
+  return row ? Number(row.version) : 0;
+}
+
+/** The first instant after `now` at which a clock-dependent flag of the book changes (a lesson opens, a due date passes). */
+function nextClockChange(book: Gradebook, now: number): number {
+  let next = Infinity;
+  const consider = (iso: string) => {
+    const at = Date.parse(iso);
+    if (at > now && at < next) next = at;
+  };
+  for (const lesson of book.lessons) consider(lesson.opensAt);
+  for (const row of book.rows) for (const cell of Object.values(row.cells)) consider(cell.dueAt);
+  return next;
+}
+
+type KeptBook = { version: number; computedAt: number; validUntil: number; book: Gradebook; json: Map<string, Buffer> };
+
+/** The kept copy of one class's gradebook while its version is current, else one computed afresh (and kept). */
+async function keptGradebook({ db }: Db, classId: string, now: Date): Promise<KeptBook> {
+  const version = await gradebookVersion({ db }, classId);
+  const at = now.getTime();
+  const kept = keptBooks.get(classId);
+  if (kept && kept.version === version && kept.computedAt <= at && at < kept.validUntil) return kept;
+  const book = (await loadGradebooks({ db }, [classId], now)).get(classId)!;
+  const fresh = { version, computedAt: at, validUntil: Math.min(nextClockChange(book, at), at + KEEP_AT_MOST_MS), book, json: new Map() };
+  keptBooks.set(classId, fresh);
+  return fresh;
+}
+
+/** One class's gradebook, as of `now`. */
 export async function loadGradebook({ db }: Db, classId: string, now: Date = new Date()): Promise<Gradebook> {
-  return (await loadGradebooks({ db }, [classId], now)).get(classId)!;
+  const { book } = await keptGradebook({ db }, classId, now);
+  return { ...book, generatedAt: now.toISOString() };
+}
+
+/**
+ * The JSON route's body, `{"gradebook": gradebookView(...)}`, as bytes. The view of a kept book is
+ * serialized once per time zone and day (87 KB for 35 students and 8 lessons); only its last two
+ * fields, the time of this read, are written per request.
+ */
+export async function loadGradebookJson({ db }: Db, classId: string, timeZone: string, now: Date = new Date()): Promise<Buffer<ArrayBuffer>> {
+  const kept = await keptGradebook({ db }, classId, now);
+  const key = `${timeZone}|${now.toISOString().slice(0, 10)}`;
+  let head = kept.json.get(key);
+  if (!head) {
+    const { generatedAt: _g, updatedText: _u, ...view } = gradebookView(kept.book, timeZone, now);
+    head = Buffer.from(JSON.stringify({ gradebook: view }).slice(0, -2));
+    kept.json.set(key, head);
+  }
+  const tail = { generatedAt: now.toISOString(), updatedText: formatClockTime(now, timeZone) };
+  return Buffer.concat([head, Buffer.from(`,${JSON.stringify(tail).slice(1, -1)}}}`)]);
 }
 
 function summarise(rows: GradebookRow[], lessons: GradebookLesson[]): ClassSummary {
@@ -252,7 +329,7 @@ export function gradebookView(book: Gradebook, timeZone: string, now: Date = new
   return {
     ...book,
     lessons: book.lessons.map((l) => ({ ...l, dueText: formatDue(l.dueAt, timeZone, now), opensText: formatDue(l.opensAt, timeZone, now) })),
-    updatedText: new Intl.DateTimeFormat("en-GB", { timeZone, hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23" }).format(new Date(book.generatedAt)),
+    updatedText: formatClockTime(book.generatedAt, timeZone),
   };
 }
 export type GradebookView = ReturnType<typeof gradebookView>;

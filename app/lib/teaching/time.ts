@@ -102,6 +102,11 @@ export function formatMoment(date: Date | string, timeZone: string): string {
   }).format(new Date(date));
 }
 
+/** "14:05:09" in the zone: the time of day a page was brought up to date. */
+export function formatClockTime(date: Date | string, timeZone: string): string {
+  return formatter("en-GB", { timeZone, hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23" }).format(new Date(date));
+}
+
 export const DAY_MS = 24 * 60 * 60 * 1000;
 
 /** Whole days (a part of a day counts as one) from `due` to `at`; 0 when on time. */
