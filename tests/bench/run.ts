@@ -284,15 +284,8 @@ try {
   };
   console.log(`  response sizes: lesson page ${kb(responseSizes.lessonPage.bytes)} (${kb(responseSizes.lessonPage.gzip)} gzip), gradebook JSON ${kb(responseSizes.gradebook.bytes)} (${kb(responseSizes.gradebook.gzip)} gzip)`);
 
-  step(`Load: ${CONNECTIONS} connections, ${WARM_UP_SECONDS} s warm-up then ${SECONDS} s each, autocannon in this process`);
-  const students = school.students;
-  const floorBefore = await load("floor (GET /api/ping)", appUrl, () => ({ method: "GET", path: "/api/ping", headers: {} }));
-  const lessonPage = await load("lesson page", appUrl, (i) => ({
-    method: "GET",
-    path: `/learn/${PAGE_LESSON}`,
-    headers: { cookie: cookieOf.get(students[i % students.length].id)!, accept: "text/html" },
-  }));
-  const answer = await load("answer check", appUrl, (i) => {
+  /** The i-th answer of the load: each open (student, exercise) pair in turn, up to three rounds. */
+  const answerRequest = (i: number): Req => {
     const pair = loadPairs[i % loadPairs.length];
     const round = Math.floor(i / loadPairs.length);
     return {
@@ -306,7 +299,41 @@ try {
       },
       body: answerBody(pair.studentId, CURRENT_LESSON, pair.definition, round),
     };
-  });
+  };
+
+  // BENCH_HOLD=<file>: write what a person needs to load this server by hand (its address, the
+  // database, the secret, a few sessions), keep everything running and wait for Ctrl-C.
+  if (process.env.BENCH_HOLD) {
+    writeFileSync(
+      process.env.BENCH_HOLD,
+      JSON.stringify(
+        {
+          appUrl,
+          ...appEnv,
+          buildDir,
+          lessonPath: `/learn/${PAGE_LESSON}`,
+          gradebookPath: `/api/teach/classes/${school.gradebookClass.id}/gradebook`,
+          teacherCookie,
+          studentCookies: school.students.slice(0, 50).map((s) => cookieOf.get(s.id)),
+          answerRequests: Array.from({ length: 6_000 }, (_, i) => answerRequest(i)),
+        },
+        null,
+        2,
+      ),
+    );
+    console.log(`  holding: details in ${process.env.BENCH_HOLD}; Ctrl-C ends the server and the database`);
+    await new Promise(() => {});
+  }
+
+  step(`Load: ${CONNECTIONS} connections, ${WARM_UP_SECONDS} s warm-up then ${SECONDS} s each, autocannon in this process`);
+  const students = school.students;
+  const floorBefore = await load("floor (GET /api/ping)", appUrl, () => ({ method: "GET", path: "/api/ping", headers: {} }));
+  const lessonPage = await load("lesson page", appUrl, (i) => ({
+    method: "GET",
+    path: `/learn/${PAGE_LESSON}`,
+    headers: { cookie: cookieOf.get(students[i % students.length].id)!, accept: "text/html" },
+  }));
+  const answer = await load("answer check", appUrl, answerRequest);
   const gradebook = await load("gradebook JSON", appUrl, () => ({
     method: "GET",
     path: `/api/teach/classes/${school.gradebookClass.id}/gradebook`,
