@@ -17,6 +17,8 @@ export default function handleRequest(
 ) {
   const nonce = newNonce();
   applySecurityHeaders(responseHeaders, nonce);
+  // A 503 (the database cannot be reached just now: see client.server.ts) says when to try again.
+  if (responseStatusCode === 503) responseHeaders.set("Retry-After", "5");
 
   if (request.method.toUpperCase() === "HEAD") {
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });

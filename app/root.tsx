@@ -67,6 +67,9 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
         typeof error.data === "string" && error.data
           ? error.data
           : "Your account does not have access to this page. If you think it should, ask your school's Bendwise administrator.";
+    } else if (error.status === 503) {
+      heading = "Not available just now";
+      detail = typeof error.data === "string" && error.data ? error.data : "Please try again in a few seconds.";
     } else {
       heading = `${error.status} ${error.statusText || "Error"}`;
       if (typeof error.data === "string" && error.data) detail = error.data;

@@ -36,14 +36,73 @@ const unsafe = sqlClient.unsafe.bind(sqlClient);
 const ENDED_BY_THE_SERVER = new Set(["57P01", "57P02"]);
 const MAX_TRIES = 12; // more than the pool's connections
 
+// While PostgreSQL is down or starting (connections refused, ended, or "the database system is
+// starting up"), a request cannot be answered, and saying so is a 503 with Retry-After, not a 500:
+// the page or fetcher tells the person to try again in a moment, and nothing they saved is lost.
+const UNREACHABLE = new Set([
+  "ECONNREFUSED",
+  "ECONNRESET",
+  "ETIMEDOUT",
+  "EHOSTUNREACH",
+  "CONNECT_TIMEOUT",
+  "CONNECTION_CLOSED",
+  "CONNECTION_ENDED",
+  "CONNECTION_DESTROYED",
+  "57P01",
+  "57P02",
+  "57P03",
+  "53300",
+]);
+export const DATABASE_UNAVAILABLE_MESSAGE =
+  "Bendwise cannot reach its database just now. What you saved before is safe; please try again in a few seconds.";
+
+/** PostgreSQL cannot be reached. Drizzle hands it on as the `cause` of its own DrizzleQueryError. */
+export class DatabaseUnavailable extends Error {
+  constructor(cause: unknown) {
+    super("PostgreSQL cannot be reached", { cause });
+    this.name = "DatabaseUnavailable";
+  }
+}
+
+function unavailableInstead(error: unknown): never {
+  throw UNREACHABLE.has((error as { code?: string })?.code ?? "") ? new DatabaseUnavailable(error) : error;
+}
+
+/** The 503 every page, fetcher and JSON route answers while PostgreSQL cannot be reached. */
+export function databaseUnavailableResponse(): Response {
+  return new Response(DATABASE_UNAVAILABLE_MESSAGE, {
+    status: 503,
+    statusText: "Service Unavailable",
+    headers: { "Content-Type": "text/plain; charset=utf-8", "Retry-After": "5" },
+  });
+}
+
+/** True for a DatabaseUnavailable (however wrapped) and for the 503 made from one. */
+export function isDatabaseUnavailable(error: unknown): boolean {
+  for (let e = error, depth = 0; e && depth < 5; e = (e as { cause?: unknown }).cause, depth++) {
+    if (e instanceof DatabaseUnavailable) return true;
+    if (e instanceof Response) return e.status === 503 && e.headers.get("Retry-After") !== null;
+  }
+  return false;
+}
+
+/** In a catch: the outage becomes the 503 response (React Router sends a thrown Response as it is); anything else goes on. */
+export function rethrowAsUnavailable(error: unknown): never {
+  throw isDatabaseUnavailable(error) ? databaseUnavailableResponse() : error;
+}
+
 async function runAgainAfterRestart<T>(run: () => PromiseLike<T>, tries = 1): Promise<T> {
   try {
     return await run();
   } catch (error) {
     if (tries < MAX_TRIES && ENDED_BY_THE_SERVER.has((error as { code?: string }).code ?? "")) return runAgainAfterRestart(run, tries + 1);
-    throw error;
+    return unavailableInstead(error);
   }
 }
+
+// A transaction that cannot even begin is the same outage.
+const begin = sqlClient.begin.bind(sqlClient);
+sqlClient.begin = ((...args: Parameters<typeof begin>) => (begin as (...a: unknown[]) => Promise<unknown>)(...args).catch(unavailableInstead)) as typeof sqlClient.begin;
 
 sqlClient.unsafe = ((query: string, parameters?: unknown[], options?: Record<string, unknown>) => {
   // postgres.js's own calls (begin, savepoints) and drizzle's plain query() pass no `prepare`: left as they are.

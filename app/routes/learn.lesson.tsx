@@ -4,7 +4,7 @@ import "katex/dist/katex.min.css";
 import { data, Link } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/learn.lesson";
-import { db } from "~/db/client.server";
+import { DATABASE_UNAVAILABLE_MESSAGE, db, isDatabaseUnavailable } from "~/db/client.server";
 import { assertSameOrigin, homePathFor, requireRole, requireUser } from "~/lib/auth.server";
 import { lessonComponents } from "~/components/lesson";
 import { LessonContext } from "~/components/lesson/lesson-context";
@@ -76,8 +76,44 @@ export async function clientLoader({ serverLoader }: Route.ClientLoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   assertSameOrigin(request);
+  // Kept unread, so that during a database outage the message can be shown beside the part that was sent.
+  const sent = request.clone();
+  try {
+    return await lessonAction(request, params.slug);
+  } catch (error) {
+    if (!isDatabaseUnavailable(error)) throw error;
+    return outageReply(sent);
+  }
+}
+
+/**
+ * PostgreSQL could not be reached: the same 503 the rest of the app answers, as data for the part of
+ * the lesson that was sent (an exercise, a prediction, readings, a written answer, a photo), so the
+ * student reads why next to it and what they typed stays on the page to send again.
+ */
+async function outageReply(sent: Request) {
+  const form = await sent.formData().catch(() => null);
+  const id = (name: string) => {
+    const value = form?.get(name);
+    return typeof value === "string" && idSchema.safeParse(value).success ? value : undefined;
+  };
+  return data(
+    {
+      exerciseId: id("exerciseId"),
+      predictionId: id("predictionId"),
+      readingsId: id("readingsId"),
+      answerId: id("answerId"),
+      photoId: id("photoId"),
+      error: DATABASE_UNAVAILABLE_MESSAGE,
+      errors: [DATABASE_UNAVAILABLE_MESSAGE],
+    },
+    { status: 503, headers: { "Retry-After": "5" } },
+  );
+}
+
+async function lessonAction(request: Request, slugParam: string) {
   const { user } = await requireRole(request, ["student"]);
-  const lesson = findLesson(params.slug);
+  const lesson = findLesson(slugParam);
   if (!lesson) throw data("There is no lesson at this address.", { status: 404 });
   const slug = lesson.slug;
 

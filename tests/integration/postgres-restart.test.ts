@@ -3,8 +3,9 @@
 // has students send answers through the lesson page's fetcher address (POST /learn/<lesson>.data with
 // the same-origin headers) while `pg_ctl restart -m fast` runs. The app process is never restarted.
 // It must answer again once PostgreSQL is back, and every answer it acknowledged (2xx) must be in the
-// database, once. Answers sent while PostgreSQL is down may fail (5xx): a student sees an error and
-// sends again; what must never happen is an acknowledged answer that was not kept.
+// database, once. Answers sent while PostgreSQL is down are refused with a 503 (the lesson page shows
+// "try again in a few seconds" beside the exercise); what must never happen is an acknowledged answer
+// that was not kept. A second test stops PostgreSQL outright and checks the 503s of pages and routes.
 import { type ChildProcess, execFile, spawn } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import { mkdirSync, mkdtempSync, rmSync } from "node:fs";
@@ -34,6 +35,7 @@ let app: ChildProcess;
 let appUrl: string;
 let buildDir: string;
 let appLog = "";
+let appSecret = "";
 const plan: { cookie: string; studentId: string; slug: string; exerciseId: string; answer: string }[] = [];
 
 beforeAll(async () => {
@@ -59,6 +61,7 @@ beforeAll(async () => {
   if (buildError) throw buildError;
 
   const secret = randomBytes(32).toString("base64url");
+  appSecret = secret;
   const port = await freePort();
   appUrl = `http://127.0.0.1:${port}`;
   app = spawn(process.execPath, [path.resolve("node_modules/@react-router/serve/bin.js"), path.join(buildDir, "server", "index.js")], {
@@ -109,17 +112,69 @@ afterAll(async () => {
   if (buildDir) rmSync(buildDir, { recursive: true, force: true });
 });
 
-/** pg_ctl restart in a process of its own, so answers keep going out while it runs. */
-function restartPostgres(): Promise<{ startedAt: number; endedAt: number }> {
-  const pgCtl = path.join(findPostgresBin(), "pg_ctl");
-  const args = ["-D", pg.dataDir, "-m", "fast", "-w", "-t", "60", "restart"];
+/** pg_ctl in a process of its own (as the postgres user when root), so answers keep going out while it runs. */
+function pgCtl(command: "restart" | "stop" | "start"): Promise<{ startedAt: number; endedAt: number }> {
+  const pgCtlBin = path.join(findPostgresBin(), "pg_ctl");
+  // A start after a stop needs the loopback address, port and socket folder again (restart reuses them).
+  const port = new URL(pg.adminUrl).port;
+  const startOptions = command === "start" ? ["-o", `-h 127.0.0.1 -p ${port} -k ${pg.dataDir}`, "-l", path.join(pg.dataDir, "server.log")] : [];
+  const args = ["-D", pg.dataDir, ...startOptions, "-m", "fast", "-w", "-t", "60", command];
   const isRoot = process.getuid?.() === 0;
   const startedAt = Date.now();
   return new Promise((resolve, reject) => {
-    const child = spawn(isRoot ? "runuser" : pgCtl, isRoot ? ["-u", "postgres", "--", pgCtl, ...args] : args, { cwd: "/", stdio: "ignore" });
-    child.on("exit", (code) => (code === 0 ? resolve({ startedAt, endedAt: Date.now() }) : reject(new Error(`pg_ctl restart exited with ${code}`))));
+    const child = spawn(isRoot ? "runuser" : pgCtlBin, isRoot ? ["-u", "postgres", "--", pgCtlBin, ...args] : args, { cwd: "/", stdio: "ignore" });
+    child.on("exit", (code) => (code === 0 ? resolve({ startedAt, endedAt: Date.now() }) : reject(new Error(`pg_ctl ${command} exited with ${code}`))));
   });
 }
+const restartPostgres = () => pgCtl("restart");
+
+describe("PostgreSQL stopped", () => {
+  it("makes pages, fetchers and JSON routes answer 503 with Retry-After and a sentence saying so, until it is back", async () => {
+    const [teacher] = await sql<{ id: string }[]>`select id from users where email = 'r.oduya@maplebrook.example'`;
+    const [klass] = await sql<{ id: string }[]>`select id from classes where teacher_id = ${teacher.id} limit 1`;
+    const teacherCookie = await mintSessionCookie(appSecret, teacher.id, { hours: 12 });
+    const student = plan[0];
+    const lessonPage = () => fetch(`${appUrl}/learn/${student.slug}`, { headers: { cookie: student.cookie } });
+    const answer = () =>
+      fetch(`${appUrl}/learn/${student.slug}.data`, {
+        method: "POST",
+        headers: { cookie: student.cookie, "content-type": "application/x-www-form-urlencoded", origin: appUrl, "sec-fetch-site": "same-origin" },
+        body: new URLSearchParams({ intent: "answer", exerciseId: student.exerciseId, answer: "12.5" }),
+      });
+    const gradebook = () => fetch(`${appUrl}/api/teach/classes/${klass.id}/gradebook`, { headers: { cookie: teacherCookie } });
+    expect((await lessonPage()).status).toBe(200);
+
+    await pgCtl("stop");
+    try {
+      const page = await lessonPage();
+      expect(page.status).toBe(503);
+      expect(page.headers.get("retry-after")).toBe("5");
+      expect(await page.text()).toContain("cannot reach its database just now");
+      const sent = await answer();
+      expect(sent.status).toBe(503);
+      // The lesson page's fetcher gets the sentence for the exercise that was sent, so it shows beside it.
+      const body = await sent.text();
+      expect(body).toContain("cannot reach its database just now");
+      expect(body).toContain(student.exerciseId);
+      expect((await gradebook()).status).toBe(503);
+      expect((await fetch(`${appUrl}/healthz`)).status).toBe(503);
+      const analysis = await fetch(`${appUrl}/api/analysis`, {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({ mode: "bend", unloadedCm: 30, resolutionCm: 0.1, points: [{ forceN: 1, readingCm: 29.6 }, { forceN: 2, readingCm: 29.2 }] }),
+      });
+      expect(analysis.status).toBe(503);
+      // Nothing of the database is needed for these.
+      expect((await fetch(`${appUrl}/api/ping`)).status).toBe(200);
+      expect((await fetch(`${appUrl}/`)).status).toBe(200);
+    } finally {
+      await pgCtl("start");
+    }
+    expect((await lessonPage()).status).toBe(200);
+    expect((await gradebook()).status).toBe(200);
+    expect(app.exitCode, "the app process kept running").toBeNull();
+  }, 120_000);
+});
 
 describe("PostgreSQL restarted while the app serves answers", () => {
   it("recovers without a restart of its own, and keeps every answer it acknowledged", async () => {
@@ -169,6 +224,7 @@ describe("PostgreSQL restarted while the app serves answers", () => {
     expect(after.every((s) => s.status === 200), `answers after the restart: ${after.map((s) => s.status).join(",")}\n${appLog.slice(-2000)}`).toBe(true);
     expect(app.exitCode, "the app process kept running").toBeNull();
     expect(app.pid).toBe(appPid);
+    expect(sent.filter((s) => s.status !== 200 && s.status !== 503), "answers refused otherwise than with a 503").toEqual([]);
 
     const kept = await sql<{ raw_answer: string; n: number }[]>`
       select raw_answer, count(*)::int as n from exercise_attempts where raw_answer like '9%.5' group by raw_answer`;

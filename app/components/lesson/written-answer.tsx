@@ -5,7 +5,7 @@ import { useLesson } from "./lesson-context";
 export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
   const { state, canAnswer, reader } = useLesson();
   const saved = state.writtenAnswers[id];
-  const fetcher = useFetcher<{ answerId?: string; errors?: Record<string, string>; saved?: "draft" | "handed-in" }>();
+  const fetcher = useFetcher<{ answerId?: string; errors?: Record<string, string>; error?: string; saved?: "draft" | "handed-in" }>();
   const mine = fetcher.data?.answerId === id ? fetcher.data : undefined;
   const handedIn = saved?.handedIn || mine?.saved === "handed-in";
   const field = (name: "claim" | "evidence" | "reasoning", label: string, help: string) => (
@@ -55,6 +55,11 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
           </div>
         )}
       </fetcher.Form>
+      {mine?.error && (
+        <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert">
+          {mine.error}
+        </p>
+      )}
       <p aria-live="polite" className="mt-2 font-bold text-ok">
         {mine?.saved === "draft" ? "Draft saved." : handedIn ? `Handed in. Your ${reader} can read it now.` : ""}
       </p>

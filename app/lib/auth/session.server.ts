@@ -3,7 +3,7 @@
 // shown by the root error page; a signed-out visitor is sent to sign in and brought back.
 import { eq, sql } from "drizzle-orm";
 import { redirect } from "react-router";
-import { db } from "~/db/client.server";
+import { db, rethrowAsUnavailable } from "~/db/client.server";
 import { users, type Role } from "~/db/schema.server";
 import { readSession } from "./auth-config.server";
 
@@ -76,7 +76,9 @@ const userWithMemberships = db
 export async function loadUser(request: Request, cookieHeader?: string): Promise<SessionUser | null> {
   const session = await readSession(request, cookieHeader);
   if (!session) return null;
-  const [user] = await userWithMemberships.execute({ userId: session.userId });
+  // The first statement of nearly every request: if PostgreSQL cannot be reached, the request ends
+  // here as a 503 with Retry-After (see client.server.ts), whatever page or route asked.
+  const [user] = await userWithMemberships.execute({ userId: session.userId }).catch(rethrowAsUnavailable);
   if (!user || user.sessionVersion !== session.sessionVersion) return null;
   const rows = [...user.memberships];
   rows.sort((a, b) => ROLE_ORDER.indexOf(a.role) - ROLE_ORDER.indexOf(b.role));
