@@ -2,13 +2,14 @@
 // filters "not started", "late" and "stuck". While the page is open it refreshes itself about every
 // 30 seconds from the JSON route through a fetcher (no reload), and pauses while the tab is hidden.
 // `?refresh=<seconds>` (2 to 30) shortens the interval; the browser tests use it to stay fast.
-import { useEffect, useRef } from "react";
+import { useEffect, useRef, useState } from "react";
 import { Link, useFetcher, useSearchParams, type ShouldRevalidateFunctionArgs } from "react-router";
 import type { Route } from "./+types/teach.classes.$classId.gradebook";
 import { db } from "~/db/client.server";
 import { classHeading } from "~/lib/teaching/classes.server";
 import { gradebookView, loadGradebook, type GradebookView } from "~/lib/teaching/gradebook.server";
 import { GRADEBOOK_FILTERS, filterRows, type GradebookFilter } from "~/lib/teaching/shared";
+import { formatClockTime } from "~/lib/teaching/time";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { ClassHeader, Percent } from "~/components/teaching/ui";
 import { GradebookTable } from "~/components/teaching/gradebook-table";
@@ -20,7 +21,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const book = await loadGradebook({ db }, klass.id);
   const asked = Number(new URL(request.url).searchParams.get("refresh"));
   const refreshSeconds = Number.isFinite(asked) && asked >= 2 && asked <= DEFAULT_REFRESH_SECONDS ? asked : DEFAULT_REFRESH_SECONDS;
-  return { klass: classHeading(klass), gradebook: gradebookView(book, klass.timeZone), refreshSeconds };
+  return { klass: classHeading(klass), timeZone: klass.timeZone, gradebook: gradebookView(book, klass.timeZone), refreshSeconds };
 }
 
 // Changing the filter only changes the query string; the rows are already here.
@@ -60,13 +61,19 @@ function useLiveGradebook(classId: string, seconds: number, initial: GradebookVi
   }, [classId, seconds]);
   const fresh = fetcher.data?.gradebook;
   // The newer of the page's data and the fetcher's (the page's is newer right after a navigation).
+  // The JSON route sends a gradebook unchanged since it was computed with that time, so the time
+  // the page last checked is kept here, from each answer the fetcher gets.
   const book = fresh && fresh.generatedAt > initial.generatedAt ? fresh : initial;
-  return { book, refreshing: fetcher.state === "loading", refreshNow: () => void fetcher.load(`/api/teach/classes/${classId}/gradebook`) };
+  const [checkedAt, setCheckedAt] = useState<Date | null>(null);
+  useEffect(() => {
+    if (fetcher.data) setCheckedAt(new Date());
+  }, [fetcher.data]);
+  return { book, checkedAt, refreshing: fetcher.state === "loading", refreshNow: () => void fetcher.load(`/api/teach/classes/${classId}/gradebook`) };
 }
 
 export default function GradebookPage({ loaderData }: Route.ComponentProps) {
   const { klass, refreshSeconds } = loaderData;
-  const { book, refreshing, refreshNow } = useLiveGradebook(klass.id, refreshSeconds, loaderData.gradebook);
+  const { book, checkedAt, refreshing, refreshNow } = useLiveGradebook(klass.id, refreshSeconds, loaderData.gradebook);
   const [params] = useSearchParams();
   const filter = (GRADEBOOK_FILTERS.find((f) => f.value === params.get("show"))?.value ?? "everyone") as GradebookFilter;
   const rows = filterRows(book.rows, filter);
@@ -116,7 +123,7 @@ export default function GradebookPage({ loaderData }: Route.ComponentProps) {
         ))}
       </nav>
       <p className="mb-4 text-[length:var(--text-step--1)] text-ink-soft" data-testid="gradebook-updated">
-        Updated {book.updatedText} · refreshes every {refreshSeconds} s while this page is open{" "}
+        Updated {checkedAt ? formatClockTime(checkedAt, loaderData.timeZone) : loaderData.gradebook.updatedText} · refreshes every {refreshSeconds} s while this page is open{" "}
         <button type="button" className="ml-2 underline text-spruce" onClick={refreshNow} disabled={refreshing}>
           {refreshing ? "Refreshing…" : "Refresh now"}
         </button>

@@ -1,6 +1,7 @@
 // The gradebook: cells with completion, score, lateness and "stuck"; the filters; a bounded number of
 // SQL statements whatever the class size; its JSON route (same door as the page); CSV exports; item
 // analysis; review of written answers; and the school administrator's overview, scoped to their school.
+import { brotliDecompressSync, gunzipSync } from "node:zlib";
 import { eq } from "drizzle-orm";
 import Papa from "papaparse";
 import { beforeAll, describe, expect, it } from "vitest";
@@ -218,6 +219,25 @@ describe("the JSON route", () => {
     expect((await runRoute(gradebookJson.loader as never, get(url, { cookie: cookies.student }), { classId: ids.mapleB.id })).status).toBe(403);
     expect((await runRoute(gradebookJson.loader as never, get(url, { cookie: cookies.schoolAdmin }), { classId: ids.mapleB.id })).status).toBe(403);
     expect((await runRoute(gradebookJson.loader as never, get(url), { classId: ids.mapleB.id })).status).toBe(302);
+  });
+
+  it("sends the body compressed as the browser asks (brotli, gzip or none), the same gradebook each way", async () => {
+    const url = `/api/teach/classes/${ids.mapleB.id}/gradebook`;
+    const read = async (acceptEncoding: string | null) => {
+      const response = (await gradebookJson.loader({ request: get(url, { cookie: cookies.teacher, headers: acceptEncoding ? { "accept-encoding": acceptEncoding } : {} }), params: { classId: ids.mapleB.id }, context: {} } as never)) as Response;
+      const bytes = Buffer.from(await response.arrayBuffer());
+      const encoding = response.headers.get("content-encoding");
+      const text = encoding === "br" ? brotliDecompressSync(bytes).toString() : encoding === "gzip" ? gunzipSync(bytes).toString() : bytes.toString();
+      return { encoding, vary: response.headers.get("vary"), book: JSON.parse(text).gradebook as { rows: unknown[]; classId: string } };
+    };
+    const br = await read("gzip, deflate, br");
+    const gzip = await read("gzip");
+    const plain = await read(null);
+    expect([br.encoding, gzip.encoding, plain.encoding]).toEqual(["br", "gzip", null]);
+    expect(br.vary).toBe("Accept-Encoding");
+    expect(br.book).toEqual(plain.book);
+    expect(gzip.book).toEqual(plain.book);
+    expect(plain.book.classId).toBe(ids.mapleB.id);
   });
 
   it("lets the page shorten the refresh for tests (2 to 30 s), and keeps 30 s otherwise", async () => {
