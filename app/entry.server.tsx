@@ -1,9 +1,10 @@
 // React Router's server entry, as the framework ships it, plus Bendwise's security headers
 // and a nonce for the inline scripts that hydration needs.
 import { Writable } from "node:stream";
-import type { EntryContext } from "react-router";
+import type { EntryContext, HandleDataRequestFunction } from "react-router";
 import { ServerRouter } from "react-router";
 import { renderToPipeableStream } from "react-dom/server";
+import { bestEncoding, encodeBody, encodingHeaders } from "~/lib/http-encoding.server";
 import { NonceContext } from "~/lib/nonce";
 import { applySecurityHeaders, newNonce } from "~/lib/security-headers.server";
 
@@ -24,9 +25,9 @@ export default function handleRequest(
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
   }
 
-  // The whole page is rendered, then sent in one piece with its length. No Bendwise page streams a
-  // part later (no Suspense, no deferred data), so streaming would only cut the page into many small
-  // writes, and the compression the server puts in front of it (brotli or gzip) pays per write.
+  // The whole page is rendered, compressed and sent in one piece with its length. No Bendwise page
+  // streams a part later (no Suspense, no deferred data), so streaming would only cut the page into
+  // many small writes, and the compression the server puts in front of it (brotli or gzip) pays per write.
   return new Promise((resolve, reject) => {
     let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
     const { pipe, abort } = renderToPipeableStream(
@@ -45,11 +46,20 @@ export default function handleRequest(
             final(callback) {
               clearTimeout(timeoutId);
               timeoutId = undefined;
-              const html = Buffer.concat(chunks);
-              responseHeaders.set("Content-Type", "text/html; charset=utf-8");
-              responseHeaders.set("Content-Length", String(html.length));
-              resolve(new Response(html, { headers: responseHeaders, status: responseStatusCode }));
-              callback();
+              // Compressed here, whole, in one call (see http-encoding.server.ts).
+              const encoding = bestEncoding(request.headers.get("accept-encoding"));
+              encodeBody(Buffer.concat(chunks), encoding, "per-request").then(
+                (body) => {
+                  responseHeaders.set("Content-Type", "text/html; charset=utf-8");
+                  encodingHeaders(responseHeaders, encoding, body.length);
+                  resolve(new Response(body, { headers: responseHeaders, status: responseStatusCode }));
+                  callback();
+                },
+                (error: Error) => {
+                  reject(error);
+                  callback(error);
+                },
+              );
             },
           });
           pipe(body);
@@ -65,6 +75,21 @@ export default function handleRequest(
     );
   });
 }
+
+/**
+ * React Router's data requests (the `.data` answers to fetchers, revalidations and actions) are
+ * compressed the same way as pages: whole, in one call. They never stream a part later either.
+ * Small answers (an answer check's feedback) go as they are, as the server's compression would send them.
+ */
+export const handleDataRequest: HandleDataRequestFunction = async (response, { request }) => {
+  if (!response.body || response.headers.has("Content-Encoding")) return response;
+  const bytes = Buffer.from(await response.arrayBuffer());
+  const encoding = bytes.length < 1024 ? "identity" : bestEncoding(request.headers.get("accept-encoding"));
+  const body = await encodeBody(bytes, encoding, "per-request");
+  const headers = new Headers(response.headers);
+  encodingHeaders(headers, encoding, body.length);
+  return new Response(body, { status: response.status, statusText: response.statusText, headers });
+};
 
 // The mail worker runs from this same server build (drizzle/scripts/mail-worker.ts imports the build
 // and finds these on its entry module), so it uses exactly the app's compiled code and lessons.
