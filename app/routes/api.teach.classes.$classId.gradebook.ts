@@ -1,34 +1,30 @@
 // GET /api/teach/classes/:classId/gradebook: the gradebook as JSON, for the page's fetcher to refresh
 // it without a reload. The same door as the page: a teacher, and a class of theirs (else 404).
-// Every open gradebook tab asks every 30 s, and most answers are the same as the last one: the body
-// is the kept gradebook's, already serialized and compressed (loadGradebookJson), so it is sent with
-// its Content-Encoding and the server's compression leaves it alone.
-import Negotiator from "negotiator";
+//
+// Every open gradebook tab asks every 30 s, and most of the time nothing has changed. Both answers
+// come from the kept gradebook (loadGradebookForRoute):
+// - the page's fetcher sends `?since=<revision>` (the revision it shows) and hears `{ unchanged }`
+//   while that still holds, or gets the whole gradebook, which React Router carries in its own format;
+// - a plain JSON client gets `{ gradebook }` as bytes already serialized and compressed (brotli or
+//   gzip, as it asks), sent with their Content-Encoding.
+import { data } from "react-router";
 import type { Route } from "./+types/api.teach.classes.$classId.gradebook";
 import { db } from "~/db/client.server";
-import { loadGradebookJson, type BodyEncoding } from "~/lib/teaching/gradebook.server";
+import { bestEncoding, encodingHeaders } from "~/lib/http-encoding.server";
+import { loadGradebookForRoute } from "~/lib/teaching/gradebook.server";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
-
-const ENCODINGS: BodyEncoding[] = ["br", "gzip", "identity"];
-
-/** The browser's best encoding of ours; ours in our order where it likes several equally ("gzip, deflate, br" → br). */
-function bestEncoding(acceptEncoding: string | null): string | undefined {
-  const negotiator = new Negotiator({ headers: { "accept-encoding": acceptEncoding ?? undefined } });
-  // negotiator 1.x takes the tie-break order as a second argument; @types/negotiator (0.6) does not know it yet.
-  return (negotiator.encoding as (available: string[], options: { preferred: string[] }) => string | undefined).call(negotiator, ENCODINGS, { preferred: ENCODINGS });
-}
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { klass } = await requireTeacherClass(request, params.classId);
-  const asked = bestEncoding(request.headers.get("accept-encoding"));
-  const encoding: BodyEncoding = ENCODINGS.includes(asked as BodyEncoding) ? (asked as BodyEncoding) : "identity";
-  const body = await loadGradebookJson({ db }, klass.id, klass.timeZone, encoding);
-  return new Response(body, {
-    headers: {
-      "Content-Type": "application/json; charset=utf-8",
-      "Cache-Control": "private, no-store",
-      Vary: "Accept-Encoding",
-      ...(encoding === "identity" ? {} : { "Content-Encoding": encoding }),
-    },
-  });
+  const headers = new Headers({ "Cache-Control": "private, no-store" });
+  const gradebook = await loadGradebookForRoute({ db }, klass.id, klass.timeZone);
+  const since = new URL(request.url).searchParams.get("since");
+  if (since !== null) {
+    return data(since === gradebook.revision ? { unchanged: true as const, revision: gradebook.revision } : { gradebook: gradebook.view }, { headers });
+  }
+  const encoding = bestEncoding(request.headers.get("accept-encoding"));
+  const body = await gradebook.bytes(encoding);
+  headers.set("Content-Type", "application/json; charset=utf-8");
+  encodingHeaders(headers, encoding, body.length);
+  return new Response(body, { headers });
 }

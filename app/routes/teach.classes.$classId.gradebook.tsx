@@ -37,17 +37,32 @@ export function shouldRevalidate({ currentUrl, nextUrl, formMethod, defaultShoul
   return defaultShouldRevalidate;
 }
 
-/** Loads the JSON route every `seconds` while the tab is visible, and at once when it becomes visible again. */
+/**
+ * Asks the JSON route every `seconds` while the tab is visible, and at once when it becomes visible
+ * again. Each ask sends the revision shown (`?since=`): the route answers "unchanged" while it holds,
+ * or the whole new gradebook, which is kept here until the next one.
+ */
 function useLiveGradebook(classId: string, seconds: number, initial: GradebookView) {
-  const fetcher = useFetcher<{ gradebook: GradebookView }>();
-  const load = useRef(fetcher.load);
-  load.current = fetcher.load;
-  const busy = useRef(false);
-  busy.current = fetcher.state !== "idle";
+  const fetcher = useFetcher<{ gradebook: GradebookView } | { unchanged: true; revision: string }>();
+  const fetched = fetcher.data && "gradebook" in fetcher.data ? fetcher.data.gradebook : undefined;
+  const [latest, setLatest] = useState<GradebookView | undefined>(undefined);
   useEffect(() => {
-    const url = `/api/teach/classes/${classId}/gradebook`;
+    if (fetched) setLatest(fetched);
+  }, [fetched]);
+  // The newer of the page's data and the last one fetched (the page's is newer right after a navigation).
+  const book = latest && latest.generatedAt > initial.generatedAt ? latest : initial;
+  // When the page last checked, from each answer the fetcher gets ("unchanged" included).
+  const [checkedAt, setCheckedAt] = useState<Date | null>(null);
+  useEffect(() => {
+    if (fetcher.data) setCheckedAt(new Date());
+  }, [fetcher.data]);
+
+  const url = `/api/teach/classes/${classId}/gradebook?since=${encodeURIComponent(book.revision ?? "")}`;
+  const current = useRef({ load: fetcher.load, url, busy: false });
+  current.current = { load: fetcher.load, url, busy: fetcher.state !== "idle" };
+  useEffect(() => {
     const refresh = () => {
-      if (document.visibilityState === "visible" && !busy.current) void load.current(url);
+      if (document.visibilityState === "visible" && !current.current.busy) void current.current.load(current.current.url);
     };
     const timer = window.setInterval(refresh, seconds * 1000);
     const onVisibility = () => {
@@ -59,16 +74,7 @@ function useLiveGradebook(classId: string, seconds: number, initial: GradebookVi
       document.removeEventListener("visibilitychange", onVisibility);
     };
   }, [classId, seconds]);
-  const fresh = fetcher.data?.gradebook;
-  // The newer of the page's data and the fetcher's (the page's is newer right after a navigation).
-  // The JSON route sends a gradebook unchanged since it was computed with that time, so the time
-  // the page last checked is kept here, from each answer the fetcher gets.
-  const book = fresh && fresh.generatedAt > initial.generatedAt ? fresh : initial;
-  const [checkedAt, setCheckedAt] = useState<Date | null>(null);
-  useEffect(() => {
-    if (fetcher.data) setCheckedAt(new Date());
-  }, [fetcher.data]);
-  return { book, checkedAt, refreshing: fetcher.state === "loading", refreshNow: () => void fetcher.load(`/api/teach/classes/${classId}/gradebook`) };
+  return { book, checkedAt, refreshing: fetcher.state === "loading", refreshNow: () => void fetcher.load(url) };
 }
 
 export default function GradebookPage({ loaderData }: Route.ComponentProps) {

@@ -221,10 +221,32 @@ describe("the JSON route", () => {
     expect((await runRoute(gradebookJson.loader as never, get(url), { classId: ids.mapleB.id })).status).toBe(302);
   });
 
-  it("sends the body compressed as the browser asks (brotli, gzip or none), the same gradebook each way", async () => {
+  it("tells the page's fetcher 'unchanged' while the revision it shows holds, and sends the new gradebook after a change", async () => {
+    const url = `/api/teach/classes/${ids.mapleB.id}/gradebook`;
+    const page = await runRoute(gradebookPage.loader as never, get(`/teach/classes/${ids.mapleB.id}/gradebook`, { cookie: cookies.teacher }), { classId: ids.mapleB.id });
+    const shown = (page.body as { gradebook: { revision: string } }).gradebook.revision;
+    expect(shown).toMatch(/^\d+-\d+$/);
+    const ask = async (since: string) =>
+      (await runRoute(gradebookJson.loader as never, get(`${url}?since=${encodeURIComponent(since)}`, { cookie: cookies.teacher }), { classId: ids.mapleB.id })).body as
+        | { unchanged: true; revision: string }
+        | { gradebook: { revision: string; rows: unknown[] } };
+    expect(await ask(shown)).toEqual({ unchanged: true, revision: shown });
+    // A change the other tests here do not count: a visit to a lesson this class was not given.
+    const student = await studentByUsername("kira.n");
+    await db.insert(lessonVisits).values({ studentId: student.id, lessonSlug: "08-design-challenge", lastPlace: "intro" }).onConflictDoNothing();
+    const after = await ask(shown);
+    expect("gradebook" in after && after.gradebook.revision !== shown).toBe(true);
+    expect(await ask("no-such-revision")).toHaveProperty("gradebook");
+  });
+
+  it("sends a plain JSON client the body compressed as it asks (brotli, gzip or none), the same gradebook each way", async () => {
     const url = `/api/teach/classes/${ids.mapleB.id}/gradebook`;
     const read = async (acceptEncoding: string | null) => {
-      const response = (await gradebookJson.loader({ request: get(url, { cookie: cookies.teacher, headers: acceptEncoding ? { "accept-encoding": acceptEncoding } : {} }), params: { classId: ids.mapleB.id }, context: {} } as never)) as Response;
+      const response = (await gradebookJson.loader({
+        request: get(url, { cookie: cookies.teacher, headers: acceptEncoding ? { "accept-encoding": acceptEncoding } : {} }),
+        params: { classId: ids.mapleB.id },
+        context: {},
+      } as never)) as unknown as Response;
       const bytes = Buffer.from(await response.arrayBuffer());
       const encoding = response.headers.get("content-encoding");
       const text = encoding === "br" ? brotliDecompressSync(bytes).toString() : encoding === "gzip" ? gunzipSync(bytes).toString() : bytes.toString();

@@ -16,11 +16,11 @@
 // - stuck: STUCK_AFTER_WRONG or more wrong answers to one exercise and no right one yet;
 // - late: past the student's due date without finishing, or finished after it;
 // - a student's average counts every lesson already open, a lesson not started as 0.
-import { brotliCompressSync, gzipSync, constants as zlibConstants } from "node:zlib";
 import { eq, sql } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { Database } from "~/db/client.server";
 import { preparedOnce } from "~/db/prepared.server";
+import { encodeBody, type BodyEncoding } from "~/lib/http-encoding.server";
 import { accommodations, assignments, classes, enrollments, users, type LatePolicy } from "~/db/schema.server";
 import { attemptsAllowed } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
@@ -272,7 +272,15 @@ function nextClockChange(book: Gradebook, now: number): number {
   return next;
 }
 
-type KeptBook = { version: number; computedAt: number; validUntil: number; book: Gradebook; json: Map<string, Buffer<ArrayBuffer>> };
+type KeptBook = {
+  version: number;
+  computedAt: number;
+  validUntil: number;
+  book: Gradebook;
+  /** the book's view, by time zone and day, and its JSON bytes by time zone, day and encoding */
+  views: Map<string, GradebookView>;
+  bytes: Map<string, Buffer<ArrayBuffer>>;
+};
 
 /** The kept copy of one class's gradebook while its version is current, else one computed afresh (and kept). */
 async function keptGradebook({ db }: Db, classId: string, now: Date): Promise<KeptBook> {
@@ -280,8 +288,8 @@ async function keptGradebook({ db }: Db, classId: string, now: Date): Promise<Ke
   const at = now.getTime();
   const kept = keptBooks.get(classId);
   if (kept && kept.version === version && kept.computedAt <= at && at < kept.validUntil) return kept;
-  const book = (await loadGradebooks({ db }, [classId], now)).get(classId)!;
-  const fresh = { version, computedAt: at, validUntil: Math.min(nextClockChange(book, at), at + KEEP_AT_MOST_MS), book, json: new Map() };
+  const book = { ...(await loadGradebooks({ db }, [classId], now)).get(classId)!, revision: `${version}-${at}` };
+  const fresh = { version, computedAt: at, validUntil: Math.min(nextClockChange(book, at), at + KEEP_AT_MOST_MS), book, views: new Map(), bytes: new Map() };
   keptBooks.set(classId, fresh);
   return fresh;
 }
@@ -292,33 +300,39 @@ export async function loadGradebook({ db }: Db, classId: string, now: Date = new
   return { ...book, generatedAt: now.toISOString() };
 }
 
-export type BodyEncoding = "br" | "gzip" | "identity";
-
 /**
- * The JSON route's body, `{"gradebook": gradebookView(...)}` of the kept book, in the encoding the
- * browser asked for. It is the same bytes for every read until the book changes (its times are the
- * time it was computed; the page shows when it last checked by itself), so it is serialized and
- * compressed once per time zone, day and encoding: 87 KB of JSON for 35 students and 8 lessons is
- * 7.5 KB with brotli, and no read compresses it again.
+ * The gradebook as its JSON route sends it: the view of the kept book, the same for every read until
+ * the book changes (its times are the time it was computed; the page shows when it last checked by
+ * itself). The view is made once per time zone and day; `bytes` gives it as JSON, serialized and
+ * compressed once per encoding too: 87 KB of JSON for 35 students and 8 lessons is 6.4 KB with
+ * brotli, and no read compresses it again.
  */
-export async function loadGradebookJson({ db }: Db, classId: string, timeZone: string, encoding: BodyEncoding, now: Date = new Date()): Promise<Buffer<ArrayBuffer>> {
+export async function loadGradebookForRoute({ db }: Db, classId: string, timeZone: string, now: Date = new Date()) {
   const kept = await keptGradebook({ db }, classId, now);
-  const key = (e: BodyEncoding) => `${timeZone}|${now.toISOString().slice(0, 10)}|${e}`;
-  const made = kept.json.get(key(encoding));
-  if (made) return made;
-  let plain = kept.json.get(key("identity"));
-  if (!plain) {
-    plain = Buffer.from(JSON.stringify({ gradebook: gradebookView(kept.book, timeZone, now) }));
-    kept.json.set(key("identity"), plain);
+  const key = `${timeZone}|${now.toISOString().slice(0, 10)}`;
+  let view = kept.views.get(key);
+  if (!view) {
+    view = gradebookView(kept.book, timeZone, now);
+    kept.views.set(key, view);
   }
-  const body =
-    encoding === "br"
-      ? brotliCompressSync(plain, { params: { [zlibConstants.BROTLI_PARAM_QUALITY]: 9, [zlibConstants.BROTLI_PARAM_SIZE_HINT]: plain.length } })
-      : encoding === "gzip"
-        ? gzipSync(plain, { level: 9 })
-        : plain;
-  kept.json.set(key(encoding), body);
-  return body;
+  const keptView = view;
+  return {
+    revision: kept.book.revision!,
+    view: keptView,
+    bytes: async (encoding: BodyEncoding): Promise<Buffer<ArrayBuffer>> => {
+      let body = kept.bytes.get(`${key}|${encoding}`);
+      if (!body) {
+        let plain = kept.bytes.get(`${key}|identity`);
+        if (!plain) {
+          plain = Buffer.from(JSON.stringify({ gradebook: keptView }));
+          kept.bytes.set(`${key}|identity`, plain);
+        }
+        body = await encodeBody(plain, encoding, "kept");
+        kept.bytes.set(`${key}|${encoding}`, body);
+      }
+      return body;
+    },
+  };
 }
 
 function summarise(rows: GradebookRow[], lessons: GradebookLesson[]): ClassSummary {

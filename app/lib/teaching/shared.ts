@@ -76,6 +76,8 @@ export interface Gradebook {
   rows: GradebookRow[];
   summary: ClassSummary;
   generatedAt: string;
+  /** Which computation of a kept gradebook this is: the page's refresh sends it back, and hears "unchanged" while it still holds. */
+  revision?: string;
 }
 
 export type GradebookFilter = "everyone" | "not-started" | "late" | "stuck";
