@@ -6,7 +6,7 @@
 // Once a week at most: each recipient is claimed in mail_preferences (last_summary_week) in the same
 // statement that checks they still want it, so a second run in the same week, or two workers at
 // once, queue nothing twice. A failure to queue gives the claim back.
-import { and, eq, gte, inArray, isNotNull, isNull, sql } from "drizzle-orm";
+import { and, asc, eq, gte, inArray, isNotNull, isNull, sql } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
 import { classes, exerciseAttempts, mailPreferences, memberships, organisations, users, writtenAnswers } from "~/db/schema.server";
 import { serverEnv } from "~/env.server";
@@ -78,14 +78,16 @@ export async function composeWeeklySummaries({ db }: { db: Database }, now: Date
           .select({ id: users.id, displayName: users.displayName, householdId: memberships.organisationId })
           .from(users)
           .innerJoin(memberships, and(eq(memberships.userId, users.id), eq(memberships.organisationId, users.homeOrganisationId), eq(memberships.role, "student")))
-          .where(inArray(users.homeOrganisationId, householdIds)),
+          .where(inArray(users.homeOrganisationId, householdIds))
+          .orderBy(asc(users.displayName)),
     teacherIds.length === 0
       ? Promise.resolve([])
       : db
           .select({ id: classes.id, name: classes.name, teacherId: classes.teacherId, timeZone: classes.timeZone })
           .from(classes)
           .innerJoin(organisations, and(eq(organisations.id, classes.organisationId), eq(organisations.kind, "school")))
-          .where(and(inArray(classes.teacherId, teacherIds), isNull(classes.archivedAt))),
+          .where(and(inArray(classes.teacherId, teacherIds), isNull(classes.archivedAt)))
+          .orderBy(asc(classes.name)),
   ]);
   const childIds = children.map((c) => c.id);
   const [attemptsThisWeek, answersThisWeek, books] = await Promise.all([
