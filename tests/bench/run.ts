@@ -51,18 +51,26 @@ const TARGETS = {
 
 const cleanups: Array<() => void | Promise<void>> = [];
 let app: ChildProcess | undefined;
-async function cleanUp() {
-  if (app && app.exitCode === null) {
-    app.kill("SIGTERM");
-    await new Promise((r) => app!.once("exit", r));
-  }
-  for (const cleanup of cleanups.reverse()) {
-    try {
-      await cleanup();
-    } catch (error) {
-      console.error("clean-up:", (error as Error).message);
+// Once, however many times it is asked for: Ctrl-C in a terminal signals npm, tsx and this process alike.
+let cleaning: Promise<void> | undefined;
+function cleanUp(): Promise<void> {
+  cleaning ??= (async () => {
+    if (app && app.exitCode === null) {
+      app.kill("SIGTERM");
+      // The server closes at once; its idle database connections could keep it up for their 20 s.
+      const hard = setTimeout(() => app?.kill("SIGKILL"), 5_000);
+      await new Promise((r) => app!.once("exit", r));
+      clearTimeout(hard);
     }
-  }
+    for (const cleanup of [...cleanups].reverse()) {
+      try {
+        await cleanup();
+      } catch (error) {
+        console.error("clean-up:", (error as Error).message);
+      }
+    }
+  })();
+  return cleaning;
 }
 process.on("SIGINT", () => void cleanUp().then(() => process.exit(130)));
 
