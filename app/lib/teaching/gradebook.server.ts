@@ -241,7 +241,9 @@ export async function loadGradebooks({ db }: Db, classIds: string[], now: Date =
 // depend on the clock (a lesson opened, a due date passed) are kept only until the next such instant,
 // and nothing is kept longer than KEEP_AT_MOST_MS. Each server process keeps its own copies.
 const KEEP_AT_MOST_MS = 10 * 60_000;
-const keptBooks = new LRUCache<string, KeptBook>({ max: 500 });
+// A kept book of 35 students and 8 lessons, with its view and bytes, is about 200 KB: 200 classes
+// whose gradebooks were looked at lately stay within about 40 MB; the least recently read go first.
+const keptBooks = new LRUCache<string, KeptBook>({ max: 200 });
 
 const versionStatement = preparedOnce((db) =>
   db
