@@ -77,9 +77,17 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   } else if (import.meta.env.DEV && error instanceof Error) {
     detail = error.message;
   }
+  // While the database is away, who is signed in cannot be known: no "Sign in" to someone who is.
+  const unavailable = isRouteErrorResponse(error) && error.status === 503;
   return (
     <>
-      <SiteHeader />
+      {unavailable ? (
+        <SiteHeader>
+          <span />
+        </SiteHeader>
+      ) : (
+        <SiteHeader />
+      )}
       <main id="main" className="flex-1 mx-auto w-full max-w-3xl px-5 py-16">
         <h1 className="text-[length:var(--text-step-3)] mb-4">{heading}</h1>
         <p className="text-ink-soft mb-6">{detail}</p>

@@ -149,7 +149,9 @@ describe("PostgreSQL stopped", () => {
       const page = await lessonPage();
       expect(page.status).toBe(503);
       expect(page.headers.get("retry-after")).toBe("5");
-      expect(await page.text()).toContain("cannot reach its database just now");
+      const html = await page.text();
+      expect(html).toContain("cannot reach its database just now");
+      expect(html, "no sign-in offered to a student who is signed in").not.toContain('href="/sign-in"');
       const sent = await answer();
       expect(sent.status).toBe(503);
       // The lesson page's fetcher gets the sentence for the exercise that was sent, so it shows beside it.
