@@ -83,6 +83,25 @@ export function exerciseInstance(
   return definition.generate(random, generatorContext(definition, readings));
 }
 
+/**
+ * What a student's stored answers mean to someone reading them later (their teacher or parent): the
+ * labels of the options the student saw for each choice exercise, by value. Labels can carry the
+ * student's own numbers ("2 times as wide"), so they come from the student's instance, made once per
+ * (student, lesson, exercise) for the life of the reader.
+ */
+export function choiceLabelReader(): (studentId: string, slug: string, exerciseId: string) => Map<string, string> | null {
+  const made = new Map<string, Map<string, string> | null>();
+  return (studentId, slug, exerciseId) => {
+    const key = `${studentId}|${slug}|${exerciseId}`;
+    if (!made.has(key)) {
+      const definition = findExercise(slug, exerciseId);
+      const choices = definition?.kind === "choice" ? exerciseInstance(studentId, slug, definition, []).choices : undefined;
+      made.set(key, choices ? new Map(choices.map((c) => [c.value, c.label])) : null);
+    }
+    return made.get(key)!;
+  };
+}
+
 function generatorContext(definition: ExerciseDefinition, readings: SavedReadings[]): GeneratorContext {
   if (definition.kind !== "own-data") return { ownData: null };
   // Only the set the exercise names: another material's readings would check the wrong numbers.

@@ -8,6 +8,7 @@ import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-rea
 import { ReviewForm } from "~/components/teaching/review-form";
 import { db } from "~/db/client.server";
 import { assertSameOrigin, requireRole } from "~/lib/auth.server";
+import { choiceLabelReader } from "~/lib/course.server";
 import { householdClass, householdsOf } from "~/lib/family/household.server";
 import { findLesson } from "~/lib/lessons.server";
 import { analyseItems, classAttempts } from "~/lib/teaching/analysis.server";
@@ -41,13 +42,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     classAssignments({ db }, klass.id),
   ]);
   const assignment = assigned.find((a) => a.lessonSlug === lesson.slug);
+  const labelsOf = choiceLabelReader();
   return {
     household: { name: household.name },
     lesson: { slug: lesson.slug, number: lesson.number, title: lesson.title },
     dueText: assignment ? formatDue(assignment.dueAt, tz) : null,
     children: children.length,
     items: analyseItems(lesson.slug, attempts, children.length),
-    tries: attempts.map((a) => ({ id: a.id, exerciseId: a.exerciseId, child: a.displayName, answer: readableAnswer(a.rawAnswer), right: a.correct, at: formatMoment(a.createdAt, tz) })),
+    tries: attempts.map((a) => ({ id: a.id, exerciseId: a.exerciseId, child: a.displayName, answer: readableAnswer(a.rawAnswer, labelsOf(a.studentId, lesson.slug, a.exerciseId)), right: a.correct, at: formatMoment(a.createdAt, tz) })),
     answers: answers.map((a) => ({
       studentId: a.studentId,
       displayName: a.displayName,

@@ -11,5 +11,5 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const lesson = requireLesson(params.slug);
   const exercise = requireExercise(lesson.slug, params.exerciseId);
   const attempts = await classAttempts({ db }, klass.id, lesson.slug, exercise.id);
-  return csvResponse(attemptsCsv(attempts, klass.timeZone), `tries-${fileSlug(klass.name)}-lesson-${lesson.number}-${exercise.id}.csv`);
+  return csvResponse(attemptsCsv(lesson.slug, attempts, klass.timeZone), `tries-${fileSlug(klass.name)}-lesson-${lesson.number}-${exercise.id}.csv`);
 }

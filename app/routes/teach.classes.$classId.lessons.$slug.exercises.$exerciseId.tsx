@@ -7,6 +7,7 @@ import { db } from "~/db/client.server";
 import { analyseItems, classAttempts } from "~/lib/teaching/analysis.server";
 import { classHeading } from "~/lib/teaching/classes.server";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
+import { choiceLabelReader } from "~/lib/course.server";
 import { requireExercise, requireLesson } from "~/lib/teaching/lesson-guard.server";
 import { classRoster } from "~/lib/teaching/roster.server";
 import { formatMoment } from "~/lib/teaching/time";
@@ -19,6 +20,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const exercise = requireExercise(lesson.slug, params.exerciseId);
   const [attempts, students] = await Promise.all([classAttempts({ db }, klass.id, lesson.slug, exercise.id), classRoster({ db }, klass.id)]);
   const item = analyseItems(lesson.slug, attempts, students.length).find((i) => i.exerciseId === exercise.id)!;
+  const labelsOf = choiceLabelReader();
   const byStudent = students.map((s) => ({
     id: s.id,
     displayName: s.displayName,
@@ -26,7 +28,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       .filter((a) => a.studentId === s.id)
       .map((a) => ({
         id: a.id,
-        answer: readableAnswer(a.rawAnswer),
+        answer: readableAnswer(a.rawAnswer, labelsOf(s.id, lesson.slug, exercise.id)),
         right: a.correct,
         words: a.correct ? "right" : a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : outcomeWords(a.outcome),
         at: formatMoment(a.createdAt, klass.timeZone),

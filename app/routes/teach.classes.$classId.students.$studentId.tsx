@@ -6,6 +6,7 @@ import { z } from "zod";
 import type { Route } from "./+types/teach.classes.$classId.students.$studentId";
 import { db } from "~/db/client.server";
 import { assertSameOrigin } from "~/lib/auth.server";
+import { choiceLabelReader } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { analyseReadings } from "~/lib/science";
 import { classAccommodations, setAccommodation } from "~/lib/teaching/assignments.server";
@@ -59,6 +60,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const assignedSlugs = view.lessons.map((l) => l.slug);
   const worked = [...work.attempts, ...work.readings, ...work.answers, ...work.photos].map((x) => x.lessonSlug);
   const slugs = [...new Set([...assignedSlugs, ...worked])].sort((a, b) => a.localeCompare(b));
+  const labelsOf = choiceLabelReader();
   const lessons = slugs.map((slug) => {
     const summary = course.find((l) => l.slug === slug);
     const assignment = view.lessons.find((l) => l.slug === slug);
@@ -74,7 +76,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
           .filter((a) => a.lessonSlug === slug && a.exerciseId === e.id)
           .map((a) => ({
             id: a.id,
-            answer: readableAnswer(a.rawAnswer),
+            answer: readableAnswer(a.rawAnswer, labelsOf(student.id, slug, e.id)),
             right: a.correct === 1,
             outcome: outcomeWords(a.outcome),
             slip: a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : null,

@@ -390,6 +390,15 @@ describe("a student's page", () => {
     expect(lesson.readings[0].analysis.fit.throughOrigin.slope).toBeCloseTo(2.5, 5);
     expect(lesson.answers).toHaveLength(1);
   });
+
+  it("shows a choice as the option the student saw, not its stored value", async () => {
+    const leo = await studentByUsername("leo.f");
+    await recordTry(leo.id, LESSON, "same-stiffness-choice", { raw: JSON.stringify({ choice: "different", reason: "the last reading bent more" }) });
+    const page = await runRoute(studentPage.loader as never, get(`/x`, { cookie: cookies.teacher }), { classId: ids.mapleB.id, studentId: leo.id });
+    const body = page.body as { lessons: { slug: string; exercises: { id: string; attempts: { answer: string }[] }[] }[] };
+    const tries = body.lessons.find((l) => l.slug === LESSON)!.exercises.find((e) => e.id === "same-stiffness-choice")!.attempts;
+    expect(tries.map((t) => t.answer)).toContain("No, one of them is clearly different — “the last reading bent more”");
+  });
 });
 
 describe("the school administrator's view", () => {

@@ -3,7 +3,7 @@
 // with the analysis behind the charts, and photos. Assigned lessons carry the household gradebook's
 // cell (due date, late, stuck), from the teaching model's own gradebook.
 import type { Database } from "~/db/client.server";
-import { courseProgress } from "~/lib/course.server";
+import { choiceLabelReader, courseProgress } from "~/lib/course.server";
 import { lessonExercises } from "~/lib/lessons.server";
 import { analyseReadings, type AnalysisResult } from "~/lib/science";
 import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
@@ -54,6 +54,7 @@ export async function childReport({ db }: { db: Database }, childId: string, kla
     klass ? loadGradebook({ db }, klass.id) : Promise.resolve(null),
   ]);
   const view = book ? gradebookView(book, tz) : null;
+  const labelsOf = choiceLabelReader();
   const row = view?.rows.find((r) => r.student.id === childId);
   return progress.map((p) => {
     const { exercises } = lessonExercises(p.slug);
@@ -81,7 +82,7 @@ export async function childReport({ db }: { db: Database }, childId: string, kla
             .filter((a) => a.exerciseId === e.id)
             .map((a) => ({
               id: a.id,
-              answer: readableAnswer(a.rawAnswer),
+              answer: readableAnswer(a.rawAnswer, labelsOf(childId, p.slug, e.id)),
               right: a.correct === 1,
               what: a.correct === 1 ? "right" : a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : outcomeWords(a.outcome),
               at: formatMoment(a.createdAt, tz),

@@ -4,6 +4,7 @@
 import { and, asc, eq, inArray } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
 import { enrollments, exerciseAttempts, users } from "~/db/schema.server";
+import { choiceLabelReader } from "~/lib/course.server";
 import { lessonExercises } from "~/lib/lessons.server";
 import { readableAnswer, wrongAnswerGroup } from "./words";
 
@@ -84,6 +85,7 @@ export async function classAttempts({ db }: Db, classId: string, slug: string, e
 
 /** The analysis of each exercise of the lesson, from the class's attempts. Pure apart from the lesson's definitions. */
 export function analyseItems(slug: string, attempts: ClassAttempt[], studentsInClass: number): ItemAnalysis[] {
+  const labelsOf = choiceLabelReader();
   return lessonExercises(slug).exercises.map((exercise) => {
     const mine = attempts.filter((a) => a.exerciseId === exercise.id && !FREE.has(a.outcome));
     const byStudent = new Map<string, ClassAttempt[]>();
@@ -103,7 +105,7 @@ export function analyseItems(slug: string, attempts: ClassAttempt[], studentsInC
       const group = groups.get(key) ?? { label, attempts: 0, students: new Set<string>(), answers: new Map<string, number>() };
       group.attempts++;
       group.students.add(a.studentId);
-      const answer = readableAnswer(a.rawAnswer).trim().replace(/\s+/g, " ").slice(0, 120);
+      const answer = readableAnswer(a.rawAnswer, labelsOf(a.studentId, slug, exercise.id)).trim().replace(/\s+/g, " ").slice(0, 120);
       group.answers.set(answer, (group.answers.get(answer) ?? 0) + 1);
       groups.set(key, group);
     }

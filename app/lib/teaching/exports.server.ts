@@ -2,6 +2,7 @@
 // other scripts correctly), CRLF line ends, formulas neutralised (a name starting with "=" stays text),
 // and sent as an attachment.
 import Papa from "papaparse";
+import { choiceLabelReader } from "~/lib/course.server";
 import type { ClassAttempt } from "./analysis.server";
 import type { Gradebook } from "./gradebook.server";
 import { formatMoment } from "./time";
@@ -64,8 +65,9 @@ export function gradebookCsv(book: Gradebook): string {
   return toCsv(fields, book.rows.length > 0 ? [...rows, averages] : rows);
 }
 
-/** Every attempt at one exercise by the class's students, in the class's time zone. */
-export function attemptsCsv(attempts: ClassAttempt[], timeZone: string): string {
+/** Every attempt at one exercise of lesson `slug` by the class's students, in the class's time zone. */
+export function attemptsCsv(slug: string, attempts: ClassAttempt[], timeZone: string): string {
+  const labelsOf = choiceLabelReader();
   const tries = new Map<string, number>();
   const rows = attempts.map((a) => {
     const n = (tries.get(a.studentId) ?? 0) + 1;
@@ -77,7 +79,7 @@ export function attemptsCsv(attempts: ClassAttempt[], timeZone: string): string 
       n,
       formatMoment(a.createdAt, timeZone),
       a.createdAt.toISOString(),
-      readableAnswer(a.rawAnswer),
+      readableAnswer(a.rawAnswer, labelsOf(a.studentId, slug, a.exerciseId)),
       a.parsedValue,
       a.parsedUnit ?? "",
       a.correct ? "yes" : "no",

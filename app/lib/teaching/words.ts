@@ -65,14 +65,18 @@ export function outcomeWords(outcome: string): string {
   return OUTCOME_WORDS[outcome] ?? outcome;
 }
 
-/** What the student typed, readable: tables and choices are stored as JSON. */
-export function readableAnswer(raw: string): string {
+/**
+ * What the student typed, readable: tables and choices are stored as JSON. A choice shows the label
+ * the student saw (`choiceLabels`, from choiceLabelReader in course.server.ts), else its stored value.
+ */
+export function readableAnswer(raw: string, choiceLabels?: Map<string, string> | null): string {
   try {
     const value = JSON.parse(raw) as unknown;
     if (Array.isArray(value)) return value.map((c) => String(c || "—")).join(" | ");
     if (value && typeof value === "object" && "choice" in value) {
       const { choice, reason } = value as { choice: unknown; reason?: unknown };
-      return reason ? `${String(choice)} — “${String(reason)}”` : String(choice);
+      const shown = choiceLabels?.get(String(choice)) ?? String(choice);
+      return reason ? `${shown} — “${String(reason)}”` : shown;
     }
   } catch {
     // Plain text answers are not JSON.
