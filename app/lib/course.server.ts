@@ -223,9 +223,10 @@ export async function recordAttempt(
   const { result, raw } = judge(instance, definition, input.submission);
   const right = result.outcome === "correct";
   const counted = !FREE_OUTCOMES.has(result.outcome);
-  const attempt = db.insert(exerciseAttempts).values({
+  // One statement, so the attempt and the place to continue from are saved together or not at all.
+  await attemptWithVisitStatement(db).execute({
     studentId,
-    lessonSlug: slug,
+    slug,
     exerciseId: definition.id,
     rawAnswer: raw.slice(0, 2000),
     parsedValue: result.parsed && Number.isFinite(result.parsed.value) ? result.parsed.value : null,
@@ -233,9 +234,8 @@ export async function recordAttempt(
     outcome: result.outcome,
     correct: right ? 1 : 0,
     slipCode: result.slip?.code ?? null,
+    place: `exercise-${definition.id}`,
   });
-  // One statement, so the attempt and the place to continue from are saved together or not at all.
-  await db.execute(sql`with attempt as (${attempt.getSQL()} returning 1) ${visitUpsert({ db }, studentId, slug, `exercise-${definition.id}`).getSQL()}`);
   return {
     counted,
     feedback: {
@@ -298,6 +298,33 @@ const exerciseContextStatement = preparedOnce((db) =>
     .from(sql`(select 1) as one`)
     .prepare("exercise_context"),
 );
+
+/** An attempt and the student's place to continue from (the lesson visit), written by one statement, built once. */
+const attemptWithVisitStatement = preparedOnce((db) => {
+  const p = (name: string) => sql.placeholder(name);
+  const attempt = db.$with("attempt", { saved: sql<number>`1` }).as(
+    sql`${db
+      .insert(exerciseAttempts)
+      .values({
+        studentId: p("studentId"),
+        lessonSlug: p("slug"),
+        exerciseId: p("exerciseId"),
+        rawAnswer: p("rawAnswer"),
+        parsedValue: p("parsedValue"),
+        parsedUnit: p("parsedUnit"),
+        outcome: p("outcome"),
+        correct: p("correct"),
+        slipCode: p("slipCode"),
+      })
+      .getSQL()} returning 1`,
+  );
+  return db
+    .with(attempt)
+    .insert(lessonVisits)
+    .values({ studentId: p("studentId"), lessonSlug: p("slug"), lastPlace: p("place") })
+    .onConflictDoUpdate({ target: [lessonVisits.studentId, lessonVisits.lessonSlug], set: { lastPlace: sql`excluded.last_place`, updatedAt: sql`now()` } })
+    .prepare("attempt_with_visit");
+});
 
 /** What the answer check needs besides the policy: the student's readings and their earlier tries at this exercise, in one statement. */
 async function exerciseContext({ db }: Db, studentId: string, slug: string, exerciseId: string): Promise<{ readings: SavedReadings[]; past: AttemptRow[] }> {
