@@ -6,18 +6,28 @@ import { createServer } from "node:net";
 import path from "node:path";
 import { createRequire } from "node:module";
 
-/** Asks the kernel for a free TCP port on loopback. */
-export function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.unref();
-    server.on("error", reject);
-    server.listen(0, "127.0.0.1", () => {
-      const address = server.address();
-      const port = typeof address === "object" && address ? address.port : 0;
-      server.close(() => resolve(port));
+// Ports already handed out by this process: the kernel may offer a port again as soon as the probe
+// that found it is closed, so several asked for in a row (mail, payments, app) could otherwise collide.
+const handedOut = new Set<number>();
+
+/** Asks the kernel for a free TCP port on loopback, never one this process was given before. */
+export async function freePort(): Promise<number> {
+  for (;;) {
+    const port = await new Promise<number>((resolve, reject) => {
+      const server = createServer();
+      server.unref();
+      server.on("error", reject);
+      server.listen(0, "127.0.0.1", () => {
+        const address = server.address();
+        const found = typeof address === "object" && address ? address.port : 0;
+        server.close(() => resolve(found));
+      });
     });
-  });
+    if (!handedOut.has(port)) {
+      handedOut.add(port);
+      return port;
+    }
+  }
 }
 
 /** A session-signing secret kept in .data/ so sign-ins survive a restart of `npm start`. */
