@@ -57,7 +57,7 @@ export const DATABASE_UNAVAILABLE_MESSAGE =
   "Bendwise cannot reach its database just now. What you saved before is safe; please try again in a few seconds.";
 
 /** PostgreSQL cannot be reached. Drizzle hands it on as the `cause` of its own DrizzleQueryError. */
-export class DatabaseUnavailable extends Error {
+class DatabaseUnavailable extends Error {
   constructor(cause: unknown) {
     super("PostgreSQL cannot be reached", { cause });
     this.name = "DatabaseUnavailable";
@@ -69,7 +69,7 @@ function unavailableInstead(error: unknown): never {
 }
 
 /** The 503 every page, fetcher and JSON route answers while PostgreSQL cannot be reached. */
-export function databaseUnavailableResponse(): Response {
+function databaseUnavailableResponse(): Response {
   return new Response(DATABASE_UNAVAILABLE_MESSAGE, {
     status: 503,
     statusText: "Service Unavailable",

@@ -62,7 +62,7 @@ export const users = pgTable(
     sessionVersion: integer("session_version").notNull().default(1),
     /**
      * Students: raised (from the sequence gradebook_versions) by database triggers whenever their
-     * work or their name changes, so a cached gradebook knows it is out of date (gradebook-cache.server.ts).
+     * work or their name changes, so a kept gradebook knows it is out of date (loadGradebook in teaching/gradebook.server.ts).
      */
     workVersion: bigint("work_version", { mode: "number" }).notNull().default(0),
     createdAt: createdAt(),

@@ -301,14 +301,14 @@ const exerciseContextStatement = preparedOnce((db) =>
 
 /** An attempt and the student's place to continue from (the lesson visit), written by one statement, built once. */
 const attemptWithVisitStatement = preparedOnce((db) => {
-  const p = (name: string) => sql.placeholder(name);
+  const p = sql.placeholder;
   const attempt = db.$with("attempt", { saved: sql<number>`1` }).as(
     sql`${db
       .insert(exerciseAttempts)
       .values({
-        studentId: p("studentId"),
-        lessonSlug: p("slug"),
-        exerciseId: p("exerciseId"),
+        studentId: P.studentId,
+        lessonSlug: P.slug,
+        exerciseId: P.exerciseId,
         rawAnswer: p("rawAnswer"),
         parsedValue: p("parsedValue"),
         parsedUnit: p("parsedUnit"),
@@ -321,7 +321,7 @@ const attemptWithVisitStatement = preparedOnce((db) => {
   return db
     .with(attempt)
     .insert(lessonVisits)
-    .values({ studentId: p("studentId"), lessonSlug: p("slug"), lastPlace: p("place") })
+    .values({ studentId: P.studentId, lessonSlug: P.slug, lastPlace: p("place") })
     .onConflictDoUpdate({ target: [lessonVisits.studentId, lessonVisits.lessonSlug], set: { lastPlace: sql`excluded.last_place`, updatedAt: sql`now()` } })
     .prepare("attempt_with_visit");
 });

@@ -11,18 +11,13 @@ import { eq } from "drizzle-orm";
 import fc from "fast-check";
 import type Stripe from "stripe";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Database } from "~/db/client.server";
 import { paymentEvents, seatPurchases } from "~/db/schema.server";
 import { startPaymentsFake, type PaymentsFake } from "../fakes/payments-server";
+import { appPaymentModules, type PaymentModules } from "./payments-helpers";
 import { createSchool } from "../factories/schools";
 import type { Snapshot } from "./db-snapshot";
 
-type Modules = {
-  db: Database;
-  webhook: typeof import("~/routes/api.payments.webhook");
-  purchases: typeof import("~/lib/purchases.server");
-  seats: typeof import("~/lib/seats.server");
-  receipts: typeof import("~/lib/receipts.server");
+type Modules = PaymentModules & {
   snapshotter: typeof import("./db-snapshot").snapshotter;
   changedTables: typeof import("./db-snapshot").changedTables;
 };
@@ -53,19 +48,10 @@ beforeAll(async () => {
       return 503; // "down": the test delivers the events itself, in its own order
     },
   });
-  process.env.PAYMENTS_API_URL = fake.url;
-  const client = await import("~/db/client.server");
+  const app = await appPaymentModules(fake.url);
   const snapshots = await import("./db-snapshot");
-  m = {
-    db: client.db,
-    webhook: await import("~/routes/api.payments.webhook"),
-    purchases: await import("~/lib/purchases.server"),
-    seats: await import("~/lib/seats.server"),
-    receipts: await import("~/lib/receipts.server"),
-    snapshotter: snapshots.snapshotter,
-    changedTables: snapshots.changedTables,
-  };
-  stripe = (await import("~/lib/payments.server")).payments();
+  m = { ...app.modules, snapshotter: snapshots.snapshotter, changedTables: snapshots.changedTables };
+  stripe = app.stripe;
 }, 60_000);
 
 afterAll(async () => {

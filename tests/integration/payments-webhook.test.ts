@@ -5,19 +5,13 @@
 import { count, eq } from "drizzle-orm";
 import Stripe from "stripe";
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from "vitest";
-import type { Database } from "~/db/client.server";
 import { paymentEvents, seatPurchases } from "~/db/schema.server";
 import { listCaughtMail, type CaughtMail } from "../fakes/mail-catcher";
 import { startPaymentsFake, type PaymentsFake } from "../fakes/payments-server";
+import { appPaymentModules, type PaymentModules } from "./payments-helpers";
 import { createHousehold, createSchool } from "../factories/schools";
 
-type Modules = {
-  db: Database;
-  webhook: typeof import("~/routes/api.payments.webhook");
-  purchases: typeof import("~/lib/purchases.server");
-  seats: typeof import("~/lib/seats.server");
-  receipts: typeof import("~/lib/receipts.server");
-};
+type Modules = PaymentModules;
 
 let fake: PaymentsFake;
 let m: Modules;
@@ -49,17 +43,8 @@ beforeAll(async () => {
       return response.status;
     },
   });
-  // The app's SDK client must talk to this fake: set the address before the app's modules read it.
-  process.env.PAYMENTS_API_URL = fake.url;
-  const client = await import("~/db/client.server");
-  m = {
-    db: client.db,
-    webhook: await import("~/routes/api.payments.webhook"),
-    purchases: await import("~/lib/purchases.server"),
-    seats: await import("~/lib/seats.server"),
-    receipts: await import("~/lib/receipts.server"),
-  };
-  stripe = (await import("~/lib/payments.server")).payments();
+  // The app's SDK client must talk to this fake: its address is set before the app's modules read it.
+  ({ modules: m, stripe } = await appPaymentModules(fake.url));
 });
 
 afterAll(async () => {

@@ -2,7 +2,7 @@
 // extra days), how late work counts, and how many extra tries they have. The student's lesson page,
 // the answer check and /learn read it in one query, whatever the number of classes; nothing on the
 // student's page says that an accommodation exists, it simply applies.
-import { and, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
+import { and, eq, inArray, isNull, sql, type Placeholder, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import type { Database } from "~/db/client.server";
 import { preparedOnce } from "~/db/prepared.server";
@@ -28,7 +28,7 @@ export interface LessonPolicy {
 type Queryable = Pick<Database, "select">;
 
 /** The rows behind the policies: the student's assignments (in classes not archived) with their accommodations. */
-function policyRows(db: Queryable, where: (lessonSlug: typeof assignments.lessonSlug) => SQL | undefined, studentId: unknown) {
+function policyRows(db: Queryable, where: (lessonSlug: typeof assignments.lessonSlug) => SQL | undefined, studentId: string | Placeholder) {
   const general = alias(accommodations, "general_accommodation");
   const specific = alias(accommodations, "specific_accommodation");
   return db
@@ -58,14 +58,14 @@ function policyRows(db: Queryable, where: (lessonSlug: typeof assignments.lesson
       specific,
       and(eq(specific.classId, classes.id), eq(specific.studentId, enrollments.studentId), eq(specific.assignmentId, assignments.id)),
     )
-    .where(and(eq(enrollments.studentId, studentId as string), where(assignments.lessonSlug)));
+    .where(and(eq(enrollments.studentId, studentId), where(assignments.lessonSlug)));
 }
 
 type PolicyRow = Awaited<ReturnType<typeof policyRows>>[number];
 
 /** One lesson's rows, prepared: every lesson page and every answer check asks for them. */
 const oneLessonRows = preparedOnce((db) =>
-  policyRows(db, (lessonSlug) => eq(lessonSlug, sql.placeholder("slug") as unknown as string), sql.placeholder("studentId")).prepare("lesson_policy"),
+  policyRows(db, (lessonSlug) => eq(lessonSlug, sql.placeholder("slug")), sql.placeholder("studentId")).prepare("lesson_policy"),
 );
 
 /** When two of the student's classes assign the same lesson, the more generous one holds (the later due date, the more tries). */
