@@ -24,7 +24,7 @@ import {
 import { lessonExercises, listLessons } from "./lessons.server";
 import { analyseReadings, type Mode } from "./science";
 import { exerciseSeed, seededRandom } from "./seeded-random";
-import { closedForAnswers, closedMessage, lessonPolicies, lessonPolicyFor, type LessonPolicy } from "./teaching/policy.server";
+import { closedForAnswers, closedMessage, lessonPolicies, policiesOf, policyRowsJson, type LessonPolicy } from "./teaching/policy.server";
 import { formatDue } from "./teaching/time";
 
 type Db = { db: Database };
@@ -119,7 +119,7 @@ function generatorContext(definition: ExerciseDefinition, readings: SavedReading
 /**
  * How many tries a student has at an exercise: the exercise's own number (DEFAULT_ATTEMPTS unless its
  * definition says `attempts`), plus the extra tries of the student's accommodation for this lesson.
- * The policy (student × lesson) comes from lessonPolicyFor/lessonPolicies, loaded alongside the
+ * The policy (student × lesson) comes from policyRowsJson/lessonPolicies, loaded alongside the
  * other rows, so this stays a pure function and the lesson page's query count stays fixed.
  */
 export function attemptsAllowed(policy?: Pick<LessonPolicy, "extraAttempts"> | null, exercise?: { id: string; attempts?: number }): number {
@@ -206,12 +206,9 @@ export async function recordAttempt(
   },
 ): Promise<{ feedback: Feedback; counted: boolean } | { refused: string }> {
   const { studentId, slug, definition } = input;
-  // Three statements: the readings and this exercise's earlier tries together, the policy, then the
+  // Two statements: the readings, this exercise's earlier tries and the policy together, then the
   // attempt and the visit written together.
-  const [{ readings, past }, policy] = await Promise.all([
-    exerciseContext({ db }, studentId, slug, definition.id),
-    lessonPolicyFor({ db }, studentId, slug),
-  ]);
+  const { readings, past, policy } = await exerciseContext({ db }, studentId, slug, definition.id);
   if (closedForAnswers(policy)) return { refused: closedMessage(policy!) };
   const instance = exerciseInstance(studentId, slug, definition, readings);
   if (instance.waitingForReadings) return { refused: "Save your readings first; this question uses them." };
@@ -292,9 +289,12 @@ const attemptsJson = (studentId: Param, slug: Param, exerciseId?: Param) =>
     from ${exerciseAttempts} where ${exerciseAttempts.studentId} = ${studentId} and ${exerciseAttempts.lessonSlug} = ${slug}
     ${exerciseId === undefined ? sql`` : sql`and ${exerciseAttempts.exerciseId} = ${exerciseId}`}`);
 
+/** The student's policy for this lesson (assignment, accommodation), as JSON rows (see policy.server.ts). */
+const lessonPolicyJson = (db: Database) => policyRowsJson(db, P.studentId, (lessonSlug) => eq(lessonSlug, P.slug));
+
 const exerciseContextStatement = preparedOnce((db) =>
   db
-    .select({ readings: readingsJson(P.studentId, P.slug), past: attemptsJson(P.studentId, P.slug, P.exerciseId) })
+    .select({ readings: readingsJson(P.studentId, P.slug), past: attemptsJson(P.studentId, P.slug, P.exerciseId), policies: lessonPolicyJson(db) })
     .from(sql`(select 1) as one`)
     .prepare("exercise_context"),
 );
@@ -326,10 +326,19 @@ const attemptWithVisitStatement = preparedOnce((db) => {
     .prepare("attempt_with_visit");
 });
 
-/** What the answer check needs besides the policy: the student's readings and their earlier tries at this exercise, in one statement. */
-async function exerciseContext({ db }: Db, studentId: string, slug: string, exerciseId: string): Promise<{ readings: SavedReadings[]; past: AttemptRow[] }> {
+/** What the answer check needs: the student's readings, their earlier tries at this exercise and the lesson's policy, in one statement. */
+async function exerciseContext(
+  { db }: Db,
+  studentId: string,
+  slug: string,
+  exerciseId: string,
+): Promise<{ readings: SavedReadings[]; past: AttemptRow[]; policy: LessonPolicy | null }> {
   const [row] = await exerciseContextStatement(db).execute({ studentId, slug, exerciseId });
-  return { readings: (row.readings as Parameters<typeof toSavedReadings>[0][]).map(toSavedReadings), past: row.past as AttemptRow[] };
+  return {
+    readings: (row.readings as Parameters<typeof toSavedReadings>[0][]).map(toSavedReadings),
+    past: row.past as AttemptRow[],
+    policy: policiesOf(row.policies).get(slug) ?? null,
+  };
 }
 
 export interface LessonState {
@@ -359,14 +368,16 @@ const lessonRowsStatement = preparedOnce((db) => {
       photos: jsonRows(sql`select json_agg(json_build_object('photoId', ${photos.photoId}, 'id', ${photos.id}, 'contentType', ${photos.contentType},
         'bytes', ${photos.bytes}) order by ${photos.createdAt}) from ${photos} where ${mine(photos)}`),
       lastPlace: sql<string | null>`(select ${lessonVisits.lastPlace} from ${lessonVisits} where ${mine(lessonVisits)})`,
+      policies: lessonPolicyJson(db),
     })
     .from(sql`(select 1) as one`)
     .prepare("lesson_rows");
 });
 
-/** Everything a student's lesson page shows, in two statements whatever the lesson: the student's rows, and the policy. */
+/** Everything a student's lesson page shows, in one statement whatever the lesson: the student's rows and the policy. */
 export async function loadLessonState({ db }: Db, studentId: string, slug: string): Promise<LessonState> {
-  const [[row], policy] = await Promise.all([lessonRowsStatement(db).execute({ studentId, slug }), lessonPolicyFor({ db }, studentId, slug)]);
+  const [row] = await lessonRowsStatement(db).execute({ studentId, slug });
+  const policy = policiesOf(row.policies).get(slug) ?? null;
   const attemptRows = row.attempts as AttemptRow[];
   const predictionRows = row.predictions as { predictionId: string; choice: string }[];
   const readings = (row.readings as Parameters<typeof toSavedReadings>[0][]).map(toSavedReadings);

@@ -3,9 +3,8 @@
 // the answer check and /learn read it in one query, whatever the number of classes; nothing on the
 // student's page says that an accommodation exists, it simply applies.
 import { and, eq, inArray, isNull, sql, type Placeholder, type SQL } from "drizzle-orm";
-import { alias } from "drizzle-orm/pg-core";
+import { alias, type AnyPgColumn } from "drizzle-orm/pg-core";
 import type { Database } from "~/db/client.server";
-import { preparedOnce } from "~/db/prepared.server";
 import { accommodations, assignments, classes, enrollments, type LatePolicy } from "~/db/schema.server";
 import { DAY_MS, formatDue } from "./time";
 
@@ -27,25 +26,51 @@ export interface LessonPolicy {
 
 type Queryable = Pick<Database, "select">;
 
-/** The rows behind the policies: the student's assignments (in classes not archived) with their accommodations. */
-function policyRows(db: Queryable, where: (lessonSlug: typeof assignments.lessonSlug) => SQL | undefined, studentId: string | Placeholder) {
+/** A value or the placeholder of a prepared statement. */
+type Param = string | Placeholder;
+
+/** One row behind the policies, as the JSON of policyRowsJson has it (dates as ISO text). */
+interface PolicyRow {
+  assignmentId: string;
+  classId: string;
+  className: string;
+  lessonSlug: string;
+  opensAt: string;
+  dueAt: string;
+  latePolicy: LatePolicy;
+  latePenaltyPercent: number;
+  timeZone: string;
+  generalAttempts: number | null;
+  generalDays: number | null;
+  specificAttempts: number | null;
+  specificDays: number | null;
+}
+
+/**
+ * The rows behind the policies as one JSON array: the student's assignments (in classes not archived)
+ * with their accommodations. A sub-select, so that the lesson page and the answer check carry it as
+ * one more column of the statement that reads the student's rows (one round trip, not two).
+ */
+export function policyRowsJson(db: Queryable, studentId: Param, where: (lessonSlug: typeof assignments.lessonSlug) => SQL | undefined): SQL {
   const general = alias(accommodations, "general_accommodation");
   const specific = alias(accommodations, "specific_accommodation");
-  return db
+  // Each column named, so that the JSON object of a row has one key per field (two tables have an "id").
+  const field = (column: AnyPgColumn, name: keyof PolicyRow) => sql`${column}`.as(name);
+  const rows = db
     .select({
-      assignmentId: assignments.id,
-      classId: classes.id,
-      className: classes.name,
-      lessonSlug: assignments.lessonSlug,
-      opensAt: assignments.opensAt,
-      dueAt: assignments.dueAt,
-      latePolicy: assignments.latePolicy,
-      latePenaltyPercent: assignments.latePenaltyPercent,
-      timeZone: classes.timeZone,
-      generalAttempts: general.extraAttempts,
-      generalDays: general.extraDays,
-      specificAttempts: specific.extraAttempts,
-      specificDays: specific.extraDays,
+      assignmentId: field(assignments.id, "assignmentId"),
+      classId: field(classes.id, "classId"),
+      className: field(classes.name, "className"),
+      lessonSlug: field(assignments.lessonSlug, "lessonSlug"),
+      opensAt: field(assignments.opensAt, "opensAt"),
+      dueAt: field(assignments.dueAt, "dueAt"),
+      latePolicy: field(assignments.latePolicy, "latePolicy"),
+      latePenaltyPercent: field(assignments.latePenaltyPercent, "latePenaltyPercent"),
+      timeZone: field(classes.timeZone, "timeZone"),
+      generalAttempts: field(general.extraAttempts, "generalAttempts"),
+      generalDays: field(general.extraDays, "generalDays"),
+      specificAttempts: field(specific.extraAttempts, "specificAttempts"),
+      specificDays: field(specific.extraDays, "specificDays"),
     })
     .from(enrollments)
     .innerJoin(classes, and(eq(classes.id, enrollments.classId), isNull(classes.archivedAt)))
@@ -59,19 +84,16 @@ function policyRows(db: Queryable, where: (lessonSlug: typeof assignments.lesson
       and(eq(specific.classId, classes.id), eq(specific.studentId, enrollments.studentId), eq(specific.assignmentId, assignments.id)),
     )
     .where(and(eq(enrollments.studentId, studentId), where(assignments.lessonSlug)));
+  return sql`coalesce((select json_agg(policy_row) from ${rows} as policy_row), '[]'::json)`;
 }
 
-type PolicyRow = Awaited<ReturnType<typeof policyRows>>[number];
-
-/** One lesson's rows, prepared: every lesson page and every answer check asks for them. */
-const oneLessonRows = preparedOnce((db) =>
-  policyRows(db, (lessonSlug) => eq(lessonSlug, sql.placeholder("slug")), sql.placeholder("studentId")).prepare("lesson_policy"),
-);
-
-/** When two of the student's classes assign the same lesson, the more generous one holds (the later due date, the more tries). */
-function policiesOf(rows: PolicyRow[]): Map<string, LessonPolicy> {
+/**
+ * The policies, by lesson, from the rows of policyRowsJson. When two of the student's classes assign
+ * the same lesson, the more generous one holds (the later due date, the more tries).
+ */
+export function policiesOf(rows: unknown): Map<string, LessonPolicy> {
   const policies = new Map<string, LessonPolicy>();
-  for (const row of rows) {
+  for (const row of rows as PolicyRow[]) {
     const policy = toPolicy(row);
     const held = policies.get(row.lessonSlug);
     if (!held) {
@@ -87,11 +109,10 @@ function policiesOf(rows: PolicyRow[]): Map<string, LessonPolicy> {
 /** The policy of every assigned lesson for a student (or only `slugs`), one query. */
 export async function lessonPolicies({ db }: { db: Queryable }, studentId: string, slugs?: string[]): Promise<Map<string, LessonPolicy>> {
   if (slugs && slugs.length === 0) return new Map();
-  return policiesOf(await policyRows(db, (lessonSlug) => (slugs ? inArray(lessonSlug, slugs) : undefined), studentId));
-}
-
-export async function lessonPolicyFor({ db }: { db: Database }, studentId: string, slug: string): Promise<LessonPolicy | null> {
-  return policiesOf(await oneLessonRows(db).execute({ studentId, slug })).get(slug) ?? null;
+  const [row] = await db
+    .select({ rows: policyRowsJson(db, studentId, (lessonSlug) => (slugs ? inArray(lessonSlug, slugs) : undefined)) })
+    .from(sql`(select 1) as one`);
+  return policiesOf(row.rows);
 }
 
 /** An accommodation for one assignment replaces the class-wide one for that lesson. */
@@ -103,21 +124,7 @@ export function effectiveAccommodation(
   return { extraAttempts: chosen?.extraAttempts ?? 0, extraDays: chosen?.extraDays ?? 0 };
 }
 
-function toPolicy(row: {
-  assignmentId: string;
-  classId: string;
-  className: string;
-  lessonSlug: string;
-  opensAt: Date;
-  dueAt: Date;
-  latePolicy: LatePolicy;
-  latePenaltyPercent: number;
-  timeZone: string;
-  generalAttempts: number | null;
-  generalDays: number | null;
-  specificAttempts: number | null;
-  specificDays: number | null;
-}): LessonPolicy {
+function toPolicy(row: PolicyRow): LessonPolicy {
   const extra = effectiveAccommodation(
     row.generalAttempts === null ? null : { extraAttempts: row.generalAttempts, extraDays: row.generalDays ?? 0 },
     row.specificAttempts === null ? null : { extraAttempts: row.specificAttempts, extraDays: row.specificDays ?? 0 },
@@ -127,9 +134,9 @@ function toPolicy(row: {
     classId: row.classId,
     className: row.className,
     lessonSlug: row.lessonSlug,
-    opensAt: row.opensAt,
-    classDueAt: row.dueAt,
-    dueAt: new Date(row.dueAt.getTime() + extra.extraDays * DAY_MS),
+    opensAt: new Date(row.opensAt),
+    classDueAt: new Date(row.dueAt),
+    dueAt: new Date(Date.parse(row.dueAt) + extra.extraDays * DAY_MS),
     latePolicy: row.latePolicy,
     latePenaltyPercent: row.latePenaltyPercent,
     extraAttempts: extra.extraAttempts,
