@@ -10,6 +10,7 @@ import { memberships, organisations, teacherInvitations, users, verificationToke
 import { consumeEmailToken, createEmailToken, EMAIL_TOKEN_MINUTES, peekEmailToken } from "~/lib/auth/email-tokens.server";
 import { renderEmail, sendMail } from "~/lib/mailer.server";
 import { hashPassword } from "~/lib/passwords.server";
+import { formatLongDate } from "~/lib/teaching/time";
 
 type Db = { db: Database };
 
@@ -36,7 +37,6 @@ export interface InvitationView {
   expired: boolean;
 }
 
-const longDate = (date: Date) => new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(date);
 
 async function mailInvitation(db: Database, invitationId: string, appUrl: string) {
   const [row] = await db
@@ -59,7 +59,7 @@ async function mailInvitation(db: Database, invitationId: string, appUrl: string
         "Open the link to accept. If you are new to Bendwise you choose a password there; if you already have an account, the school is added to it.",
       ],
       button: { label: "Accept the invitation", url: `${appUrl.replace(/\/$/, "")}/join/teacher?token=${token}` },
-      footnote: `The link works until ${longDate(expiresAt)}. Not expecting this? Ignore this e-mail: nothing happens unless you accept.`,
+      footnote: `The link works until ${formatLongDate(expiresAt)}. Not expecting this? Ignore this e-mail: nothing happens unless you accept.`,
     }),
   });
   return expiresAt;

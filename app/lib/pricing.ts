@@ -2,6 +2,15 @@
 export const SCHOOL_SEAT_PRICE_CENTS = 900;
 export const FAMILY_SEAT_PRICE_CENTS = 1400;
 
+// Making an Intl.NumberFormat costs far more than using one (the landing page shows several prices).
+const priceFormats = new Map<string, Intl.NumberFormat>();
+
 export function formatPrice(cents: number, currency = "usd"): string {
-  return new Intl.NumberFormat("en-US", { style: "currency", currency: currency.toUpperCase() }).format(cents / 100);
+  const code = currency.toUpperCase();
+  let format = priceFormats.get(code);
+  if (!format) {
+    format = new Intl.NumberFormat("en-US", { style: "currency", currency: code });
+    priceFormats.set(code, format);
+  }
+  return format.format(cents / 100);
 }

@@ -7,6 +7,7 @@ import type { OutgoingMail } from "~/lib/mailer.server";
 import { renderEmail } from "~/lib/mailer.server";
 import { formatPrice } from "~/lib/pricing";
 import { seatLedgerForYear } from "~/lib/seats.server";
+import { formatLongDate } from "~/lib/teaching/time";
 
 type Purchase = typeof seatPurchases.$inferSelect;
 
@@ -15,7 +16,6 @@ export function receiptNumber(purchaseId: string): string {
   return `BW-${purchaseId.replace(/-/g, "").slice(0, 10).toUpperCase()}`;
 }
 
-const longDate = (date: Date) => new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(date);
 
 export interface ReceiptView {
   number: string;
@@ -46,7 +46,7 @@ export function receiptView(purchase: Purchase, organisationName: string): Recei
     seats: purchase.seats,
     amount: formatPrice(purchase.amountCents, purchase.currency),
     unitPrice: formatPrice(unit, purchase.currency),
-    paidOn: purchase.paidAt ? longDate(purchase.paidAt) : null,
+    paidOn: purchase.paidAt ? formatLongDate(purchase.paidAt) : null,
     howPaid,
     purchaseOrder: purchase.purchaseOrder,
     providerRef: purchase.providerRef,
@@ -174,7 +174,7 @@ export function purchaseSummary(purchase: Purchase): PurchaseSummary {
   }[state];
   return {
     id: purchase.id,
-    orderedOn: longDate(purchase.createdAt),
+    orderedOn: formatLongDate(purchase.createdAt),
     schoolYear: purchase.schoolYear,
     seats: purchase.seats,
     amount: view.amount,

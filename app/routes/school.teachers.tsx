@@ -10,6 +10,7 @@ import { memberships, users } from "~/db/schema.server";
 import { serverEnv } from "~/env.server";
 import { assertSameOrigin, requireRole } from "~/lib/auth.server";
 import { INVITATION_DAYS, inviteSchema, inviteTeacher, openInvitations, resendInvitation, withdrawInvitation } from "~/lib/invitations.server";
+import { formatLongDate } from "~/lib/teaching/time";
 
 const intentSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("invite"), displayName: z.string(), email: z.string() }),
@@ -17,7 +18,6 @@ const intentSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("withdraw"), invitationId: z.uuid() }),
 ]);
 
-const longDate = (date: Date) => new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(date);
 
 export async function loader({ request }: Route.LoaderArgs) {
   const { membership } = await requireRole(request, ["school_admin"]);
@@ -35,7 +35,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     school: membership.organisationName,
     days: INVITATION_DAYS,
     teachers,
-    invitations: invitations.map((i) => ({ id: i.id, email: i.email, displayName: i.displayName, expired: i.expired, untilText: longDate(i.expiresAt), invitedText: longDate(i.invitedOn) })),
+    invitations: invitations.map((i) => ({ id: i.id, email: i.email, displayName: i.displayName, expired: i.expired, untilText: formatLongDate(i.expiresAt), invitedText: formatLongDate(i.invitedOn) })),
   };
 }
 
@@ -50,7 +50,7 @@ export async function action({ request }: Route.ActionArgs) {
   if (input.intent === "resend") {
     const until = await resendInvitation({ db }, schoolId, input.invitationId, appUrl);
     if (!until) return data({ intent: "resend", problem: "That invitation is no longer open." }, { status: 404 });
-    return { intent: "resend", done: `Sent again, with a new link that works until ${longDate(until)}. The earlier link no longer works.` };
+    return { intent: "resend", done: `Sent again, with a new link that works until ${formatLongDate(until)}. The earlier link no longer works.` };
   }
   if (input.intent === "withdraw") {
     const gone = await withdrawInvitation({ db }, schoolId, input.invitationId);
@@ -66,7 +66,7 @@ export async function action({ request }: Route.ActionArgs) {
   }
   const result = await inviteTeacher({ db }, { organisationId: schoolId, invitedBy: user.id, appUrl, ...checked.data });
   if (!result.ok) return data({ intent: "invite", values, fieldErrors: { [result.field]: result.message } }, { status: 409 });
-  return { intent: "invite", done: `Invitation sent to ${checked.data.email}. The link works until ${longDate(result.expiresAt)}.` };
+  return { intent: "invite", done: `Invitation sent to ${checked.data.email}. The link works until ${formatLongDate(result.expiresAt)}.` };
 }
 
 type Answer = { intent: string; done?: string; problem?: string; values?: { displayName: string; email: string }; fieldErrors?: Record<string, string> };

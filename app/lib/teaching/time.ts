@@ -88,6 +88,11 @@ export function formatDue(date: Date | string, timeZone: string, now: Date = new
   }).format(instant);
 }
 
+/** "2 December 2026" (in UTC): the day of an order, a receipt, an invitation's last day. */
+export function formatLongDate(date: Date): string {
+  return formatter("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(date);
+}
+
 /** "11 Dec 2026, 16:05:09" for lists of attempts. */
 export function formatMoment(date: Date | string, timeZone: string): string {
   return formatter("en-GB", {
