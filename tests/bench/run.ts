@@ -310,30 +310,6 @@ try {
     };
   };
 
-  // BENCH_HOLD=<file>: write what a person needs to load this server by hand (its address, the
-  // database, the secret, a few sessions), keep everything running and wait for Ctrl-C.
-  if (process.env.BENCH_HOLD) {
-    writeFileSync(
-      process.env.BENCH_HOLD,
-      JSON.stringify(
-        {
-          appUrl,
-          ...appEnv,
-          buildDir,
-          lessonPath: `/learn/${PAGE_LESSON}`,
-          gradebookPath: `/api/teach/classes/${school.gradebookClass.id}/gradebook`,
-          teacherCookie,
-          studentCookies: school.students.slice(0, 50).map((s) => cookieOf.get(s.id)),
-          answerRequests: Array.from({ length: 6_000 }, (_, i) => answerRequest(i)),
-        },
-        null,
-        2,
-      ),
-    );
-    console.log(`  holding: details in ${process.env.BENCH_HOLD}; Ctrl-C ends the server and the database`);
-    await new Promise(() => {});
-  }
-
   // Every invented student has signed in and landed on their course page before, as a student opening
   // a lesson has: so the session cookie has been read once (Auth.js's decryption, kept per cookie
   // until the session ends) and the loads measure the lesson page and the answer, not a first sign-in.
@@ -350,7 +326,32 @@ try {
     }),
   );
   console.log(`  ${school.students.length} students in ${((performance.now() - started) / 1000).toFixed(1)} s`);
+
   const gradebookPath = `/api/teach/classes/${school.gradebookClass.id}/gradebook`;
+
+  // BENCH_HOLD=<file>: write what a person needs to load this server by hand (its address, the
+  // database, the secret, every student's session), keep everything running and wait for Ctrl-C.
+  if (process.env.BENCH_HOLD) {
+    writeFileSync(
+      process.env.BENCH_HOLD,
+      JSON.stringify(
+        {
+          appUrl,
+          ...appEnv,
+          buildDir,
+          lessonPath: `/learn/${PAGE_LESSON}`,
+          gradebookPath,
+          teacherCookie,
+          studentCookies: school.students.map((s) => cookieOf.get(s.id)),
+          answerRequests: Array.from({ length: 6_000 }, (_, i) => answerRequest(i)),
+        },
+        null,
+        2,
+      ),
+    );
+    console.log(`  holding: details in ${process.env.BENCH_HOLD}; Ctrl-C ends the server and the database`);
+    await new Promise(() => {});
+  }
   const shownRevision = ((await (await fetch(`${appUrl}${gradebookPath}`, { headers: { cookie: teacherCookie } })).json()) as { gradebook: { revision: string } }).gradebook.revision;
 
   step(`Load: ${CONNECTIONS} connections, ${WARM_UP_SECONDS} s warm-up then ${SECONDS} s each, autocannon in this process`);
