@@ -76,13 +76,17 @@ export async function clientLoader({ serverLoader }: Route.ClientLoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   assertSameOrigin(request);
-  // Kept unread, so that during a database outage the message can be shown beside the part that was sent.
-  const sent = request.clone();
+  // The form is read here, once, so that during a database outage the message can be shown beside the
+  // part that was sent. A photo's form is read by the photo action with its size limits; the outage
+  // reply reads a copy of that request (photos are rare, so only they pay for the copy).
+  const multipart = (request.headers.get("content-type") ?? "").startsWith("multipart/form-data");
+  const sentPhoto = multipart ? request.clone() : null;
+  const form = multipart ? null : await request.formData().catch(() => new FormData());
   try {
-    return await lessonAction(request, params.slug);
+    return await lessonAction(request, form, params.slug);
   } catch (error) {
     if (!isDatabaseUnavailable(error)) throw error;
-    return outageReply(sent);
+    return outageReply(form ?? (await sentPhoto!.formData().catch(() => null)));
   }
 }
 
@@ -91,8 +95,7 @@ export async function action({ request, params }: Route.ActionArgs) {
  * the lesson that was sent (an exercise, a prediction, readings, a written answer, a photo), so the
  * student reads why next to it and what they typed stays on the page to send again.
  */
-async function outageReply(sent: Request) {
-  const form = await sent.formData().catch(() => null);
+function outageReply(form: FormData | null) {
   const id = (name: string) => {
     const value = form?.get(name);
     return typeof value === "string" && idSchema.safeParse(value).success ? value : undefined;
@@ -111,16 +114,14 @@ async function outageReply(sent: Request) {
   );
 }
 
-async function lessonAction(request: Request, slugParam: string) {
+/** `form` is the request's form, or null for a photo (multipart, read by the photo action). */
+async function lessonAction(request: Request, form: FormData | null, slugParam: string) {
   const { user } = await requireRole(request, ["student"]);
   const lesson = findLesson(slugParam);
   if (!lesson) throw data("There is no lesson at this address.", { status: 404 });
   const slug = lesson.slug;
 
-  if ((request.headers.get("content-type") ?? "").startsWith("multipart/form-data")) {
-    return photoAction(request, user.id, slug);
-  }
-  const form = await request.formData();
+  if (!form) return photoAction(request, user.id, slug);
   const parsed = intentSchema.safeParse(Object.fromEntries(form));
   if (!parsed.success) {
     return data({ error: parsed.error.issues[0]?.message ?? "That request was not understood." }, { status: 400 });
