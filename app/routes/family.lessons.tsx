@@ -11,7 +11,7 @@ import { latePolicy } from "~/db/schema.server";
 import { assertSameOrigin, requireRole } from "~/lib/auth.server";
 import { householdClass, householdsOf } from "~/lib/family/household.server";
 import { listLessons } from "~/lib/lessons.server";
-import { assignLesson, classAssignments, unassignLesson } from "~/lib/teaching/assignments.server";
+import { assignedMessage, assignLesson, classAssignments, unassignLesson } from "~/lib/teaching/assignments.server";
 import { setClassTimeZone } from "~/lib/teaching/classes.server";
 import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
 import { LATE_POLICY_WORDS } from "~/lib/teaching/shared";
@@ -90,9 +90,10 @@ export async function action({ request }: Route.ActionArgs) {
   if (!opensAt) errors.opensAt = "Give the opening as a date and a time.";
   if (!dueAt) errors.dueAt = "Give the due date as a date and a time.";
   if (Object.keys(errors).length > 0) return data({ slug: input.slug, errors }, { status: 400 });
-  const result = await assignLesson({ db }, klass, { slug: input.slug, opensAt: opensAt!, dueAt: dueAt!, latePolicy: input.latePolicy, latePenaltyPercent: 0 });
+  const assignment = { slug: input.slug, opensAt: opensAt!, dueAt: dueAt!, latePolicy: input.latePolicy, latePenaltyPercent: 0 };
+  const result = await assignLesson({ db }, klass, assignment);
   if (!result.ok) return data({ slug: input.slug, errors: { [result.field]: result.message } as Record<string, string> }, { status: 400 });
-  return { slug: input.slug, done: `Assigned, due ${formatDue(dueAt!, klass.timeZone)}.` };
+  return { slug: input.slug, ...assignedMessage(assignment, klass.timeZone) };
 }
 
 /** The browser's own time zone, sent with each form so due dates mean what the parent typed. */
@@ -106,7 +107,7 @@ export default function FamilyLessons({ loaderData, actionData }: Route.Componen
   const { household, timeZone, lessons, gradebook } = loaderData;
   const busy = useNavigation().state !== "idle";
   const browserZone = useBrowserTimeZone(timeZone);
-  const answer = actionData as { slug: string; done?: string; errors?: Record<string, string> } | undefined;
+  const answer = actionData as { slug: string; done?: string; caution?: string; errors?: Record<string, string> } | undefined;
   return (
     <div className="mx-auto max-w-5xl px-5 py-10">
       <p className="mb-1">
@@ -193,6 +194,7 @@ export default function FamilyLessons({ loaderData, actionData }: Route.Componen
                 </p>
               </div>
               {mine?.done ? <Notice tone="done">{mine.done}</Notice> : null}
+              {mine?.caution ? <Notice tone="info">{mine.caution}</Notice> : null}
               {errors.form || errors.slug ? <Notice tone="problem">{errors.form ?? errors.slug}</Notice> : null}
               <Form method="post" key={a ? `${a.opensAt}|${a.dueAt}|${a.latePolicy}` : "new"}>
                 <input type="hidden" name="intent" value="assign" />

@@ -8,7 +8,7 @@ import { db } from "~/db/client.server";
 import { latePolicy } from "~/db/schema.server";
 import { assertSameOrigin } from "~/lib/auth.server";
 import { listLessons } from "~/lib/lessons.server";
-import { assignLesson, classAccommodations, classAssignments, unassignLesson } from "~/lib/teaching/assignments.server";
+import { assignedMessage, assignLesson, classAccommodations, classAssignments, unassignLesson } from "~/lib/teaching/assignments.server";
 import { LATE_POLICY_WORDS } from "~/lib/teaching/shared";
 import { classHeading } from "~/lib/teaching/classes.server";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
@@ -101,15 +101,16 @@ export async function action({ request, params }: Route.ActionArgs) {
     errors.latePenaltyPercent = "Give the points lost per day late as a whole number from 1 to 100.";
   }
   if (Object.keys(errors).length > 0) return data({ slug: input.slug, errors }, { status: 400 });
-  const result = await assignLesson({ db }, klass, { slug: input.slug, opensAt: opensAt!, dueAt: dueAt!, latePolicy: input.latePolicy, latePenaltyPercent: penalty });
+  const assignment = { slug: input.slug, opensAt: opensAt!, dueAt: dueAt!, latePolicy: input.latePolicy, latePenaltyPercent: penalty };
+  const result = await assignLesson({ db }, klass, assignment);
   if (!result.ok) return data({ slug: input.slug, errors: { [result.field]: result.message } as Record<string, string> }, { status: 400 });
-  return { slug: input.slug, done: `Assigned, due ${formatDue(dueAt!, klass.timeZone)}.` };
+  return { slug: input.slug, ...assignedMessage(assignment, klass.timeZone) };
 }
 
 export default function Assignments({ loaderData, actionData }: Route.ComponentProps) {
   const { klass, timeZone, lessons, accommodations } = loaderData;
   const busy = useNavigation().state === "submitting";
-  const answer = actionData as { slug: string; done?: string; errors?: Record<string, string> } | undefined;
+  const answer = actionData as { slug: string; done?: string; caution?: string; errors?: Record<string, string> } | undefined;
   return (
     <div className="mx-auto max-w-5xl px-5 py-10">
       <ClassHeader klass={klass} />
@@ -139,6 +140,7 @@ export default function Assignments({ loaderData, actionData }: Route.ComponentP
                 </p>
               </div>
               {mine?.done ? <Notice tone="done">{mine.done}</Notice> : null}
+              {mine?.caution ? <Notice tone="info">{mine.caution}</Notice> : null}
               {mine?.errors?.form || mine?.errors?.slug ? <Notice tone="problem">{mine.errors.form ?? mine.errors.slug}</Notice> : null}
               <details open={Boolean(mine?.errors && Object.keys(mine.errors).length > 0)} className="group">
                 <summary className="cursor-pointer font-bold text-spruce">

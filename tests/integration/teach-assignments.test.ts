@@ -99,6 +99,26 @@ describe("assigning a lesson", () => {
     const [row] = await db.select().from(assignments).where(eq(assignments.classId, ids.mapleA.id));
     expect(row.dueAt.toISOString()).toBe("2026-12-12T23:00:00.000Z");
   });
+
+  it("saves a due date that has already passed, and says what it means for the students", async () => {
+    const now = Date.now();
+    const past = { opensAt: local(new Date(now - 10 * DAY)), dueAt: local(new Date(now - 2 * DAY)) };
+    const closed = await assign({ ...past, latePolicy: "closed" });
+    expect(closed.status).toBe(200);
+    expect((closed.body as { caution?: string }).caution).toMatch(/already passed, so the lesson is closed: students can read it but their answers are not taken/);
+    const [row] = await db.select().from(assignments).where(eq(assignments.classId, ids.mapleA.id));
+    expect(row).toMatchObject({ latePolicy: "closed" });
+    expect(row.dueAt.getTime()).toBeLessThan(now);
+
+    const penalty = await assign({ ...past, latePolicy: "penalty", latePenaltyPercent: "10" });
+    expect((penalty.body as { caution?: string }).caution).toMatch(/lose 10 points for each day after it/);
+    const accept = await assign({ ...past, latePolicy: "accept" });
+    expect((accept.body as { caution?: string }).caution).toMatch(/late work counts in full/);
+
+    const ahead = await assign({ opensAt: local(new Date(now - DAY)), dueAt: local(new Date(now + 5 * DAY)) });
+    expect(ahead.body).toMatchObject({ done: expect.stringMatching(/^Assigned, due /) });
+    expect((ahead.body as { caution?: string }).caution).toBeUndefined();
+  });
 });
 
 describe("accommodations, applied quietly on the student's side", () => {

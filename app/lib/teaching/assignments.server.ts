@@ -41,6 +41,22 @@ export async function classAssignments({ db }: Db, classId: string): Promise<Cla
 
 export type AssignInput = { slug: string; opensAt: Date; dueAt: Date; latePolicy: LatePolicy; latePenaltyPercent: number };
 
+/**
+ * What the teacher (or parent) reads once a lesson is assigned: its due date, and a caution when that
+ * date has already passed, since the students then meet the lesson late or closed from the start.
+ * The assignment is saved either way (a past date can be on purpose, such as for work done on paper).
+ */
+export function assignedMessage(input: Pick<AssignInput, "dueAt" | "latePolicy" | "latePenaltyPercent">, timeZone: string, now: Date = new Date()): { done: string; caution?: string } {
+  const done = `Assigned, due ${formatDue(input.dueAt, timeZone, now)}.`;
+  if (input.dueAt.getTime() > now.getTime()) return { done };
+  const consequence = {
+    accept: "answers from now on are late, and late work counts in full",
+    penalty: `answers from now on are late and lose ${input.latePenaltyPercent} points for each day after it`,
+    closed: "the lesson is closed: students can read it but their answers are not taken",
+  }[input.latePolicy];
+  return { done, caution: `That due date has already passed, so ${consequence}. If that is not what you meant, choose a later due date.` };
+}
+
 /** Assigns a lesson, or changes its dates and policy when it is already assigned. */
 export async function assignLesson({ db }: Db, klass: TeacherClass, input: AssignInput): Promise<{ ok: true; id: string } | { ok: false; field: string; message: string }> {
   if (!findLesson(input.slug)) return { ok: false, field: "slug", message: "That lesson is not part of the course." };
