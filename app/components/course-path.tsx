@@ -48,7 +48,7 @@ export function CoursePath({ lessons, dueDates = {} }: { lessons: LessonProgress
                   {lesson.number}. {lesson.title}
                 </span>
                 <span className="text-[length:var(--text-step--1)] text-ink-soft">
-                  {state} · {lesson.requiredDone} of {lesson.requiredTotal} done · about {lesson.minutes} min
+                  {state} · {lesson.requiredDone} of {lesson.requiredTotal} parts done · about {lesson.minutes} min
                   {dueDates[lesson.slug] ? ` · due ${dueDates[lesson.slug]}` : ""}
                 </span>
               </span>

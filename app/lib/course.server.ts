@@ -348,6 +348,9 @@ export interface LessonState {
   writtenAnswers: Record<string, { claim: string; evidence: string; reasoning: string; handedIn: boolean; reviewComment: string | null; reviewScores: unknown }>;
   photos: Record<string, { id: string; contentType: string; bytes: number }[]>;
   lastPlace: string | null;
+  /** the parts that count for finishing the lesson (its required exercises and written answers), and how many are done: as /learn counts them */
+  requiredDone: number;
+  requiredTotal: number;
   complete: boolean;
   /** the teacher's assignment of this lesson to the student, or null when it is not assigned */
   assignment: AssignmentNotice | null;
@@ -397,9 +400,11 @@ export async function loadLessonState({ db }: Db, studentId: string, slug: strin
   const photoMap: LessonState["photos"] = {};
   for (const p of photoRows) (photoMap[p.photoId] ??= []).push({ id: p.id, contentType: p.contentType, bytes: p.bytes });
 
-  const complete =
-    Object.values(exercises).every((e) => !e.required || e.status !== "open") &&
-    requiredAnswers.every((id) => answers[id]?.handedIn);
+  // An exercise is done when it is right or its tries are used up; a written answer when it is handed in.
+  const required = Object.values(exercises).filter((e) => e.required);
+  const requiredDone = required.filter((e) => e.status !== "open").length + requiredAnswers.filter((id) => answers[id]?.handedIn).length;
+  const requiredTotal = required.length + requiredAnswers.length;
+  const complete = requiredDone === requiredTotal;
 
   return {
     exercises,
@@ -408,6 +413,8 @@ export async function loadLessonState({ db }: Db, studentId: string, slug: strin
     writtenAnswers: answers,
     photos: photoMap,
     lastPlace: row.lastPlace ?? null,
+    requiredDone,
+    requiredTotal,
     complete,
     assignment: assignmentNotice(policy),
   };

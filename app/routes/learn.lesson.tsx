@@ -245,8 +245,6 @@ async function photoAction(request: Request, studentId: string, slug: string) {
 export default function LessonPage({ loaderData }: Route.ComponentProps) {
   const { lesson, hash, codeUrl, state, canAnswer, reader, back, previous, next } = loaderData;
   const Lesson = lessonComponent(hash);
-  const exercises = Object.values(state.exercises);
-  const done = exercises.filter((e) => e.status !== "open").length;
   return (
     <article className="mx-auto max-w-3xl px-5 py-10">
       {/* The lesson's compiled code, from our own origin; it runs before hydration (see lesson-code.server.ts). */}
@@ -261,7 +259,7 @@ export default function LessonPage({ loaderData }: Route.ComponentProps) {
         <h1 className="mt-1 mb-3 text-[length:var(--text-step-3)]">{lesson.title}</h1>
         <p className="prose-reading text-[length:var(--text-step-1)] text-ink-soft">{lesson.summary}</p>
         <p className="mt-3 font-ui text-[length:var(--text-step--1)] text-ink-soft" data-testid="lesson-progress">
-          {done} of {exercises.length} exercises finished{state.complete ? " · lesson complete" : ""}
+          {state.requiredDone} of {state.requiredTotal} parts done{state.complete ? " · lesson complete" : ""}
           {state.assignment ? <span data-testid="lesson-due"> · due {state.assignment.dueText}</span> : null}
         </p>
         {state.assignment?.closed ? (
