@@ -19,5 +19,6 @@ declare module "autocannon" {
     duration?: number;
     requests?: Array<{ setupRequest?: (request: Record<string, unknown>, context: Record<string, unknown>) => Record<string, unknown> }>;
   }
+  export type { Result };
   export default function autocannon(options: Options): Promise<Result>;
 }
