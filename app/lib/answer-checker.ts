@@ -44,6 +44,7 @@ export type SlipCode =
   | "total-length-as-change"
   | "multiplied-not-divided"
   | "ratio-upside-down"
+  | "sign-reversed"
   | "unit-factor-10"
   | "unit-factor-100"
   | "unit-factor-1000"
@@ -60,6 +61,8 @@ export const SLIP_HINTS: Readonly<Record<SlipCode, string>> = {
     "It looks like force was multiplied by deformation. Stiffness is force divided by deformation (N ÷ cm gives N/cm).",
   "ratio-upside-down":
     "That is the right ratio turned upside down. Check which quantity goes on top of the fraction.",
+  "sign-reversed":
+    "The size is right but the sign is the other way round: check the order of your subtraction. A deformation is how far the piece moved, the larger reading minus the smaller one.",
   "unit-factor-10": "The value is off by a factor of 10 — a unit slip? Remember 1 cm = 10 mm.",
   "unit-factor-100": "The value is off by a factor of 100 — a unit slip? Remember 1 m = 100 cm, so 1 N/cm = 100 N/m.",
   "unit-factor-1000": "The value is off by a factor of 1000 — a unit slip? Remember 1 m = 1000 mm, 1 kN = 1000 N and 1 kg = 1000 g.",
@@ -534,6 +537,9 @@ function slipCandidates(expected: ExpectedAnswer, expectedUnit: string): Candida
       }
     }
   }
+  // The right size with the other sign: a subtraction the other way round, such as a bent strip's
+  // loaded height minus its unloaded height (common practice, no source: the slip teachers meet most).
+  if (expected.value !== 0) add("sign-reversed", -expected.value, expectedUnit);
   if (isForce) {
     const asNewtons = convertUnits(expected.value, expectedUnit, "N");
     if (asNewtons !== null) add("mass-not-weight", asNewtons / G_N_PER_KG, "kg");

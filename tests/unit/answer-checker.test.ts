@@ -339,6 +339,16 @@ describe("slips: each recognised and named (invented exercise numbers)", () => {
     expect(slipOf("0.333", { value: 3, unit: "" })).toBe("ratio-upside-down");
   });
 
+  it("the right size with the sign reversed: a subtraction the other way round", () => {
+    expect(slipOf("-2.5 cm", deformation)).toBe("sign-reversed");
+    expect(slipOf("-25 mm", deformation)).toBe("sign-reversed");
+    expect(slipOf("-1.8 cm", { value: 1.8, unit: "cm" })).toBe("sign-reversed");
+    expect(checkAnswer("-1.8 cm", { value: 1.8, unit: "cm" }).message).toMatch(/order of your subtraction/);
+    expect(slipOf("0.4 mm", { value: -0.4, unit: "mm", tolerance: { absolute: 0 } })).toBe("sign-reversed");
+    // Nothing to reverse in a zero.
+    expect(checkAnswer("-0 cm", { value: 0, unit: "cm", tolerance: { absolute: 0.05 } }).outcome).toBe("correct");
+  });
+
   it("a unit slip by a factor of 10, 100 or 1000, either way", () => {
     expect(slipOf("25 cm", { value: 2.5, unit: "cm" })).toBe("unit-factor-10");
     expect(slipOf("25", { value: 2.5, unit: "cm" })).toBe("unit-factor-10");
