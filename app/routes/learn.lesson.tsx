@@ -81,7 +81,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   // reply reads a copy of that request (photos are rare, so only they pay for the copy).
   const multipart = (request.headers.get("content-type") ?? "").startsWith("multipart/form-data");
   const sentPhoto = multipart ? request.clone() : null;
-  const form = multipart ? null : await request.formData().catch(() => new FormData());
+  const form = multipart ? null : await request.formData();
   try {
     return await lessonAction(request, form, params.slug);
   } catch (error) {
