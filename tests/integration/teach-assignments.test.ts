@@ -71,6 +71,10 @@ describe("assigning a lesson", () => {
       opensAt: expect.stringMatching(/date and a time/),
       latePenaltyPercent: expect.stringMatching(/1 to 100/),
     });
+    const absurd = await assign({ opensAt: "1900-01-01T08:00", dueAt: "9999-12-31T17:00" });
+    expect((absurd.body as { errors: Record<string, string> }).errors).toMatchObject({ opensAt: expect.stringMatching(/within 500 days of today/) });
+    const farDue = await assign({ opensAt: local(new Date()), dueAt: local(new Date(Date.now() + 600 * DAY)) });
+    expect((farDue.body as { errors: Record<string, string> }).errors.dueAt).toMatch(/due date within 500 days of today/);
     const unknown = await assign({ slug: "99-nothing", opensAt: "2026-12-01T08:00", dueAt: "2026-12-11T17:00" });
     expect((unknown.body as { errors: Record<string, string> }).errors.slug).toMatch(/not part of the course/);
     expect(await db.select().from(assignments).where(eq(assignments.classId, ids.mapleA.id))).toHaveLength(0);
@@ -111,9 +115,9 @@ describe("assigning a lesson", () => {
     expect(row.dueAt.getTime()).toBeLessThan(now);
 
     const penalty = await assign({ ...past, latePolicy: "penalty", latePenaltyPercent: "10" });
-    expect((penalty.body as { caution?: string }).caution).toMatch(/lose 10 points for each day after it/);
+    expect((penalty.body as { caution?: string }).caution).toMatch(/work done after it is late and loses 10 points for each day after it/);
     const accept = await assign({ ...past, latePolicy: "accept" });
-    expect((accept.body as { caution?: string }).caution).toMatch(/late work counts in full/);
+    expect((accept.body as { caution?: string }).caution).toMatch(/work done after it is late \(late work counts in full\)/);
 
     const ahead = await assign({ opensAt: local(new Date(now - DAY)), dueAt: local(new Date(now + 5 * DAY)) });
     expect(ahead.body).toMatchObject({ done: expect.stringMatching(/^Assigned, due /) });

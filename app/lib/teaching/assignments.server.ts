@@ -6,7 +6,7 @@ import { accommodations, assignments, type LatePolicy } from "~/db/schema.server
 import { findLesson, listLessons } from "~/lib/lessons.server";
 import type { TeacherClass } from "./classes.server";
 import { lessonPolicies } from "./policy.server";
-import { formatDue } from "./time";
+import { DAY_MS, formatDue } from "./time";
 
 export { LATE_POLICY_WORDS } from "./shared";
 
@@ -50,16 +50,27 @@ export function assignedMessage(input: Pick<AssignInput, "dueAt" | "latePolicy" 
   const done = `Assigned, due ${formatDue(input.dueAt, timeZone, now)}.`;
   if (input.dueAt.getTime() > now.getTime()) return { done };
   const consequence = {
-    accept: "answers from now on are late, and late work counts in full",
-    penalty: `answers from now on are late and lose ${input.latePenaltyPercent} points for each day after it`,
+    accept: "work done after it is late (late work counts in full)",
+    penalty: `work done after it is late and loses ${input.latePenaltyPercent} points for each day after it`,
     closed: "the lesson is closed: students can read it but their answers are not taken",
   }[input.latePolicy];
   return { done, caution: `That due date has already passed, so ${consequence}. If that is not what you meant, choose a later due date.` };
 }
 
+/** How far from today an opening or a due date may be (a school year and a summer, either way). */
+export const DATE_RANGE_DAYS = 500;
+
 /** Assigns a lesson, or changes its dates and policy when it is already assigned. */
 export async function assignLesson({ db }: Db, klass: TeacherClass, input: AssignInput): Promise<{ ok: true; id: string } | { ok: false; field: string; message: string }> {
   if (!findLesson(input.slug)) return { ok: false, field: "slug", message: "That lesson is not part of the course." };
+  // Dates a school year can hold, with room: a typo such as 1900 or 9999 is named, not saved.
+  const now = Date.now();
+  if (Math.abs(input.opensAt.getTime() - now) > DATE_RANGE_DAYS * DAY_MS) {
+    return { ok: false, field: "opensAt", message: `Give an opening within ${DATE_RANGE_DAYS} days of today.` };
+  }
+  if (Math.abs(input.dueAt.getTime() - now) > DATE_RANGE_DAYS * DAY_MS) {
+    return { ok: false, field: "dueAt", message: `Give a due date within ${DATE_RANGE_DAYS} days of today.` };
+  }
   if (input.dueAt.getTime() <= input.opensAt.getTime()) return { ok: false, field: "dueAt", message: "The due date must come after the opening." };
   const penalty = input.latePolicy === "penalty" ? input.latePenaltyPercent : 0;
   if (input.latePolicy === "penalty" && (penalty < 1 || penalty > MAX_PENALTY_PERCENT)) {
