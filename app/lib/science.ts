@@ -99,6 +99,54 @@ export function deformationCm(mode: Mode, unloadedCm: number, loadedCm: number):
   return mode === "bend" ? readingDifference(unloadedCm, loadedCm) : readingDifference(loadedCm, unloadedCm);
 }
 
+/** Largest force a reading may give: classroom spring scales read up to 10–50 N (common practice, no source). */
+export const MOST_FORCE_N = 100;
+/** Largest ruler reading, in cm: a metre stick with room to spare (common practice, no source). */
+export const MOST_READING_CM = 300;
+
+/**
+ * Readings no lab of this course can give, in a student's words: a negative force, a force beyond any
+ * classroom spring scale, a reading beyond any ruler, and a load that moved the piece the wrong way
+ * (a bending piece's height rising, a stretched piece getting shorter) by more than one ruler mark.
+ * Each problem names the point it is about (its index), or null for the unloaded reading.
+ */
+export function implausibleReadings(input: {
+  mode: Mode;
+  unloadedCm?: number;
+  resolutionCm: number;
+  points: { forceN: number; readingCm?: number }[];
+}): { point: number | null; problem: string }[] {
+  const problems: { point: number | null; problem: string }[] = [];
+  const cm = (value: number) => `${Number(value.toPrecision(6))} cm`;
+  const { unloadedCm, mode } = input;
+  if (unloadedCm !== undefined && Math.abs(unloadedCm) > MOST_READING_CM) {
+    problems.push({ point: null, problem: `the unloaded reading ${cm(unloadedCm)} is more than any ruler in this lab reads. Check the decimal point.` });
+  }
+  input.points.forEach((p, index) => {
+    if (p.forceN < 0) problems.push({ point: index, problem: "the force cannot be below 0 N." });
+    else if (p.forceN > MOST_FORCE_N) {
+      problems.push({ point: index, problem: `${Number(p.forceN.toPrecision(6))} N is more than a classroom spring scale reads (most go up to 10–50 N). Check the reading.` });
+    }
+    if (p.readingCm === undefined) return;
+    if (Math.abs(p.readingCm) > MOST_READING_CM) {
+      problems.push({ point: index, problem: `a reading of ${cm(p.readingCm)} is more than any ruler in this lab reads. Check the decimal point.` });
+      return;
+    }
+    if (unloadedCm === undefined || Math.abs(unloadedCm) > MOST_READING_CM) return;
+    // One mark the wrong way is reading error; more means a swapped column or a misread ruler.
+    if (deformationCm(mode, unloadedCm, p.readingCm) < -input.resolutionCm - 1e-9) {
+      problems.push({
+        point: index,
+        problem:
+          mode === "bend"
+            ? `the loaded reading ${cm(p.readingCm)} is above the unloaded reading ${cm(unloadedCm)}, but a bending piece moves down under a load. Check both readings.`
+            : `the loaded length ${cm(p.readingCm)} is shorter than the unloaded length ${cm(unloadedCm)}, but a stretched piece gets longer. Check both readings.`,
+      });
+    }
+  });
+  return problems;
+}
+
 /** Stiffness of one reading in N/cm = force (N) ÷ deformation (cm); null when the deformation is 0. */
 export function stiffnessNPerCm(forceN: number, deformationCmValue: number): number | null {
   if (deformationCmValue === 0) return null;

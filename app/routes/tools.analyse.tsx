@@ -10,7 +10,7 @@ import { clientAddress } from "~/lib/auth/throttle.server";
 import { parseAnalysisRequest } from "~/lib/analysis-request";
 import { hitRateLimit } from "~/lib/rate-limit.server";
 import { parseReadingsText } from "~/lib/readings-text";
-import { analyseReadings, formatForStudent, type AnalysisResult } from "~/lib/science";
+import { analyseReadings, formatForStudent, implausibleReadings, type AnalysisResult } from "~/lib/science";
 import { ANALYSIS_REQUESTS_PER_MINUTE } from "./api.analysis";
 
 const formSchema = z.object({
@@ -49,6 +49,11 @@ export async function action({ request }: Route.ActionArgs) {
     resolutionCm: Number(values.resolutionCm.replace(",", ".")),
     points,
   });
+  if (checked.ok) {
+    for (const i of implausibleReadings(checked.data)) {
+      problems.push(i.point === null ? i.problem.replace(/^t/, "T") : `Line ${lines[i.point] ?? i.point + 1}: ${i.problem}`);
+    }
+  }
   if (problems.length > 0 || !checked.ok) {
     const unloadedNamed = problems.some((p) => p.includes("unloaded reading"));
     const fromChecks = checked.ok ? [] : checked.errors.map((e) => inFormWords(e, lines)).filter((p) => !(unloadedNamed && p.includes("unloaded reading")));

@@ -6,7 +6,7 @@ import path from "node:path";
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { exerciseAttempts, users, writtenAnswers } from "~/db/schema.server";
+import { exerciseAttempts, readingSets, users, writtenAnswers } from "~/db/schema.server";
 import {
   continueTarget,
   courseProgress,
@@ -18,6 +18,8 @@ import {
   saveWrittenAnswer,
 } from "~/lib/course.server";
 import { analyseReadings } from "~/lib/science";
+import * as lessonRoute from "~/routes/learn.lesson";
+import { appUrl, runRoute, sessionCookieFor } from "./auth-helpers";
 import { checkLessonFrontmatter, compileCount, compiledLesson, lessonExercises, lessonFolders } from "~/lib/lessons.server";
 
 process.env.BENDWISE_LESSON_CACHE_DIR = mkdtempSync(path.join(tmpdir(), "bendwise-lesson-cache-"));
@@ -133,6 +135,36 @@ describe("own readings", () => {
     const direct = analyseReadings({ mode: "bend", unloadedCm: 20, resolutionCm: 0.1, points: set.points });
     const saved = state.readings["home-lab-a"];
     expect(analyseReadings({ mode: saved.mode, unloadedCm: saved.unloadedCm!, resolutionCm: saved.resolutionCm, points: saved.points })).toEqual(direct);
+  });
+});
+
+describe("own readings sent from the lesson page", () => {
+  it("names every reading no lab can give, row by row, and saves nothing", async () => {
+    const cookie = await sessionCookieFor("student");
+    const fields = new URLSearchParams([
+      ["intent", "save-readings"],
+      ["readingsId", "ruler-readings"],
+      ["mode", "bend"],
+      ["resolutionCm", "0.1"],
+      ["material", "plastic ruler"],
+      ["unloadedCm", "24.0"],
+      // Invented readings: a good row, a reading above the unloaded one, one beyond any ruler, a negative force.
+      ...[["1", "23.7"], ["2", "30"], ["3", "1e5"], ["-2", "23.2"]].flatMap(([f, r]) => [["forceN", f], ["readingCm", r], ["returnReadingCm", ""], ["broke", "0"]]),
+    ]);
+    const request = new Request(`${appUrl}/learn/07-home-lab`, {
+      method: "POST",
+      headers: { "content-type": "application/x-www-form-urlencoded", origin: appUrl, "sec-fetch-site": "same-origin", cookie },
+      body: fields,
+    });
+    const answer = await runRoute(lessonRoute.action as never, request, { slug: "07-home-lab" });
+    expect(answer.status).toBe(400);
+    expect((answer.body as { errors: string[] }).errors).toEqual([
+      "Row 2: the loaded reading 30 cm is above the unloaded reading 24 cm, but a bending piece moves down under a load. Check both readings.",
+      "Row 3: a reading of 100000 cm is more than any ruler in this lab reads. Check the decimal point.",
+      "Row 4: the force cannot be below 0 N.",
+    ]);
+    const saved = await db.select().from(readingSets).where(and(eq(readingSets.studentId, amira), eq(readingSets.lessonSlug, "07-home-lab")));
+    expect(saved.filter((r) => r.readingsId === "ruler-readings")).toEqual([]);
   });
 });
 

@@ -10,6 +10,7 @@ import {
   beamStiffnessScale,
   breakingLoadN,
   deformationCm,
+  implausibleReadings,
   deformationUncertaintyCm,
   designCheck,
   elasticLimit,
@@ -605,5 +606,39 @@ describe("formatForStudent (NIST SP 811 §7.2: a space between number and unit)"
     expect(formatForStudent(65333, "N/m")).toBe("6.53 × 10^4 N/m");
     expect(formatForStudent(2)).toBe("2.00");
     expect(formatForStudent(Number.NaN, "N")).toBe("—");
+  });
+});
+
+describe("readings no lab can give (invented readings)", () => {
+  it("names a negative force, a force beyond a classroom scale, a reading beyond any ruler, and a load that moved the piece the wrong way", () => {
+    const problems = implausibleReadings({
+      mode: "bend",
+      unloadedCm: 24,
+      resolutionCm: 0.1,
+      points: [
+        { forceN: 1, readingCm: 23.7 },
+        { forceN: 2, readingCm: 30 },
+        { forceN: 3, readingCm: 1e5 },
+        { forceN: -2, readingCm: 23.2 },
+        { forceN: 500, readingCm: 22.9 },
+        { forceN: 0.5, readingCm: 24.1 },
+      ],
+    });
+    expect(problems.map((p) => p.point)).toEqual([1, 2, 3, 4]);
+    expect(problems[0].problem).toMatch(/loaded reading 30 cm is above the unloaded reading 24 cm, but a bending piece moves down/);
+    expect(problems[1].problem).toMatch(/100000 cm is more than any ruler/);
+    expect(problems[2].problem).toMatch(/cannot be below 0 N/);
+    expect(problems[3].problem).toMatch(/500 N is more than a classroom spring scale reads/);
+  });
+
+  it("allows one ruler mark the wrong way (reading error), and a stretched band getting longer", () => {
+    expect(implausibleReadings({ mode: "bend", unloadedCm: 24, resolutionCm: 0.1, points: [{ forceN: 0.5, readingCm: 24.1 }] })).toEqual([]);
+    expect(implausibleReadings({ mode: "stretch", unloadedCm: 10, resolutionCm: 0.1, points: [{ forceN: 2, readingCm: 12.5 }] })).toEqual([]);
+    expect(implausibleReadings({ mode: "stretch", unloadedCm: 10, resolutionCm: 0.1, points: [{ forceN: 2, readingCm: 8 }] })[0].problem).toMatch(
+      /shorter than the unloaded length 10 cm, but a stretched piece gets longer/,
+    );
+    expect(implausibleReadings({ mode: "bend", unloadedCm: 5000, resolutionCm: 0.1, points: [{ forceN: 2, readingCm: 20 }] })).toEqual([
+      { point: null, problem: expect.stringMatching(/^the unloaded reading 5000 cm is more than any ruler/) },
+    ]);
   });
 });
