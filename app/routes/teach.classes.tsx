@@ -89,8 +89,8 @@ export default function TeachClasses({ loaderData }: Route.ComponentProps) {
       ) : (
         <ul className="mb-10 grid gap-4 md:grid-cols-2" aria-label="Your classes">
           {active.map((c) => (
-            <li key={c.id} className="card">
-              <h2 className="mb-1 text-[length:var(--text-step-1)]">
+            <li key={c.id} className="card min-w-0">
+              <h2 className="mb-1 text-[length:var(--text-step-1)] [overflow-wrap:anywhere]">
                 <Link to={`/teach/classes/${c.id}/gradebook`}>{c.name}</Link>
               </h2>
               <p className="mb-3 text-[length:var(--text-step--1)] text-ink-soft">

@@ -30,7 +30,7 @@ export function SchoolTeachingSection({ school }: { school: SchoolTeaching }) {
             <tbody>
               {school.classes.map((c) => (
                 <tr key={c.id} className="border-b border-rule" data-class={c.name}>
-                  <th scope="row" className="px-3 py-2">{c.name}</th>
+                  <th scope="row" className="max-w-[16rem] px-3 py-2 [overflow-wrap:anywhere]">{c.name}</th>
                   <td className="px-3 py-2">{c.teacherName}</td>
                   <td className="px-3 py-2">{c.schoolYear}</td>
                   <td className="px-3 py-2">{c.summary.students}</td>
