@@ -28,7 +28,8 @@ function rowsFrom(saved: SavedReadings | undefined): Row[] {
   return rows;
 }
 
-export function ReadingsEntry({ id, mode = "bend", resolutionCm = 0.1 }: { id: string; mode?: Mode; resolutionCm?: number }) {
+/** `example`: what the lesson has the student test here, shown as the example in "What you tested". */
+export function ReadingsEntry({ id, mode = "bend", resolutionCm = 0.1, example = "a plastic ruler" }: { id: string; mode?: Mode; resolutionCm?: number; example?: string }) {
   const { state, canAnswer } = useLesson();
   const saved = state.readings[id];
   const fetcher = useFetcher<{ readingsId?: string; errors?: string[]; saved?: boolean }>();
@@ -58,7 +59,7 @@ export function ReadingsEntry({ id, mode = "bend", resolutionCm = 0.1 }: { id: s
         <div className="mb-3 grid gap-3 sm:grid-cols-2">
           <label className="block">
             <span className="mb-1 block font-bold">What you tested</span>
-            <input name="material" className="field" maxLength={80} value={material} onChange={(e) => setMaterial(e.target.value)} disabled={!canAnswer} placeholder="e.g. a plastic ruler" />
+            <input name="material" className="field" maxLength={80} value={material} onChange={(e) => setMaterial(e.target.value)} disabled={!canAnswer} placeholder={`e.g. ${example}`} />
           </label>
           <label className="block">
             <span className="mb-1 block font-bold">{mode === "bend" ? "Unloaded reading (cm)" : "Unloaded length (cm)"}</span>
@@ -79,13 +80,13 @@ export function ReadingsEntry({ id, mode = "bend", resolutionCm = 0.1 }: { id: s
               {rows.map((row, i) => (
                 <tr key={i}>
                   <td className="px-1 py-1">
-                    <input name="forceN" aria-label={`Force, row ${i + 1}`} className="field w-24" inputMode="decimal" value={row.forceN} onChange={(e) => update(i, { forceN: e.target.value })} disabled={!canAnswer} />
+                    <input name="forceN" aria-label={`Force, row ${i + 1}`} className="field w-[4.5rem] sm:w-24" inputMode="decimal" value={row.forceN} onChange={(e) => update(i, { forceN: e.target.value })} disabled={!canAnswer} />
                   </td>
                   <td className="px-1 py-1">
-                    <input name="readingCm" aria-label={`${loadedLabel}, row ${i + 1}`} className="field w-28" inputMode="decimal" value={row.readingCm} onChange={(e) => update(i, { readingCm: e.target.value })} disabled={!canAnswer} />
+                    <input name="readingCm" aria-label={`${loadedLabel}, row ${i + 1}`} className="field w-[4.5rem] sm:w-28" inputMode="decimal" value={row.readingCm} onChange={(e) => update(i, { readingCm: e.target.value })} disabled={!canAnswer} />
                   </td>
                   <td className="px-1 py-1">
-                    <input name="returnReadingCm" aria-label={`Reading after unloading, row ${i + 1}`} className="field w-28" inputMode="decimal" value={row.returnReadingCm} onChange={(e) => update(i, { returnReadingCm: e.target.value })} disabled={!canAnswer} />
+                    <input name="returnReadingCm" aria-label={`Reading after unloading, row ${i + 1}`} className="field w-[4.5rem] sm:w-28" inputMode="decimal" value={row.returnReadingCm} onChange={(e) => update(i, { returnReadingCm: e.target.value })} disabled={!canAnswer} />
                   </td>
                   <td className="px-1 py-1 text-center">
                     <input type="checkbox" aria-label={`Broke at this load, row ${i + 1}`} className="h-5 w-5" checked={row.broke} onChange={(e) => update(i, { broke: e.target.checked })} disabled={!canAnswer} />
