@@ -63,7 +63,7 @@ export const SLIP_HINTS: Readonly<Record<SlipCode, string>> = {
     "That is the right ratio turned upside down. Check which quantity goes on top of the fraction.",
   "sign-reversed":
     "The size is right but the sign is the other way round: check the order of your subtraction. A deformation is how far the piece moved, the larger reading minus the smaller one.",
-  "unit-factor-10": "The value is off by a factor of 10 — a unit slip? Remember 1 cm = 10 mm.",
+  "unit-factor-10": "The value is off by a factor of 10: check where the decimal point goes, and any unit conversion (1 cm = 10 mm).",
   "unit-factor-100": "The value is off by a factor of 100 — a unit slip? Remember 1 m = 100 cm, so 1 N/cm = 100 N/m.",
   "unit-factor-1000": "The value is off by a factor of 1000 — a unit slip? Remember 1 m = 1000 mm, 1 kN = 1000 N and 1 kg = 1000 g.",
   "mass-not-weight":

@@ -6,7 +6,7 @@ const SLIP_WORDS: Record<string, string> = {
   "multiplied-not-divided": "Multiplied instead of dividing",
   "ratio-upside-down": "Turned the ratio upside down",
   "sign-reversed": "Subtracted the wrong way round (the sign is reversed)",
-  "unit-factor-10": "Off by a factor of 10 (a unit slip)",
+  "unit-factor-10": "Off by a factor of 10 (the decimal point or a unit)",
   "unit-factor-100": "Off by a factor of 100 (a unit slip)",
   "unit-factor-1000": "Off by a factor of 1000 (a unit slip)",
   "mass-not-weight": "Gave a mass instead of a weight in newtons",
