@@ -638,6 +638,24 @@ export function checkAnswer(typed: string, expected: ExpectedAnswer): CheckResul
   }
 }
 
+/**
+ * Check a table of answers, one typed cell per expected row. A cell that cannot be read makes the
+ * whole table "unreadable" (no try used, as for a single answer), naming each such row; otherwise
+ * every wrong row is named with its own feedback, and the outcome (and slip) is the first wrong row's.
+ */
+export function checkTableAnswers(typedCells: readonly string[], expectedCells: readonly ExpectedAnswer[]): CheckResult {
+  const rows = expectedCells.map((expected, i) => ({ row: i + 1, result: checkAnswer(typedCells[i] ?? "", expected) }));
+  const unreadable = rows.filter(({ result }) => result.outcome === "unreadable" || result.outcome === "not-checkable");
+  if (unreadable.length > 0) {
+    const named = unreadable.map(({ row, result }) => result.message.replace(/^We could not read that answer/, `Row ${row} could not be read`).replace(` ${HOW_TO_WRITE}`, ""));
+    const outcome = unreadable.some(({ result }) => result.outcome === "not-checkable") ? "not-checkable" : "unreadable";
+    return { outcome, parsed: null, message: `${named.join(" ")} ${HOW_TO_WRITE}` };
+  }
+  const wrong = rows.filter(({ result }) => result.outcome !== "correct");
+  if (wrong.length === 0) return { outcome: "correct", parsed: null, message: "Every cell is right." };
+  return { ...wrong[0].result, message: wrong.map(({ row, result }) => `Row ${row}: ${result.message}`).join(" ") };
+}
+
 function checkAnswerUnsafe(typed: string, expected: ExpectedAnswer): CheckResult {
   const problems = validateExpectedAnswer(expected);
   if (problems.length > 0) {

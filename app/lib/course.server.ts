@@ -12,7 +12,7 @@ import {
   readingSets,
   writtenAnswers,
 } from "~/db/schema.server";
-import { checkAnswer, type CheckResult } from "./answer-checker";
+import { checkAnswer, checkTableAnswers, type CheckResult } from "./answer-checker";
 import {
   DEFAULT_ATTEMPTS,
   promptOf,
@@ -178,13 +178,7 @@ export function judge(instance: ExerciseInstance, definition: ExerciseDefinition
   }
   if (definition.kind === "table") {
     const cells = submission.kind === "cells" ? submission.cells : [];
-    const expectedCells = instance.cells ?? [];
-    const results = expectedCells.map((expected, i) => checkAnswer(cells[i] ?? "", expected));
-    const firstWrong = results.findIndex((r) => r.outcome !== "correct");
-    const raw = JSON.stringify(cells);
-    if (firstWrong === -1) return { raw, result: { outcome: "correct", parsed: null, message: "Every cell is right." } };
-    const wrong = results[firstWrong];
-    return { raw, result: { ...wrong, message: `Row ${firstWrong + 1}: ${wrong.message}` } };
+    return { raw: JSON.stringify(cells), result: checkTableAnswers(cells, instance.cells ?? []) };
   }
   const answer = submission.kind === "text" ? submission.answer : "";
   if (!instance.expected) {

@@ -8,6 +8,7 @@ import {
   MAX_TYPED_LENGTH,
   SLIP_HINTS,
   checkAnswer,
+  checkTableAnswers,
   convertUnits,
   countSignificantFigures,
   describeKind,
@@ -421,5 +422,28 @@ describe("conversion exercises (unitRequired)", () => {
   });
   it("without the flag, any unit of the same kind is fine", () => {
     expect(checkAnswer("5.2 N/cm", { value: 520, unit: "N/m" }).outcome).toBe("correct");
+  });
+});
+
+describe("a table of answers (invented numbers)", () => {
+  const rows: ExpectedAnswer[] = [
+    { value: 0.5, unit: "cm" },
+    { value: 1.0, unit: "cm" },
+    { value: 1.5, unit: "cm" },
+  ];
+  it("is right when every row is", () => {
+    expect(checkTableAnswers(["0.5 cm", "10 mm", "1.5 cm"], rows)).toMatchObject({ outcome: "correct", message: "Every cell is right." });
+  });
+  it("names every wrong row, with the first wrong row's outcome and slip", () => {
+    const result = checkTableAnswers(["5 cm", "1.0 cm", "-1.5 cm"], rows);
+    expect(result.outcome).toBe("incorrect");
+    expect(result.slip?.code).toBe("unit-factor-10");
+    expect(result.message).toMatch(/^Row 1: .*factor of 10.* Row 3: .*order of your subtraction/);
+  });
+  it("is unreadable (no try used) when a cell cannot be read, naming each such row once and how to write an answer once", () => {
+    const result = checkTableAnswers(["0.5 cm", "two", ""], rows);
+    expect(result.outcome).toBe("unreadable");
+    expect(result.message).toMatch(/^Row 2 could not be read.* Row 3 could not be read/);
+    expect(result.message.match(/Write a number and its unit/g)).toHaveLength(1);
   });
 });
