@@ -2,11 +2,11 @@
 // SQL statements whatever the class size; its JSON route (same door as the page); CSV exports; item
 // analysis; review of written answers; and the school administrator's overview, scoped to their school.
 import { brotliDecompressSync, gunzipSync } from "node:zlib";
-import { eq } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import Papa from "papaparse";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db, sqlStatements } from "~/db/client.server";
-import { accommodations, assignments, classes, enrollments, lessonVisits, readingSets, users, writtenAnswers } from "~/db/schema.server";
+import { accommodations, assignments, classes, enrollments, exerciseAttempts, lessonVisits, readingSets, users, writtenAnswers } from "~/db/schema.server";
 import { loadLessonState } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { analyseItems, classAttempts } from "~/lib/teaching/analysis.server";
@@ -81,6 +81,23 @@ describe("the cells of the gradebook", () => {
     await db.insert(accommodations).values({ classId: ids.mapleB.id, studentId: lateOne.id, assignmentId: null, extraAttempts: 0, extraDays: 2 });
     const after = await loadGradebook({ db }, ids.mapleB.id);
     expect(after.rows.find((r) => r.student.username === "leo.f")!.cells[assignment.id]).toMatchObject({ score: 100, finishedLate: false, accommodated: true });
+
+    // A lesson opened today and due in a week: not started, it does not pull Kira's average down;
+    // started, it counts with its score so far.
+    const nextSlug = listLessons().find((l) => l.slug !== LESSON)!.slug;
+    const [next] = await db
+      .insert(assignments)
+      .values({ classId: ids.mapleB.id, lessonSlug: nextSlug, opensAt: new Date(Date.now() - DAY), dueAt: new Date(Date.now() + 7 * DAY) })
+      .returning();
+    const average = async (username: string) => (await loadGradebook({ db }, ids.mapleB.id)).rows.find((r) => r.student.username === username)!.averageScore;
+    expect(await average("kira.n")).toBe(100);
+    expect(await average("nils.a")).toBe(0);
+    const [nextFirst] = lessonExercises(nextSlug).exercises.filter((e) => e.required ?? true);
+    await recordTry(onTime.id, nextSlug, nextFirst.id, { slipCode: "unit-factor-10" });
+    expect(await average("kira.n")).toBe(50);
+    // The tests below see class B as before.
+    await db.delete(exerciseAttempts).where(and(eq(exerciseAttempts.studentId, onTime.id), eq(exerciseAttempts.lessonSlug, nextSlug)));
+    await db.delete(assignments).where(eq(assignments.id, next.id));
   });
 });
 

@@ -216,12 +216,15 @@ export async function loadGradebooks({ db }: Db, classIds: string[], now: Date =
         };
       }
       const open = lessons.filter((l) => l.opened);
+      // The average counts a lesson once the student has work in it, or once it is past their due date
+      // (then not started counts as 0): a lesson still ahead of its due date does not pull it down.
+      const averaged = open.filter((l) => cells[l.assignmentId].status !== "not-started" || now.getTime() > Date.parse(cells[l.assignmentId].dueAt));
       const list = Object.values(cells);
       return {
         student,
         cells,
         lessonsComplete: list.filter((c) => c.status === "complete").length,
-        averageScore: open.length > 0 ? Math.round(open.reduce((sum, l) => sum + (cells[l.assignmentId].score ?? 0), 0) / open.length) : null,
+        averageScore: averaged.length > 0 ? Math.round(averaged.reduce((sum, l) => sum + (cells[l.assignmentId].score ?? 0), 0) / averaged.length) : null,
         notStarted: open.some((l) => cells[l.assignmentId].status === "not-started"),
         late: list.some((c) => c.overdue || c.finishedLate),
         stuck: list.some((c) => c.stuckOn.length > 0),
