@@ -40,7 +40,9 @@ export function Exercise({ id }: { id: string }) {
         </h3>
         <p className="text-[length:var(--text-step--1)] text-ink-soft" data-testid="exercise-status">
           {exercise.status === "open"
-            ? `${triesLeft} of ${exercise.attemptsAllowed} tries left`
+            ? triesLeft === 1
+              ? `Last try (of ${exercise.attemptsAllowed})`
+              : `${triesLeft} of ${exercise.attemptsAllowed} tries left`
             : STATUS_TEXT[exercise.status]}
         </p>
       </header>
