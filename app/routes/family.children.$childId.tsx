@@ -149,9 +149,9 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
                     <li key={e.id}>
                       <span className="font-bold">{e.title}</span> — {e.right ? <strong className="text-ok">right</strong> : <span>not right yet</span>}
                       <ul className="mt-1 space-y-0.5 pl-5 text-[length:var(--text-step--1)]">
-                        {e.tries.map((t, i) => (
+                        {e.tries.map((t) => (
                           <li key={t.id}>
-                            Try {i + 1}: <span className="font-mono wrap-anywhere">{t.answer || "(empty)"}</span> —{" "}
+                            {t.label}: <span className="font-mono wrap-anywhere">{t.answer || "(empty)"}</span> —{" "}
                             {t.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{t.what}</span>} <span className="text-ink-soft">· {t.at}</span>
                           </li>
                         ))}

@@ -11,7 +11,7 @@ import { choiceLabelReader } from "~/lib/course.server";
 import { requireExercise, requireLesson } from "~/lib/teaching/lesson-guard.server";
 import { classRoster } from "~/lib/teaching/roster.server";
 import { formatMoment } from "~/lib/teaching/time";
-import { outcomeWords, readableAnswer, wrongAnswerGroup } from "~/lib/teaching/words";
+import { triesAsRead } from "~/lib/teaching/words";
 import { ClassHeader } from "~/components/teaching/ui";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -24,15 +24,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const byStudent = students.map((s) => ({
     id: s.id,
     displayName: s.displayName,
-    attempts: attempts
-      .filter((a) => a.studentId === s.id)
-      .map((a) => ({
-        id: a.id,
-        answer: readableAnswer(a.rawAnswer, labelsOf(s.id, lesson.slug, exercise.id)),
-        right: a.correct,
-        words: a.correct ? "right" : a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : outcomeWords(a.outcome),
-        at: formatMoment(a.createdAt, klass.timeZone),
-      })),
+    attempts: triesAsRead(
+      attempts.filter((a) => a.studentId === s.id).map((a) => ({ ...a, at: formatMoment(a.createdAt, klass.timeZone) })),
+      labelsOf(s.id, lesson.slug, exercise.id),
+    ),
   }));
   return { klass: classHeading(klass), lesson: { slug: lesson.slug, number: lesson.number, title: lesson.title }, item, byStudent };
 }
@@ -108,9 +103,9 @@ export default function ExerciseAnalysis({ loaderData }: Route.ComponentProps) {
               {s.attempts.length === 0 ? <span className="text-ink-soft"> — no tries yet</span> : null}
               {s.attempts.length > 0 ? (
                 <ol className="mt-1 space-y-0.5 pl-1 text-[length:var(--text-step--1)]">
-                  {s.attempts.map((a, i) => (
+                  {s.attempts.map((a) => (
                     <li key={a.id}>
-                      <span className="text-ink-soft">Try {i + 1}:</span> <span className="font-mono wrap-anywhere">{a.answer || "(empty)"}</span> — {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.words}</span>}{" "}
+                      <span className="text-ink-soft">{a.label}:</span> <span className="font-mono wrap-anywhere">{a.answer || "(empty)"}</span> — {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.what}</span>}{" "}
                       <span className="text-ink-soft">· {a.at}</span>
                     </li>
                   ))}

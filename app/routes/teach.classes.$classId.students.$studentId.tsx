@@ -18,7 +18,7 @@ import { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS, rubricTotal } from "~/lib/teaching/
 import { findClassStudent, moveStudent, moveTargets, removeFromClass, setStudentPassword } from "~/lib/teaching/roster.server";
 import { loadStudentWork } from "~/lib/teaching/student-work.server";
 import { formatMoment } from "~/lib/teaching/time";
-import { outcomeWords, readableAnswer, wrongAnswerGroup } from "~/lib/teaching/words";
+import { triesAsRead } from "~/lib/teaching/words";
 import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
 import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
@@ -72,16 +72,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       exercises: exercises.map((e) => ({
         id: e.id,
         title: e.title,
-        attempts: work.attempts
-          .filter((a) => a.lessonSlug === slug && a.exerciseId === e.id)
-          .map((a) => ({
-            id: a.id,
-            answer: readableAnswer(a.rawAnswer, labelsOf(student.id, slug, e.id)),
-            right: a.correct === 1,
-            outcome: outcomeWords(a.outcome),
-            slip: a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : null,
-            at: formatMoment(a.createdAt, tz),
-          })),
+        attempts: triesAsRead(
+          work.attempts.filter((a) => a.lessonSlug === slug && a.exerciseId === e.id).map((a) => ({ ...a, at: formatMoment(a.createdAt, tz) })),
+          labelsOf(student.id, slug, e.id),
+        ),
       })),
       readings: work.readings
         .filter((r) => r.lessonSlug === slug)
@@ -245,10 +239,10 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
                 {e.attempts.length === 0 ? <span className="text-ink-soft">— no tries yet</span> : null}
                 {e.attempts.length > 0 ? (
                   <ol className="mt-1 space-y-0.5 pl-1 text-[length:var(--text-step--1)]">
-                    {e.attempts.map((a, i) => (
+                    {e.attempts.map((a) => (
                       <li key={a.id}>
-                        <span className="text-ink-soft">Try {i + 1}:</span> <span className="font-mono wrap-anywhere">{a.answer || "(empty)"}</span> —{" "}
-                        {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.slip ?? a.outcome}</span>}{" "}
+                        <span className="text-ink-soft">{a.label}:</span> <span className="font-mono wrap-anywhere">{a.answer || "(empty)"}</span> —{" "}
+                        {a.right ? <strong className="text-ok">right</strong> : <span className="text-danger">{a.what}</span>}{" "}
                         <span className="text-ink-soft">· {a.at}</span>
                       </li>
                     ))}

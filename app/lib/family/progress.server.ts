@@ -10,7 +10,7 @@ import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
 import type { GradebookCell, RubricScores } from "~/lib/teaching/shared";
 import { loadStudentWork } from "~/lib/teaching/student-work.server";
 import { formatMoment } from "~/lib/teaching/time";
-import { outcomeWords, readableAnswer, wrongAnswerGroup } from "~/lib/teaching/words";
+import { triesAsRead, type TryAsRead } from "~/lib/teaching/words";
 import type { TeacherClass } from "~/lib/teaching/classes.server";
 import { writtenAnswerView } from "~/lib/teaching/review.server";
 
@@ -30,7 +30,7 @@ export interface ChildLesson {
     id: string;
     title: string;
     right: boolean;
-    tries: { id: string; answer: string; right: boolean; what: string; at: string }[];
+    tries: TryAsRead[];
   }[];
   answers: {
     answerId: string;
@@ -78,15 +78,10 @@ export async function childReport({ db }: { db: Database }, childId: string, kla
           id: e.id,
           title: e.title,
           right: rightIds.has(e.id),
-          tries: attempts
-            .filter((a) => a.exerciseId === e.id)
-            .map((a) => ({
-              id: a.id,
-              answer: readableAnswer(a.rawAnswer, labelsOf(childId, p.slug, e.id)),
-              right: a.correct === 1,
-              what: a.correct === 1 ? "right" : a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : outcomeWords(a.outcome),
-              at: formatMoment(a.createdAt, tz),
-            })),
+          tries: triesAsRead(
+            attempts.filter((a) => a.exerciseId === e.id).map((a) => ({ ...a, at: formatMoment(a.createdAt, tz) })),
+            labelsOf(childId, p.slug, e.id),
+          ),
         }))
         .filter((e) => e.tries.length > 0),
       answers: work.answers

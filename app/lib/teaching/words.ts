@@ -84,3 +84,40 @@ export function readableAnswer(raw: string, choiceLabels?: Map<string, string> |
   }
   return raw;
 }
+
+/** Outcomes that used no try (the answer could not be read, or the exercise could not be checked). */
+const FREE_OUTCOMES = new Set(["unreadable", "not-checkable"]);
+
+/** A student's try as a teacher or parent reads it. */
+export interface TryAsRead {
+  id: string;
+  /** "Try 2" counting only the tries that counted; "Not counted" for an answer that used no try */
+  label: string;
+  answer: string;
+  right: boolean;
+  /** "right", the named slip, or what the checker decided */
+  what: string;
+  at: string;
+}
+
+/**
+ * A student's tries at one exercise, oldest first, as teachers and parents read them: the answer as
+ * the student saw it (`choiceLabels`), what the checker decided, and when (`at`, already formatted).
+ */
+export function triesAsRead(
+  attempts: { id: string; rawAnswer: string; correct: number | boolean; outcome: string; slipCode: string | null; at: string }[],
+  choiceLabels?: Map<string, string> | null,
+): TryAsRead[] {
+  let counted = 0;
+  return attempts.map((a) => {
+    const right = a.correct === true || a.correct === 1;
+    return {
+      id: a.id,
+      label: FREE_OUTCOMES.has(a.outcome) ? "Not counted" : `Try ${++counted}`,
+      answer: readableAnswer(a.rawAnswer, choiceLabels),
+      right,
+      what: right ? "right" : a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : outcomeWords(a.outcome),
+      at: a.at,
+    };
+  });
+}
