@@ -1,8 +1,8 @@
 // React Router's server entry, as the framework ships it, plus Bendwise's security headers
 // and a nonce for the inline scripts that hydration needs.
 import { Writable } from "node:stream";
-import type { EntryContext, HandleDataRequestFunction } from "react-router";
-import { ServerRouter } from "react-router";
+import type { EntryContext, HandleDataRequestFunction, HandleErrorFunction } from "react-router";
+import { isRouteErrorResponse, ServerRouter } from "react-router";
 import { renderToPipeableStream } from "react-dom/server";
 import { bestEncoding, encodeBody, encodingHeaders } from "~/lib/http-encoding.server";
 import { NonceContext } from "~/lib/nonce";
@@ -75,6 +75,18 @@ export default function handleRequest(
     );
   });
 }
+
+/**
+ * What goes to the server's log when a loader, an action or a render fails. A page that does not exist
+ * (a mistyped address, a bot probing) is an everyday 404 shown to the visitor, not a fault of the
+ * server: it is not logged with a stack trace. A request the browser gave up on is not logged either.
+ * Everything else is logged as React Router would.
+ */
+export const handleError: HandleErrorFunction = (error, { request }) => {
+  if (request.signal.aborted) return;
+  if (isRouteErrorResponse(error) && error.status === 404) return;
+  console.error(error);
+};
 
 /**
  * React Router's data requests (the `.data` answers to fetchers, revalidations and actions) are
