@@ -1,5 +1,6 @@
 // A force–deformation chart drawn as SVG (on the server and in the browser alike): the points, the best
 // line through the origin and the best line with a free intercept.
+import { useId } from "react";
 import type { AnalysisResult, Mode } from "~/lib/science";
 import { analyseReadings } from "~/lib/science";
 import { parseCsv } from "./data-table";
@@ -27,6 +28,8 @@ export function ForceChartFromAnalysis({ analysis, title }: { analysis: Analysis
   const yMax = niceMax(Math.max(0, ...points.map((p) => p.forceN)) * 1.1);
   const x = (cm: number) => PAD.left + (cm / xMax) * (W - PAD.left - PAD.right);
   const y = (n: number) => H - PAD.bottom - (n / yMax) * (H - PAD.top - PAD.bottom);
+  // One clip area per chart (a page can show several): an id React makes the same on server and browser.
+  const clipId = `plot-area-${useId().replace(/[^A-Za-z0-9_-]/g, "")}`;
   const origin = analysis.fit.throughOrigin.slope;
   const free = analysis.fit.withIntercept;
   const describe = `${points.length} points. ${
@@ -52,11 +55,17 @@ export function ForceChartFromAnalysis({ analysis, title }: { analysis: Analysis
         <line x1={x(0)} x2={x(0)} y1={PAD.top} y2={H - PAD.bottom} stroke="#46524f" />
         <text x={(W + PAD.left) / 2} y={H - 8} fontSize="13" textAnchor="middle" fill="#1c2726">Deformation (cm)</text>
         <text x={16} y={(H - PAD.bottom) / 2} fontSize="13" textAnchor="middle" fill="#1c2726" transform={`rotate(-90 16 ${(H - PAD.bottom) / 2})`}>Force (N)</text>
+        {/* The fitted lines stay inside the plot: a line with a free intercept can leave it at the top or the bottom. */}
+        <defs>
+          <clipPath id={clipId}>
+            <rect x={PAD.left} y={PAD.top} width={W - PAD.left - PAD.right} height={H - PAD.top - PAD.bottom} />
+          </clipPath>
+        </defs>
         {origin !== null && (
-          <line x1={x(0)} y1={y(0)} x2={x(Math.min(xMax, yMax / origin))} y2={y(Math.min(yMax, origin * xMax))} stroke="#0d5c57" strokeWidth="2.5" />
+          <line x1={x(0)} y1={y(0)} x2={x(Math.min(xMax, yMax / origin))} y2={y(Math.min(yMax, origin * xMax))} stroke="#0d5c57" strokeWidth="2.5" clipPath={`url(#${clipId})`} />
         )}
         {free.slope !== null && free.intercept !== null && (
-          <line x1={x(0)} y1={y(free.intercept)} x2={x(xMax)} y2={y(free.intercept + free.slope * xMax)} stroke="#a8401a" strokeWidth="2" strokeDasharray="7 5" />
+          <line x1={x(0)} y1={y(free.intercept)} x2={x(xMax)} y2={y(free.intercept + free.slope * xMax)} stroke="#a8401a" strokeWidth="2" strokeDasharray="7 5" clipPath={`url(#${clipId})`} />
         )}
         {points.map((p, i) => (
           <circle key={i} cx={x(p.deformationCm)} cy={y(p.forceN)} r="5" fill="#1c2726" />
