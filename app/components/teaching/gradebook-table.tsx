@@ -53,11 +53,16 @@ function Cell({ cell }: { cell: GradebookCell | undefined }) {
       {cell.status === "complete" ? (
         <strong className="text-ok">✓ Done</strong>
       ) : cell.status === "working" ? (
-        <span>{progress} done</span>
+        <span title="Parts done: the required exercises and written answers">{progress} done</span>
       ) : (
         <span className="text-ink-soft">Not started</span>
       )}
-      {cell.score !== null ? <span className="ml-1 font-bold" data-testid="score">{cell.score}%</span> : null}
+      {cell.score !== null ? (
+        <span className="ml-1" title="Score: the required exercises right, with the late rule applied">
+          <span className="text-ink-soft">· score </span>
+          <strong data-testid="score">{cell.score}%</strong>
+        </span>
+      ) : null}
       <span className="mt-0.5 flex flex-wrap gap-1">
         {cell.overdue ? <Tag tone="danger">Overdue</Tag> : cell.finishedLate ? <Tag tone="danger">Late</Tag> : null}
         {cell.stuckOn.length > 0 ? <Tag tone="ember">Stuck on {cell.stuckOn.length}</Tag> : null}
