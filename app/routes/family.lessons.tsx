@@ -6,6 +6,7 @@ import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/family.lessons";
 import { Notice } from "~/components/auth-forms";
+import { TakeOffTheList } from "~/components/teaching/ui";
 import { db } from "~/db/client.server";
 import { latePolicy } from "~/db/schema.server";
 import { assertSameOrigin, requireRole } from "~/lib/auth.server";
@@ -225,16 +226,7 @@ export default function FamilyLessons({ loaderData, actionData }: Route.Componen
                   </button>
                 </div>
               </Form>
-              {a ? (
-                <Form method="post" className="mt-3">
-                  <input type="hidden" name="intent" value="unassign" />
-                  <input type="hidden" name="assignmentId" value={a.id} />
-                  <input type="hidden" name="slug" value={lesson.slug} />
-                  <button type="submit" className="btn btn-quiet" disabled={busy}>
-                    Take off the list
-                  </button>
-                </Form>
-              ) : null}
+              {a ? <TakeOffTheList assignmentId={a.id} slug={lesson.slug} busy={busy} whoseWork="your children's" /> : null}
             </li>
           );
         })}

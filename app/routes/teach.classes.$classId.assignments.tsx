@@ -14,7 +14,7 @@ import { classHeading } from "~/lib/teaching/classes.server";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { classRoster } from "~/lib/teaching/roster.server";
 import { DAY_MS, dateToZonedInput, formatDue, zonedInputToDate } from "~/lib/teaching/time";
-import { ClassHeader, Notice } from "~/components/teaching/ui";
+import { ClassHeader, Notice, TakeOffTheList } from "~/components/teaching/ui";
 
 const intentSchema = z.discriminatedUnion("intent", [
   z.object({
@@ -148,16 +148,7 @@ export default function Assignments({ loaderData, actionData }: Route.ComponentP
                 </summary>
                 <div className="mt-3">
                   <AssignForm lesson={lesson} errors={mine?.errors ?? {}} busy={busy} />
-                  {a ? (
-                    <Form method="post" preventScrollReset className="mt-3">
-                      <input type="hidden" name="intent" value="unassign" />
-                      <input type="hidden" name="assignmentId" value={a.id} />
-                      <input type="hidden" name="slug" value={lesson.slug} />
-                      <button type="submit" className="btn btn-quiet" disabled={busy}>
-                        Take off the list
-                      </button>
-                    </Form>
-                  ) : null}
+                  {a ? <TakeOffTheList assignmentId={a.id} slug={lesson.slug} busy={busy} whoseWork="the students'" /> : null}
                 </div>
               </details>
             </li>

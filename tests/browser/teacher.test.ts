@@ -134,6 +134,15 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     await expect(page.locator("tr[data-student]").count()).resolves.toBe(3);
     expect(await page.evaluate(() => (window as unknown as { stillHere?: boolean }).stillHere)).toBe(true);
 
+    // 9. Taking the lesson off the list asks once more, then keeps the student's work.
+    await page.goto(`/teach/classes/${classId}/assignments`);
+    await lesson2.getByText("Change the dates or the late-work rule").click();
+    await lesson2.getByText("Take off the list…").click();
+    await lesson2.getByText(/the students' work on it stays/).waitFor();
+    await lesson2.getByRole("button", { name: "Yes, take it off the list" }).click();
+    await lesson2.getByText("Taken off the class's list. The students' work stays.").waitFor();
+    await expect.poll(() => lesson2.innerText(), { timeout: 5_000 }).toMatch(/Not assigned/);
+
     expect(refused).toEqual([`400 POST /teach/classes/${classId}/roster.data`]);
     expect(teacher.consoleErrors.filter((e) => !/status of 400/.test(e))).toEqual([]);
     expect(student.consoleErrors).toEqual([]);

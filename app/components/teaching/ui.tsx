@@ -1,7 +1,7 @@
 // Small pieces shared by the teaching pages: labelled fields with their messages, notices, and the
 // header with its tabs that every page of a class carries.
 import { useId } from "react";
-import { NavLink } from "react-router";
+import { Form, NavLink } from "react-router";
 
 type InputProps = React.InputHTMLAttributes<HTMLInputElement> & { name: string };
 
@@ -135,4 +135,25 @@ export function ClassHeader({ klass, title }: { klass: ClassHeading; title?: str
 
 export function Percent({ value, empty = "—" }: { value: number | null; empty?: string }) {
   return <>{value === null ? empty : `${value}%`}</>;
+}
+
+/**
+ * Taking a lesson off a class's list asks once more, without JavaScript: the dates and the late-work
+ * rule go, the students' work stays. Shared by the teacher's and the parent's lesson lists.
+ */
+export function TakeOffTheList({ assignmentId, slug, busy, whoseWork }: { assignmentId: string; slug: string; busy: boolean; whoseWork: string }) {
+  return (
+    <details className="mt-3">
+      <summary className="cursor-pointer font-bold text-spruce">Take off the list…</summary>
+      <Form method="post" preventScrollReset className="mt-2">
+        <p className="mb-2 text-ink-soft">Its dates and late-work rule go; {whoseWork} work on it stays, and you can assign it again at any time.</p>
+        <input type="hidden" name="intent" value="unassign" />
+        <input type="hidden" name="assignmentId" value={assignmentId} />
+        <input type="hidden" name="slug" value={slug} />
+        <button type="submit" className="btn btn-quiet" disabled={busy}>
+          Yes, take it off the list
+        </button>
+      </Form>
+    </details>
+  );
 }
