@@ -4,6 +4,7 @@ import { Writable } from "node:stream";
 import type { EntryContext, HandleDataRequestFunction, HandleErrorFunction } from "react-router";
 import { isRouteErrorResponse, ServerRouter } from "react-router";
 import { renderToPipeableStream } from "react-dom/server";
+import { isDatabaseUnavailable } from "~/db/client.server";
 import { bestEncoding, encodeBody, encodingHeaders } from "~/lib/http-encoding.server";
 import { NonceContext } from "~/lib/nonce";
 import { applySecurityHeaders, newNonce } from "~/lib/security-headers.server";
@@ -19,6 +20,7 @@ export default function handleRequest(
   const nonce = newNonce();
   applySecurityHeaders(responseHeaders, nonce);
   // A 503 (the database cannot be reached just now: see client.server.ts) says when to try again.
+  responseStatusCode = statusAfterFailures(request, responseStatusCode);
   if (responseStatusCode === 503) responseHeaders.set("Retry-After", "5");
 
   if (request.method.toUpperCase() === "HEAD") {
@@ -85,8 +87,26 @@ export default function handleRequest(
 export const handleError: HandleErrorFunction = (error, { request }) => {
   if (request.signal.aborted) return;
   if (isRouteErrorResponse(error) && error.status === 404) return;
+  if (isDatabaseUnavailable(error)) {
+    // PostgreSQL went away in the middle of this request (after the person was read): a passing
+    // outage, answered 503 like the rest (statusAfterFailures), and logged as one line.
+    outageDuring.add(request);
+    console.error(`${request.method} ${new URL(request.url).pathname}: PostgreSQL could not be reached.`);
+    return;
+  }
   console.error(error);
 };
+
+/** Requests that failed because PostgreSQL could not be reached (see handleError). */
+const outageDuring = new WeakSet<Request>();
+
+/**
+ * The status a page goes out with: a 500 whose cause was PostgreSQL being unreachable becomes the
+ * same 503 (with Retry-After) that the app answers when the database is away from the start.
+ */
+export function statusAfterFailures(request: Request, status: number): number {
+  return status === 500 && outageDuring.has(request) ? 503 : status;
+}
 
 /**
  * React Router's data requests (the `.data` answers to fetchers, revalidations and actions) are

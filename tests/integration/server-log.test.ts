@@ -2,9 +2,9 @@
 // exist is an everyday 404, not logged with a stack trace; a real fault is logged.
 import { UNSAFE_ErrorResponseImpl as ErrorResponse } from "react-router";
 import { afterEach, describe, expect, it, vi } from "vitest";
-import { handleError } from "~/entry.server";
+import { handleError, statusAfterFailures } from "~/entry.server";
 
-const args = (signal?: AbortSignal) => ({ request: new Request("http://127.0.0.1/nowhere", { signal }), params: {}, context: {} }) as never;
+const args = (signal?: AbortSignal, request = new Request("http://127.0.0.1/nowhere", { signal })) => ({ request, params: {}, context: {} }) as never;
 
 describe("the server log", () => {
   afterEach(() => vi.restoreAllMocks());
@@ -25,5 +25,20 @@ describe("the server log", () => {
     handleError(new ErrorResponse(500, "Internal Server Error", "boom"), args());
     expect(log).toHaveBeenCalledTimes(2);
     expect(log).toHaveBeenCalledWith(fault);
+  });
+
+  it("answers 503 instead of 500 when PostgreSQL went away in the middle of the request, and logs one line for it", () => {
+    const log = vi.spyOn(console, "error").mockImplementation(() => {});
+    const during = new Request("http://127.0.0.1/teach/classes");
+    // As drizzle hands it on: its own error, with the outage as the cause (see client.server.ts).
+    const outage = new Error("Failed query", { cause: new Response(null, { status: 503, headers: { "Retry-After": "5" } }) });
+    handleError(outage, args(undefined, during));
+    expect(statusAfterFailures(during, 500)).toBe(503);
+    expect(log).toHaveBeenCalledWith("GET /teach/classes: PostgreSQL could not be reached.");
+    // Another request, or another failure, keeps its status.
+    const other = new Request("http://127.0.0.1/teach/classes");
+    handleError(new Error("something broke"), args(undefined, other));
+    expect(statusAfterFailures(other, 500)).toBe(500);
+    expect(statusAfterFailures(during, 200)).toBe(200);
   });
 });
