@@ -38,6 +38,9 @@ export type Outcome =
   | "unreadable"
   | "not-checkable";
 
+/** Outcomes that use no try: the answer could not be read, or the exercise could not be checked. */
+export const NO_TRY_OUTCOMES: ReadonlySet<string> = new Set<Outcome>(["unreadable", "not-checkable"]);
+
 /** Slips we recognise, each with a hint. Exercises may add their own codes through `knownWrongAnswers`. */
 export type SlipCode =
   | "loaded-reading-as-deformation"
@@ -645,7 +648,7 @@ export function checkAnswer(typed: string, expected: ExpectedAnswer): CheckResul
  */
 export function checkTableAnswers(typedCells: readonly string[], expectedCells: readonly ExpectedAnswer[]): CheckResult {
   const rows = expectedCells.map((expected, i) => ({ row: i + 1, result: checkAnswer(typedCells[i] ?? "", expected) }));
-  const unreadable = rows.filter(({ result }) => result.outcome === "unreadable" || result.outcome === "not-checkable");
+  const unreadable = rows.filter(({ result }) => NO_TRY_OUTCOMES.has(result.outcome));
   if (unreadable.length > 0) {
     const named = unreadable.map(({ row, result }) => result.message.replace(/^We could not read that answer/, `Row ${row} could not be read`).replace(` ${HOW_TO_WRITE}`, ""));
     const outcome = unreadable.some(({ result }) => result.outcome === "not-checkable") ? "not-checkable" : "unreadable";

@@ -12,7 +12,7 @@ import {
   readingSets,
   writtenAnswers,
 } from "~/db/schema.server";
-import { checkAnswer, checkTableAnswers, type CheckResult } from "./answer-checker";
+import { checkAnswer, checkTableAnswers, NO_TRY_OUTCOMES, type CheckResult } from "./answer-checker";
 import {
   DEFAULT_ATTEMPTS,
   promptOf,
@@ -188,7 +188,8 @@ export function judge(instance: ExerciseInstance, definition: ExerciseDefinition
 }
 
 /** Outcomes that do not use up an attempt: we could not read it, or the exercise itself is at fault. */
-const FREE_OUTCOMES = new Set(["unreadable", "not-checkable"]);
+/** The outcomes that use no try, as an SQL list for `not in` (the answer checker's NO_TRY_OUTCOMES). */
+export const NO_TRY_OUTCOMES_SQL = sql.raw(`(${[...NO_TRY_OUTCOMES].map((outcome) => `'${outcome}'`).join(", ")})`);
 
 export async function recordAttempt(
   { db }: Db,
@@ -207,13 +208,13 @@ export async function recordAttempt(
   const instance = exerciseInstance(studentId, slug, definition, readings);
   if (instance.waitingForReadings) return { refused: "Save your readings first; this question uses them." };
 
-  const used = past.filter((a) => !FREE_OUTCOMES.has(a.outcome)).length;
+  const used = past.filter((a) => !NO_TRY_OUTCOMES.has(a.outcome)).length;
   if (past.some((a) => a.correct === 1)) return { refused: "You already have this one right." };
   if (used >= attemptsAllowed(policy, definition)) return { refused: "You have used every attempt at this exercise." };
 
   const { result, raw } = judge(instance, definition, input.submission);
   const right = result.outcome === "correct";
-  const counted = !FREE_OUTCOMES.has(result.outcome);
+  const counted = !NO_TRY_OUTCOMES.has(result.outcome);
   // One statement, so the attempt and the place to continue from are saved together or not at all.
   await attemptWithVisitStatement(db).execute({
     studentId,
@@ -420,7 +421,7 @@ function exerciseState(
   attempts: AttemptRow[],
   allowed: number,
 ): ExerciseState {
-  const counted = attempts.filter((a) => !FREE_OUTCOMES.has(a.outcome));
+  const counted = attempts.filter((a) => !NO_TRY_OUTCOMES.has(a.outcome));
   const right = attempts.some((a) => a.correct === 1);
   const status: ExerciseStatus = right ? "right" : counted.length >= allowed ? "used-up" : "open";
   const last = attempts.at(-1);
@@ -561,7 +562,7 @@ export async function courseProgress({ db }: Db, studentId: string): Promise<Les
         lessonSlug: exerciseAttempts.lessonSlug,
         exerciseId: exerciseAttempts.exerciseId,
         right: sql<number>`max(${exerciseAttempts.correct})`,
-        counted: sql<number>`count(*) filter (where ${exerciseAttempts.outcome} not in ('unreadable', 'not-checkable'))`,
+        counted: sql<number>`count(*) filter (where ${exerciseAttempts.outcome} not in ${NO_TRY_OUTCOMES_SQL})`,
       })
       .from(exerciseAttempts)
       .where(and(eq(exerciseAttempts.studentId, studentId), inArray(exerciseAttempts.lessonSlug, slugs)))

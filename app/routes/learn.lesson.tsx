@@ -23,7 +23,7 @@ import { lessonCodeUrl, registerLessonOnServer } from "~/lib/lesson-code.server"
 import { lessonComponent, loadLessonScript } from "~/lib/lesson-scope";
 import { compiledLesson, findLesson, listLessons } from "~/lib/lessons.server";
 import { photoStorage, readPhotoForm, recordPhoto } from "~/lib/photo-store.server";
-import { implausibleReadings } from "~/lib/science";
+import { implausibleReadings, type Mode } from "~/lib/science";
 
 const idSchema = z.string().min(1).max(80).regex(/^[a-z0-9-]+$/);
 
@@ -199,18 +199,7 @@ async function saveReadingsAction(form: FormData, studentId: string, slug: strin
   if (points.length < 2) errors.push("Enter at least two rows of readings.");
   if (errors.length > 0) return data({ readingsId, errors }, { status: 400 });
 
-  const mode = form.get("mode") === "stretch" ? "stretch" : "bend";
-  // Every reading no lab can give, each named by its row, before anything is saved.
-  const implausible = implausibleReadings({
-    mode,
-    unloadedCm: Number(unloadedText),
-    resolutionCm: Number(form.get("resolutionCm") ?? 0.1) || 0.1,
-    points: points.map((p) => ({ forceN: Number(p.f), readingCm: Number(p.r) })),
-  });
-  if (implausible.length > 0) {
-    const named = implausible.map((i) => (i.point === null ? i.problem.replace(/^t/, "T") : `Row ${points[i.point].row}: ${i.problem}`));
-    return data({ readingsId, errors: named }, { status: 400 });
-  }
+  const mode: Mode = form.get("mode") === "stretch" ? "stretch" : "bend";
   const body = {
     mode,
     unloadedCm: Number(unloadedText),
@@ -222,6 +211,12 @@ async function saveReadingsAction(form: FormData, studentId: string, slug: strin
       ...(p.broke ? { broke: true } : {}),
     })),
   };
+  // Every reading no lab can give, each named by its row, before anything is saved.
+  const implausible = implausibleReadings(body);
+  if (implausible.length > 0) {
+    const named = implausible.map((i) => (i.point === null ? i.problem.replace(/^t/, "T") : `Row ${points[i.point].row}: ${i.problem}`));
+    return data({ readingsId, errors: named }, { status: 400 });
+  }
   // The same validation as POST /api/analysis, so the saved set always analyses the same way.
   const checked = parseAnalysisRequest(body);
   if (!checked.ok) return data({ readingsId, errors: checked.errors.map(rowWords) }, { status: 400 });

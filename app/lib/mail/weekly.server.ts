@@ -10,7 +10,7 @@ import { and, asc, eq, gte, inArray, isNotNull, isNull, sql } from "drizzle-orm"
 import type { Database } from "~/db/client.server";
 import { classes, exerciseAttempts, mailPreferences, memberships, organisations, users, writtenAnswers } from "~/db/schema.server";
 import { serverEnv } from "~/env.server";
-import { courseProgress } from "~/lib/course.server";
+import { courseProgress, NO_TRY_OUTCOMES_SQL } from "~/lib/course.server";
 import { renderEmail, sendMail, type OutgoingMail } from "~/lib/mailer.server";
 import { assignedLessonsFor } from "~/lib/teaching/assignments.server";
 import { loadGradebooks } from "~/lib/teaching/gradebook.server";
@@ -96,7 +96,7 @@ export async function composeWeeklySummaries({ db }: { db: Database }, now: Date
       : db
           .select({
             studentId: exerciseAttempts.studentId,
-            checked: sql<number>`count(*) filter (where ${exerciseAttempts.outcome} not in ('unreadable', 'not-checkable'))`.mapWith(Number),
+            checked: sql<number>`count(*) filter (where ${exerciseAttempts.outcome} not in ${NO_TRY_OUTCOMES_SQL})`.mapWith(Number),
             right: sql<number>`count(*) filter (where ${exerciseAttempts.correct} = 1)`.mapWith(Number),
           })
           .from(exerciseAttempts)

@@ -4,12 +4,12 @@
 import { and, asc, eq, inArray } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
 import { enrollments, exerciseAttempts, users } from "~/db/schema.server";
+import { NO_TRY_OUTCOMES } from "~/lib/answer-checker";
 import { choiceLabelReader } from "~/lib/course.server";
 import { lessonExercises } from "~/lib/lessons.server";
 import { readableAnswer, wrongAnswerGroup } from "./words";
 
 type Db = { db: Database };
-const FREE = new Set(["unreadable", "not-checkable"]);
 
 export interface WrongGroup {
   key: string;
@@ -87,7 +87,7 @@ export async function classAttempts({ db }: Db, classId: string, slug: string, e
 export function analyseItems(slug: string, attempts: ClassAttempt[], studentsInClass: number): ItemAnalysis[] {
   const labelsOf = choiceLabelReader();
   return lessonExercises(slug).exercises.map((exercise) => {
-    const mine = attempts.filter((a) => a.exerciseId === exercise.id && !FREE.has(a.outcome));
+    const mine = attempts.filter((a) => a.exerciseId === exercise.id && !NO_TRY_OUTCOMES.has(a.outcome));
     const byStudent = new Map<string, ClassAttempt[]>();
     for (const a of mine) byStudent.set(a.studentId, [...(byStudent.get(a.studentId) ?? []), a]);
     const tried = byStudent.size;

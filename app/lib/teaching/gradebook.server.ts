@@ -16,13 +16,13 @@
 // - stuck: STUCK_AFTER_WRONG or more wrong answers to one exercise and no right one yet;
 // - late: past the student's due date without finishing, or finished after it;
 // - a student's average counts every lesson already open, a lesson not started as 0.
-import { eq, sql } from "drizzle-orm";
+import { eq, sql, type SQL } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { Database } from "~/db/client.server";
 import { preparedOnce } from "~/db/prepared.server";
 import { encodeBody, type BodyEncoding } from "~/lib/http-encoding.server";
 import { accommodations, assignments, classes, enrollments, users, type LatePolicy } from "~/db/schema.server";
-import { attemptsAllowed } from "~/lib/course.server";
+import { attemptsAllowed, NO_TRY_OUTCOMES_SQL } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { effectiveAccommodation } from "./policy.server";
 import { DAY_MS, daysLate, formatClockTime, formatDue } from "./time";
@@ -33,7 +33,6 @@ export type { ClassSummary, Gradebook, GradebookCell, GradebookLesson, Gradebook
 type Db = { db: Database };
 
 export const STUCK_AFTER_WRONG = 2;
-const FREE = sql.raw(`('unreadable', 'not-checkable')`);
 
 /** The credit (0–1) of a right answer given at `at` for a student whose due date is `due`. */
 export function lateCredit(at: Date, due: Date, policy: LatePolicy, penaltyPercent: number): number {
@@ -61,7 +60,7 @@ const dateOf = (ms: number | null) => (ms === null ? null : new Date(ms));
  */
 async function gradebookRows({ db }: Db, classIds: string[]) {
   const ids = sql`(${sql.join(classIds.map((id) => sql`${id}::uuid`), sql`, `)})`;
-  const ms = (column: string) => sql.raw(`(extract(epoch from ${column}) * 1000)::float8`);
+  const ms = (column: string | SQL) => sql`(extract(epoch from ${typeof column === "string" ? sql.raw(column) : column}) * 1000)::float8`;
   const [row] = await db.execute<{ students: StudentRow[]; assignments: (Omit<AssignmentRow, "opensAt" | "dueAt"> & { opensAt: number; dueAt: number })[]; accommodations: AccommodationRow[]; attempts: (Omit<AttemptTotals, "firstRightAt" | "lastCountedAt" | "lastAt"> & { firstRightAt: number | null; lastCountedAt: number | null; lastAt: number })[]; answers: (Omit<AnswerRow, "handedInAt" | "reviewedAt" | "updatedAt"> & { handedInAt: number | null; reviewedAt: number | null; updatedAt: number })[]; visits: (Omit<VisitRow, "updatedAt"> & { updatedAt: number })[] }>(sql`
     with roster as (
       select e.class_id, u.id, u.display_name, u.username, u.student_number
@@ -81,10 +80,10 @@ async function gradebookRows({ db }: Db, classIds: string[]) {
       coalesce((select json_agg(t) from pupils p cross join lateral (
         select a.student_id as "studentId", a.lesson_slug as "lessonSlug", a.exercise_id as "exerciseId",
           max(a.correct) as "right",
-          count(*) filter (where a.outcome not in ${FREE}) as "counted",
-          count(*) filter (where a.outcome not in ${FREE} and a.correct = 0) as "wrong",
+          count(*) filter (where a.outcome not in ${NO_TRY_OUTCOMES_SQL}) as "counted",
+          count(*) filter (where a.outcome not in ${NO_TRY_OUTCOMES_SQL} and a.correct = 0) as "wrong",
           ${ms("min(a.created_at) filter (where a.correct = 1)")} as "firstRightAt",
-          ${ms(`max(a.created_at) filter (where a.outcome not in ('unreadable', 'not-checkable'))`)} as "lastCountedAt",
+          ${ms(sql`max(a.created_at) filter (where a.outcome not in ${NO_TRY_OUTCOMES_SQL})`)} as "lastCountedAt",
           ${ms("max(a.created_at)")} as "lastAt"
         from exercise_attempts a
         where a.student_id = p.id and a.lesson_slug in (select lesson_slug from slugs)

@@ -1,4 +1,5 @@
-// Teacher-facing words for what the answer checker decided. Our own wording; safe in the browser.
+// Teacher-facing words for what the answer checker decided. Our own wording; no server code.
+import { NO_TRY_OUTCOMES } from "~/lib/answer-checker";
 
 const SLIP_WORDS: Record<string, string> = {
   "loaded-reading-as-deformation": "Gave the loaded ruler reading instead of the deformation",
@@ -85,8 +86,6 @@ export function readableAnswer(raw: string, choiceLabels?: Map<string, string> |
   return raw;
 }
 
-/** Outcomes that used no try (the answer could not be read, or the exercise could not be checked). */
-const FREE_OUTCOMES = new Set(["unreadable", "not-checkable"]);
 
 /** A student's try as a teacher or parent reads it. */
 export interface TryAsRead {
@@ -113,7 +112,7 @@ export function triesAsRead(
     const right = a.correct === true || a.correct === 1;
     return {
       id: a.id,
-      label: FREE_OUTCOMES.has(a.outcome) ? "Not counted" : `Try ${++counted}`,
+      label: NO_TRY_OUTCOMES.has(a.outcome) ? "Not counted" : `Try ${++counted}`,
       answer: readableAnswer(a.rawAnswer, choiceLabels),
       right,
       what: right ? "right" : a.slipCode ? wrongAnswerGroup(a.slipCode, a.outcome).label : outcomeWords(a.outcome),
