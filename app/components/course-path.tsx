@@ -1,9 +1,9 @@
-// The course as a path: each lesson with its progress, and a "continue" link back to exactly where
-// the student stopped (the lesson and the part of it they last worked on).
+// The course as a path: each lesson with its progress, and a "continue" link: to assigned work that is
+// due soon, or back to exactly where the student stopped (the lesson and the part last worked on).
 import { Link } from "react-router";
-import type { LessonProgress } from "~/lib/course.server";
+import type { ContinueTarget, LessonProgress } from "~/lib/course.server";
 
-export function ContinueCard({ target, lessons }: { target: { slug: string; place: string | null } | null; lessons: LessonProgress[] }) {
+export function ContinueCard({ target, lessons }: { target: ContinueTarget | null; lessons: LessonProgress[] }) {
   if (!target) {
     return (
       <section className="card mb-8 border-2 border-ok" aria-label="Course finished">
@@ -12,23 +12,36 @@ export function ContinueCard({ target, lessons }: { target: { slug: string; plac
     );
   }
   const lesson = lessons.find((l) => l.slug === target.slug);
-  const href = `/learn/${target.slug}${target.place ? `#${target.place}` : ""}`;
+  const stopped = target.stoppedAt ? lessons.find((l) => l.slug === target.stoppedAt!.slug) : undefined;
+  const heading = target.due ? (target.due.passed ? "Past its due date" : "Due soon") : lesson?.started ? "Pick up where you stopped" : "Start here";
   return (
     <section className="card mb-8 flex flex-wrap items-center justify-between gap-4 border-2 border-spruce" aria-labelledby="continue-heading">
       <div>
         <h2 id="continue-heading" className="text-[length:var(--text-step-1)]">
-          {lesson?.started ? "Pick up where you stopped" : "Start here"}
+          {heading}
         </h2>
         <p className="text-ink-soft">
           Lesson {lesson?.number}: {lesson?.title}
+          {target.due ? ` · ${target.due.passed ? "was due" : "due"} ${target.due.text}` : ""}
         </p>
+        {stopped ? (
+          <p className="mt-1 text-[length:var(--text-step--1)]">
+            Or go back to{" "}
+            <Link to={placeHref(target.stoppedAt!)} data-testid="stopped-link">
+              lesson {stopped.number}, where you stopped
+            </Link>
+            .
+          </p>
+        ) : null}
       </div>
-      <Link to={href} className="btn" data-testid="continue-link">
+      <Link to={placeHref(target)} className="btn" data-testid="continue-link">
         {lesson?.started ? "Continue" : "Start the lesson"}
       </Link>
     </section>
   );
 }
+
+const placeHref = ({ slug, place }: { slug: string; place: string | null }) => `/learn/${slug}${place ? `#${place}` : ""}`;
 
 export function CoursePath({ lessons, dueDates = {} }: { lessons: LessonProgress[]; dueDates?: Record<string, string> }) {
   return (

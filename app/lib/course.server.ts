@@ -604,13 +604,56 @@ export async function courseProgress({ db }: Db, studentId: string): Promise<Les
   });
 }
 
-/** Where "continue" goes: the lesson last worked on that is not complete (or the first not complete), at its last place. */
-export function continueTarget(progress: LessonProgress[]): { slug: string; place: string | null } | null {
+/** An assigned lesson as continueTarget needs it (see assignedLessonsFor). */
+export interface AssignedForContinue {
+  slug: string;
+  dueAt: string;
+  dueText: string;
+  opened: boolean;
+  latePolicy: string;
+}
+
+export interface ContinueTarget {
+  slug: string;
+  place: string | null;
+  /** set when the lesson was chosen for its due date: that date, as the student's list shows it */
+  due: { text: string; passed: boolean } | null;
+  /** the lesson last worked on, when "continue" goes to a lesson that is due instead */
+  stoppedAt: { slug: string; place: string | null } | null;
+}
+
+/** Assigned work due within this many days comes before the lesson last worked on. */
+export const DUE_SOON_DAYS = 7;
+
+/**
+ * Where "continue" goes. An assigned lesson that is open, not finished, still takes answers and is due
+ * within DUE_SOON_DAYS (or already past due) comes first, soonest due first: that is the work the
+ * teacher is waiting for. Otherwise the lesson last worked on that is not finished (or the first not
+ * finished), each at its last place.
+ */
+export function continueTarget(progress: LessonProgress[], assigned: AssignedForContinue[] = [], now: Date = new Date()): ContinueTarget | null {
   const open = progress.filter((p) => !p.complete);
   if (open.length === 0) return null;
-  const recent = open
+  const lastWorked = open
     .filter((p) => p.updatedAt)
     .sort((a, b) => (b.updatedAt?.getTime() ?? 0) - (a.updatedAt?.getTime() ?? 0))[0];
-  const target = recent ?? open[0];
-  return { slug: target.slug, place: target.lastPlace };
+  const soon = now.getTime() + DUE_SOON_DAYS * 24 * 60 * 60 * 1000;
+  const due = [...assigned]
+    .sort((a, b) => a.dueAt.localeCompare(b.dueAt))
+    .find((a) => {
+      const dueAt = Date.parse(a.dueAt);
+      const takesAnswers = a.latePolicy !== "closed" || dueAt >= now.getTime(); // as closedForAnswers
+      return a.opened && takesAnswers && dueAt <= soon && open.some((p) => p.slug === a.slug);
+    });
+  if (due) {
+    const lesson = open.find((p) => p.slug === due.slug)!;
+    return {
+      slug: lesson.slug,
+      place: lesson.lastPlace,
+      due: { text: due.dueText, passed: Date.parse(due.dueAt) <= now.getTime() },
+      stoppedAt: lastWorked && lastWorked.slug !== lesson.slug ? { slug: lastWorked.slug, place: lastWorked.lastPlace } : null,
+    };
+  }
+  const target = lastWorked ?? open[0];
+  return { slug: target.slug, place: target.lastPlace, due: null, stoppedAt: null };
 }

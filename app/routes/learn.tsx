@@ -31,7 +31,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     atHome: membership.organisationKind === "household",
     classes: myClasses,
     lessons,
-    continueAt: continueTarget(lessons),
+    continueAt: continueTarget(lessons, assigned),
     assigned,
   };
 }

@@ -220,7 +220,34 @@ describe("progress", () => {
     const student = await studentId("grace.w");
     const definition = findExercise(LESSON, "stiffness-one-reading")!;
     await recordAttempt({ db }, { studentId: student, slug: LESSON, definition, submission: { kind: "text", answer: "1 N" } });
-    expect(continueTarget(await courseProgress({ db }, student))).toEqual({ slug: LESSON, place: "exercise-stiffness-one-reading" });
+    expect(continueTarget(await courseProgress({ db }, student))).toEqual({ slug: LESSON, place: "exercise-stiffness-one-reading", due: null, stoppedAt: null });
+  });
+
+  it("sends the student to assigned work due within a week before the lesson last worked on", () => {
+    const now = new Date("2026-10-05T12:00:00Z");
+    const day = 24 * 60 * 60 * 1000;
+    const lesson = (slug: string, worked: number | null, complete = false) => ({
+      slug, number: Number(slug[1]), title: slug, summary: "", minutes: 40, requiredDone: worked ? 1 : 0, requiredTotal: 5,
+      complete, started: worked !== null, lastPlace: worked ? `exercise-in-${slug}` : null, updatedAt: worked ? new Date(now.getTime() - worked * day) : null,
+    });
+    // Lesson 5 opened yesterday out of curiosity; lesson 3 half done a week ago and assigned.
+    const progress = [lesson("01", 20, true), lesson("03", 7), lesson("05", 1), lesson("06", null)];
+    const assigned = (slug: string, dueInDays: number, latePolicy = "accept", opened = true) => ({
+      slug, dueAt: new Date(now.getTime() + dueInDays * day).toISOString(), dueText: `in ${dueInDays} days`, opened, latePolicy,
+    });
+
+    expect(continueTarget(progress, [assigned("03", 2)], now)).toEqual({
+      slug: "03", place: "exercise-in-03", due: { text: "in 2 days", passed: false }, stoppedAt: { slug: "05", place: "exercise-in-05" },
+    });
+    // Past due but still taking late work: first, and said so.
+    expect(continueTarget(progress, [assigned("06", 3), assigned("03", -1)], now)).toMatchObject({ slug: "03", due: { passed: true } });
+    // Not yet due within a week, closed after its due date, not open yet, or finished: where the student stopped.
+    for (const other of [assigned("03", 8), assigned("03", -1, "closed"), assigned("03", 1, "accept", false), assigned("01", 1)]) {
+      expect(continueTarget(progress, [other], now)).toEqual({ slug: "05", place: "exercise-in-05", due: null, stoppedAt: null });
+    }
+    // The due lesson is the one last worked on: no second link.
+    expect(continueTarget(progress, [assigned("05", 1)], now)).toMatchObject({ slug: "05", stoppedAt: null });
+    expect(continueTarget(progress.map((p) => ({ ...p, complete: true })), [assigned("03", 1)], now)).toBeNull();
   });
 });
 
