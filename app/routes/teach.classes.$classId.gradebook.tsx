@@ -122,12 +122,18 @@ export default function GradebookPage({ loaderData }: Route.ComponentProps) {
             preventScrollReset
             replace
             aria-current={filter === f.value ? "true" : undefined}
+            title={f.means}
             className={`rounded-full border-2 px-3 py-1 font-bold no-underline ${filter === f.value ? "border-spruce bg-spruce text-white hover:text-white" : "border-spruce text-spruce hover:bg-spruce-wash"}`}
           >
             {f.label} ({counts[f.value]})
           </Link>
         ))}
       </nav>
+      {filter === "everyone" ? null : (
+        <p className="mb-2" data-testid="filter-means">
+          {GRADEBOOK_FILTERS.find((f) => f.value === filter)!.means}
+        </p>
+      )}
       <p className="mb-4 text-[length:var(--text-step--1)] text-ink-soft" data-testid="gradebook-updated">
         Updated {checkedAt ? formatClockTime(checkedAt, loaderData.timeZone) : loaderData.gradebook.updatedText} · refreshes every {refreshSeconds} s while this page is open{" "}
         <button type="button" className="ml-2 underline text-spruce" onClick={refreshNow} disabled={refreshing}>

@@ -130,6 +130,7 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     // The filters work on the rows already in the page.
     await page.getByRole("link", { name: /^Not started/ }).click();
     await page.waitForURL(/show=not-started/);
+    await expect(page.getByTestId("filter-means").innerText()).resolves.toMatch(/not started at least one lesson that is open/);
     await expect.poll(() => page.locator(`tr[data-student="${STUDENT}"]`).count()).toBe(0);
     await expect(page.locator("tr[data-student]").count()).resolves.toBe(3);
     expect(await page.evaluate(() => (window as unknown as { stillHere?: boolean }).stillHere)).toBe(true);

@@ -26,13 +26,11 @@ import { attemptsAllowed, NO_TRY_OUTCOMES_SQL } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { effectiveAccommodation } from "./policy.server";
 import { DAY_MS, daysLate, formatClockTime, formatDue } from "./time";
-import type { ClassSummary, Gradebook, GradebookCell, GradebookLesson, GradebookRow } from "./shared";
+import { STUCK_AFTER_WRONG, type ClassSummary, type Gradebook, type GradebookCell, type GradebookLesson, type GradebookRow } from "./shared";
 
 export type { ClassSummary, Gradebook, GradebookCell, GradebookLesson, GradebookRow } from "./shared";
 
 type Db = { db: Database };
-
-export const STUCK_AFTER_WRONG = 2;
 
 /** The credit (0–1) of a right answer given at `at` for a student whose due date is `due`. */
 export function lateCredit(at: Date, due: Date, policy: LatePolicy, penaltyPercent: number): number {

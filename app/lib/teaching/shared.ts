@@ -81,11 +81,15 @@ export interface Gradebook {
 }
 
 export type GradebookFilter = "everyone" | "not-started" | "late" | "stuck";
-export const GRADEBOOK_FILTERS: { value: GradebookFilter; label: string }[] = [
-  { value: "everyone", label: "Everyone" },
-  { value: "not-started", label: "Not started" },
-  { value: "late", label: "Late" },
-  { value: "stuck", label: "Stuck" },
+/** Wrong answers to one exercise, with no right one yet, after which a student shows as stuck. */
+export const STUCK_AFTER_WRONG = 2;
+
+/** The gradebook's filters; `means` says whom each one shows (under the filters, and on hover). */
+export const GRADEBOOK_FILTERS: { value: GradebookFilter; label: string; means: string }[] = [
+  { value: "everyone", label: "Everyone", means: "Every student in the class." },
+  { value: "not-started", label: "Not started", means: "Students who have not started at least one lesson that is open to them." },
+  { value: "late", label: "Late", means: "Students with a lesson past its due date and not finished, or finished after it." },
+  { value: "stuck", label: "Stuck", means: `Students with ${STUCK_AFTER_WRONG} or more wrong answers to one exercise and no right one yet.` },
 ];
 
 export function filterRows(rows: GradebookRow[], filter: GradebookFilter): GradebookRow[] {
