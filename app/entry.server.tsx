@@ -114,13 +114,19 @@ export function statusAfterFailures(request: Request, status: number): number {
  * Small answers (an answer check's feedback) go as they are, as the server's compression would send them.
  */
 export const handleDataRequest: HandleDataRequestFunction = async (response, { request }) => {
-  if (!response.body || response.headers.has("Content-Encoding")) return response;
+  // A loader or action that met PostgreSQL gone mid-request answers 503 here too (see handleError).
+  const status = statusAfterFailures(request, response.status);
+  const headers = new Headers(response.headers);
+  if (status === 503) headers.set("Retry-After", "5");
+  const statusText = status === response.status ? response.statusText : "";
+  if (!response.body || response.headers.has("Content-Encoding")) {
+    return status === response.status ? response : new Response(response.body, { status, statusText, headers });
+  }
   const bytes = Buffer.from(await response.arrayBuffer());
   const encoding = bytes.length < 1024 ? "identity" : bestEncoding(request.headers.get("accept-encoding"));
   const body = await encodeBody(bytes, encoding, "per-request");
-  const headers = new Headers(response.headers);
   encodingHeaders(headers, encoding, body.length);
-  return new Response(body, { status: response.status, statusText: response.statusText, headers });
+  return new Response(body, { status, statusText, headers });
 };
 
 // The mail worker runs from this same server build (drizzle/scripts/mail-worker.ts imports the build

@@ -2,7 +2,7 @@
 // exist is an everyday 404, not logged with a stack trace; a real fault is logged.
 import { UNSAFE_ErrorResponseImpl as ErrorResponse } from "react-router";
 import { afterEach, describe, expect, it, vi } from "vitest";
-import { handleError, statusAfterFailures } from "~/entry.server";
+import { handleDataRequest, handleError, statusAfterFailures } from "~/entry.server";
 
 const args = (signal?: AbortSignal, request = new Request("http://127.0.0.1/nowhere", { signal })) => ({ request, params: {}, context: {} }) as never;
 
@@ -40,5 +40,18 @@ describe("the server log", () => {
     handleError(new Error("something broke"), args(undefined, other));
     expect(statusAfterFailures(other, 500)).toBe(500);
     expect(statusAfterFailures(during, 200)).toBe(200);
+  });
+
+  it("answers a data request (a client navigation, a fetcher) 503 with Retry-After in the same case", async () => {
+    vi.spyOn(console, "error").mockImplementation(() => {});
+    const during = new Request("http://127.0.0.1/teach/classes.data");
+    handleError(new Error("Failed query", { cause: new Response(null, { status: 503, headers: { "Retry-After": "5" } }) }), args(undefined, during));
+    const sent = await handleDataRequest(new Response('[{"_1":2}]', { status: 500 }), args(undefined, during));
+    expect(sent.status).toBe(503);
+    expect(sent.headers.get("Retry-After")).toBe("5");
+    expect(await sent.text()).toBe('[{"_1":2}]');
+    // Any other data answer keeps its status and its body.
+    const other = await handleDataRequest(new Response('[{"_1":3}]', { status: 500 }), args());
+    expect([other.status, await other.text()]).toEqual([500, '[{"_1":3}]']);
   });
 });
