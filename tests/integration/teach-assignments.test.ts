@@ -10,7 +10,7 @@ import { attemptsAllowed, courseProgress, findExercise, loadLessonState, recordA
 import { assignedLessonsFor } from "~/lib/teaching/assignments.server";
 import { lateCredit } from "~/lib/teaching/gradebook.server";
 import { lessonPolicies } from "~/lib/teaching/policy.server";
-import { dateToZonedInput, daysLate, formatDue, zonedInputToDate } from "~/lib/teaching/time";
+import { dateToZonedInput, daysLate, formatClockTime, formatDue, formatMoment, zonedInputToDate } from "~/lib/teaching/time";
 import * as assignPage from "~/routes/teach.classes.$classId.assignments";
 import * as studentPage from "~/routes/teach.classes.$classId.students.$studentId";
 import * as lessonRoute from "~/routes/learn.lesson";
@@ -45,6 +45,9 @@ describe("time zones for due dates", () => {
     expect(zonedInputToDate("2026-02-30T10:00", "UTC")).toBeNull();
     expect(zonedInputToDate("next friday", "UTC")).toBeNull();
     expect(formatDue(new Date("2026-12-11T23:00:00Z"), "America/Chicago", new Date("2026-12-01T00:00:00Z"))).toMatch(/Fri 11 Dec.*5:00\s?pm/);
+    // Every time of day on the 12-hour clock of the due dates (attempt lists, "Updated …").
+    expect(formatMoment(new Date("2026-12-11T22:05:09Z"), "America/Chicago")).toMatch(/^11 Dec 2026, 4:05:09\s?pm$/);
+    expect(formatClockTime(new Date("2026-12-11T06:05:09Z"), "UTC")).toMatch(/^6:05:09\s?am$/);
     expect(daysLate(new Date("2026-12-12T00:00:00Z"), new Date("2026-12-11T23:00:00Z"))).toBe(1);
     expect(daysLate(new Date("2026-12-13T23:00:00Z"), new Date("2026-12-11T23:00:00Z"))).toBe(2);
     expect(daysLate(new Date("2026-12-11T22:00:00Z"), new Date("2026-12-11T23:00:00Z"))).toBe(0);

@@ -93,23 +93,25 @@ export function formatLongDate(date: Date): string {
   return formatter("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(date);
 }
 
-/** "11 Dec 2026, 16:05:09" for lists of attempts. */
+// Times of day read the same everywhere: the 12-hour clock of the due dates ("5:00 pm").
+
+/** "11 Dec 2026, 4:05:09 pm" for lists of attempts (seconds: tries can come within a minute). */
 export function formatMoment(date: Date | string, timeZone: string): string {
   return formatter("en-GB", {
     timeZone,
     day: "numeric",
     month: "short",
     year: "numeric",
-    hour: "2-digit",
+    hour: "numeric",
     minute: "2-digit",
     second: "2-digit",
-    hourCycle: "h23",
+    hour12: true,
   }).format(new Date(date));
 }
 
-/** "14:05:09" in the zone: the time of day a page was brought up to date. */
+/** "2:05:09 pm" in the zone: the time of day a page was brought up to date. */
 export function formatClockTime(date: Date | string, timeZone: string): string {
-  return formatter("en-GB", { timeZone, hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23" }).format(new Date(date));
+  return formatter("en-GB", { timeZone, hour: "numeric", minute: "2-digit", second: "2-digit", hour12: true }).format(new Date(date));
 }
 
 export const DAY_MS = 24 * 60 * 60 * 1000;
