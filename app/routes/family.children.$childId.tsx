@@ -195,7 +195,7 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
                     <span className="font-bold">Feedback:</span> {a.comment}
                   </p>
                 ) : null}
-                <ReviewForm action={`/family/children/${child.id}`} answer={{ studentId: child.id, slug: l.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
+                <ReviewForm of={`the answer in “${l.title}”`} action={`/family/children/${child.id}`} answer={{ studentId: child.id, slug: l.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
               </div>
             ))}
           </article>

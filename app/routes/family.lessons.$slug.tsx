@@ -154,7 +154,7 @@ export default function FamilyLesson({ loaderData }: Route.ComponentProps) {
               </span>
             </h3>
             <ClaimEvidenceReasoning answer={a} />
-            <ReviewForm action={`/family/lessons/${lesson.slug}`} answer={{ studentId: a.studentId, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
+            <ReviewForm of={`${a.displayName}'s answer`} action={`/family/lessons/${lesson.slug}`} answer={{ studentId: a.studentId, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
           </article>
         ))}
       </section>

@@ -115,7 +115,7 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
               </span>
             </h3>
             <ClaimEvidenceReasoning answer={a} />
-            <ReviewForm action={`/teach/classes/${klass.id}/lessons/${lesson.slug}`} answer={{ studentId: a.studentId, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
+            <ReviewForm of={`${a.displayName}'s answer`} action={`/teach/classes/${klass.id}/lessons/${lesson.slug}`} answer={{ studentId: a.studentId, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
           </article>
         ))}
       </section>

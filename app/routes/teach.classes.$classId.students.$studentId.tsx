@@ -289,7 +289,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
                 {a.scores ? ` · reviewed: ${rubricTotal(a.scores)} of 6` : ""}
               </h3>
               <ClaimEvidenceReasoning answer={a} />
-              <ReviewForm action={`/teach/classes/${klass.id}/students/${student.id}`} answer={{ studentId: student.id, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
+              <ReviewForm of={`the answer in “${lesson.title}”`} action={`/teach/classes/${klass.id}/students/${student.id}`} answer={{ studentId: student.id, slug: lesson.slug, answerId: a.answerId, handedIn: a.handedIn, scores: a.scores, comment: a.comment }} />
             </div>
           ))}
 

@@ -1,4 +1,6 @@
 // Shared set-up for browser tests: Debian's Chromium driven by playwright-core (never a browser download).
+import { readFileSync } from "node:fs";
+import { createRequire } from "node:module";
 import { chromium, type Browser, type BrowserContext, type Page } from "playwright-core";
 
 export const appUrl = process.env.BENDWISE_APP_URL ?? "";
@@ -54,4 +56,27 @@ export async function openAsStudent(page: Page, who: { code: string; username: s
   await page.goto("/sign-in");
   await signInAsStudent(page, who.code, who.username, who.password);
   await page.waitForURL(/\/learn/);
+}
+
+export interface AxeViolation {
+  id: string;
+  impact: string | null;
+  nodes: string[];
+  help: string;
+}
+
+const axeSource = () => readFileSync(createRequire(import.meta.url).resolve("axe-core/axe.min.js"), "utf8");
+
+/**
+ * Runs the axe-core accessibility scan (WCAG 2 A/AA rules and axe's best practices) on the page as it
+ * is now. The page's context must be opened with `bypassCSP: true`: the scan's script is injected by
+ * the test, and only such a context may run it past the app's script policy.
+ */
+export async function axeViolations(page: Page): Promise<AxeViolation[]> {
+  await page.addScriptTag({ content: axeSource() });
+  return page.evaluate(async () => {
+    type Result = { violations: { id: string; impact: string | null; help: string; nodes: { html: string }[] }[] };
+    const result = await (window as unknown as { axe: { run: () => Promise<Result> } }).axe.run();
+    return result.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.map((n) => n.html.slice(0, 200)) }));
+  });
 }

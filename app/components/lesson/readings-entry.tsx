@@ -28,8 +28,23 @@ function rowsFrom(saved: SavedReadings | undefined): Row[] {
   return rows;
 }
 
-/** `example`: what the lesson has the student test here, shown as the example in "What you tested". */
-export function ReadingsEntry({ id, mode = "bend", resolutionCm = 0.1, example = "a plastic ruler" }: { id: string; mode?: Mode; resolutionCm?: number; example?: string }) {
+/**
+ * `example`: what the lesson has the student test here, shown as the example in "What you tested".
+ * `title`: the table's heading; a lesson with two tables gives each its own (screen readers list them by it).
+ */
+export function ReadingsEntry({
+  id,
+  mode = "bend",
+  resolutionCm = 0.1,
+  example = "a plastic ruler",
+  title = "Your readings",
+}: {
+  id: string;
+  mode?: Mode;
+  resolutionCm?: number;
+  example?: string;
+  title?: string;
+}) {
   const { state, canAnswer } = useLesson();
   const saved = state.readings[id];
   const fetcher = useFetcher<{ readingsId?: string; errors?: string[]; saved?: boolean }>();
@@ -46,7 +61,7 @@ export function ReadingsEntry({ id, mode = "bend", resolutionCm = 0.1, example =
   return (
     <section id={`readings-${id}`} className="card my-8 scroll-mt-6 font-ui" aria-labelledby={`readings-${id}-title`}>
       <h3 id={`readings-${id}-title`} className="mb-2 font-reading text-[length:var(--text-step-1)]">
-        Your readings
+        {title}
       </h3>
       <p className="mb-3 text-ink-soft">
         Read the ruler to {resolutionCm} cm. Leave a row empty to skip it. Tick “broke” for the load at which the piece broke.
@@ -121,12 +136,12 @@ export function ReadingsEntry({ id, mode = "bend", resolutionCm = 0.1, example =
         )}
         {fetcher.data?.saved && fetcher.data.readingsId === id && <p className="mt-3 text-ok font-bold">Saved.</p>}
       </div>
-      {analysis && <ReadingsAnalysis analysis={analysis} />}
+      {analysis && <ReadingsAnalysis analysis={analysis} title={title} />}
     </section>
   );
 }
 
-function ReadingsAnalysis({ analysis }: { analysis: ReturnType<typeof analyseReadings> }) {
+function ReadingsAnalysis({ analysis, title }: { analysis: ReturnType<typeof analyseReadings>; title: string }) {
   const origin = analysis.fit.throughOrigin;
   const free = analysis.fit.withIntercept;
   return (
@@ -165,7 +180,7 @@ function ReadingsAnalysis({ analysis }: { analysis: ReturnType<typeof analyseRea
           ))}
         </ul>
       )}
-      <ForceChartFromAnalysis analysis={analysis} title="Your readings" />
+      <ForceChartFromAnalysis analysis={analysis} title={title} />
     </div>
   );
 }

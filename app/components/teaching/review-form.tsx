@@ -13,7 +13,8 @@ export interface ReviewedAnswer {
   comment: string | null;
 }
 
-export function ReviewForm({ answer, action }: { answer: ReviewedAnswer; action: string }) {
+/** `of`: whose answer, or which, as the page tells them apart ("Amira K.'s answer"): the form is named by it. */
+export function ReviewForm({ answer, action, of }: { answer: ReviewedAnswer; action: string; of: string }) {
   const fetcher = useFetcher<{ reviewed?: string; error?: string }>();
   const id = useId();
   const key = `${answer.studentId}/${answer.slug}/${answer.answerId}`;
@@ -21,7 +22,7 @@ export function ReviewForm({ answer, action }: { answer: ReviewedAnswer; action:
   if (!answer.handedIn) return <p className="text-ink-soft">This answer is still a draft; you can review it once it is handed in.</p>;
   return (
     <fetcher.Form method="post" action={action} className="mt-3 rounded-lg bg-paper p-3" aria-labelledby={`${id}-title`}>
-      <h4 id={`${id}-title`} className="mb-2 font-bold">Your review</h4>
+      <h4 id={`${id}-title`} className="mb-2 font-bold">Your review of {of}</h4>
       <input type="hidden" name="intent" value="review" />
       <input type="hidden" name="studentId" value={answer.studentId} />
       <input type="hidden" name="slug" value={answer.slug} />
