@@ -6,7 +6,7 @@ import { db } from "~/db/client.server";
 import { assertSameOrigin } from "~/lib/auth.server";
 import { classHeading, renameClass, renewClassCode, setArchived, setClassTimeZone, spacedCode } from "~/lib/teaching/classes.server";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
-import { timeZoneChoices } from "~/lib/teaching/time";
+import { timeZoneMenu } from "~/lib/teaching/time";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
 
 const intentSchema = z.discriminatedUnion("intent", [
@@ -19,7 +19,7 @@ const intentSchema = z.discriminatedUnion("intent", [
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { klass } = await requireTeacherClass(request, params.classId);
-  return { klass: classHeading(klass), timeZone: klass.timeZone, timeZones: timeZoneChoices() };
+  return { klass: classHeading(klass), timeZone: klass.timeZone, timeZones: timeZoneMenu() };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -98,7 +98,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
           {message("time-zone")}
           <Form method="post" preventScrollReset key={timeZone}>
             <input type="hidden" name="intent" value="time-zone" />
-            <SelectField label="Time zone" name="timeZone" defaultValue={timeZone} options={timeZones.map((z) => ({ value: z, label: z }))} error={error("time-zone")} />
+            <SelectField label="Time zone" name="timeZone" defaultValue={timeZone} options={timeZones} error={error("time-zone")} />
             <button className="btn" type="submit" disabled={busy}>Save the time zone</button>
           </Form>
         </section>

@@ -10,7 +10,7 @@ import { attemptsAllowed, courseProgress, findExercise, loadLessonState, recordA
 import { assignedLessonsFor } from "~/lib/teaching/assignments.server";
 import { lateCredit } from "~/lib/teaching/gradebook.server";
 import { lessonPolicies } from "~/lib/teaching/policy.server";
-import { dateToZonedInput, daysLate, formatClockTime, formatDue, formatMoment, zonedInputToDate } from "~/lib/teaching/time";
+import { dateToZonedInput, daysLate, formatClockTime, formatDue, formatMoment, timeZoneMenu, zonedInputToDate } from "~/lib/teaching/time";
 import * as assignPage from "~/routes/teach.classes.$classId.assignments";
 import * as studentPage from "~/routes/teach.classes.$classId.students.$studentId";
 import * as lessonRoute from "~/routes/learn.lesson";
@@ -48,6 +48,12 @@ describe("time zones for due dates", () => {
     // Every time of day on the 12-hour clock of the due dates (attempt lists, "Updated …").
     expect(formatMoment(new Date("2026-12-11T22:05:09Z"), "America/Chicago")).toMatch(/^11 Dec 2026, 4:05:09\s?pm$/);
     expect(formatClockTime(new Date("2026-12-11T06:05:09Z"), "UTC")).toMatch(/^6:05:09\s?am$/);
+    // The class settings' menu: UTC alone first, then zones by region, named by place with spaces.
+    const menu = timeZoneMenu();
+    expect(menu[0]).toEqual({ value: "UTC", label: "UTC" });
+    expect(menu).toContainEqual({ value: "America/Chicago", label: "Chicago", group: "America" });
+    expect(menu).toContainEqual({ value: "America/Indiana/Knox", label: "Indiana/Knox", group: "America" });
+    expect(menu).toContainEqual({ value: "America/Buenos_Aires", label: "Buenos Aires", group: "America" });
     expect(daysLate(new Date("2026-12-12T00:00:00Z"), new Date("2026-12-11T23:00:00Z"))).toBe(1);
     expect(daysLate(new Date("2026-12-13T23:00:00Z"), new Date("2026-12-11T23:00:00Z"))).toBe(2);
     expect(daysLate(new Date("2026-12-11T22:00:00Z"), new Date("2026-12-11T23:00:00Z"))).toBe(0);

@@ -40,9 +40,19 @@ export function SelectField({
   label: string;
   hint?: string;
   error?: string;
-  options: { value: string; label: string }[];
+  /** options with a `group` are shown under that group's heading, in the order given */
+  options: { value: string; label: string; group?: string }[];
 } & React.SelectHTMLAttributes<HTMLSelectElement> & { name: string }) {
   const id = useId();
+  const groups = [...new Set(options.map((o) => o.group))];
+  const optionsOf = (group: string | undefined) =>
+    options
+      .filter((o) => o.group === group)
+      .map((o) => (
+        <option key={o.value} value={o.value}>
+          {o.label}
+        </option>
+      ));
   const describedBy = [hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ") || undefined;
   return (
     <div className={className ?? "mb-4"}>
@@ -55,11 +65,15 @@ export function SelectField({
         </p>
       ) : null}
       <select id={id} className="field" aria-invalid={error ? true : undefined} aria-describedby={describedBy} {...select}>
-        {options.map((o) => (
-          <option key={o.value} value={o.value}>
-            {o.label}
-          </option>
-        ))}
+        {groups.map((group) =>
+          group === undefined ? (
+            optionsOf(undefined)
+          ) : (
+            <optgroup key={group} label={group}>
+              {optionsOf(group)}
+            </optgroup>
+          ),
+        )}
       </select>
       {error ? (
         <p id={`${id}-error`} className="mt-1 text-[length:var(--text-step--1)] font-bold text-danger">

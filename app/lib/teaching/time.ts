@@ -122,6 +122,18 @@ export function daysLate(at: Date | string, due: Date | string): number {
   return late > 0 ? Math.ceil(late / DAY_MS) : 0;
 }
 
+/**
+ * The time zones as a menu: grouped by their region ("America"), each named by its place with spaces
+ * ("Argentina/Buenos Aires"), so a teacher can type the first letters of a city. UTC stands alone first.
+ */
+export function timeZoneMenu(): { value: string; label: string; group?: string }[] {
+  return timeZoneChoices().map((zone) => {
+    const slash = zone.indexOf("/");
+    if (slash < 0) return { value: zone, label: zone };
+    return { value: zone, label: zone.slice(slash + 1).replaceAll("_", " "), group: zone.slice(0, slash) };
+  });
+}
+
 /** The time zones offered when making a class (the runtime's list, or a short fallback). */
 export function timeZoneChoices(): string[] {
   const intl = Intl as unknown as { supportedValuesOf?: (key: string) => string[] };
