@@ -25,7 +25,7 @@ import { lessonExercises, listLessons } from "./lessons.server";
 import { analyseReadings, type Mode } from "./science";
 import { exerciseSeed, seededRandom } from "./seeded-random";
 import { closedForAnswers, closedMessage, lessonPolicies, policiesOf, policyRowsJson, type LessonPolicy } from "./teaching/policy.server";
-import { formatDue } from "./teaching/time";
+import { DAY_MS, formatDue } from "./teaching/time";
 
 type Db = { db: Database };
 
@@ -637,7 +637,7 @@ export function continueTarget(progress: LessonProgress[], assigned: AssignedFor
   const lastWorked = open
     .filter((p) => p.updatedAt)
     .sort((a, b) => (b.updatedAt?.getTime() ?? 0) - (a.updatedAt?.getTime() ?? 0))[0];
-  const soon = now.getTime() + DUE_SOON_DAYS * 24 * 60 * 60 * 1000;
+  const soon = now.getTime() + DUE_SOON_DAYS * DAY_MS;
   const due = [...assigned]
     .sort((a, b) => a.dueAt.localeCompare(b.dueAt))
     .find((a) => {
