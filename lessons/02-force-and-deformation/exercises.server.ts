@@ -1,5 +1,5 @@
 // Exercise generators for lesson 2. Numbers come from each student's seed; the expected answers and
-// worked solutions stay on the server. Readings are invented, in the ranges a craft stick gives.
+// worked solutions stay on the server. Readings are invented, in the ranges a thin basswood strip gives.
 import type { LessonExercises } from "~/lib/exercises";
 import { formatForStudent, stiffnessNPerCm } from "~/lib/science";
 
@@ -117,13 +117,15 @@ export const lesson: LessonExercises = {
       title: "Same stiffness at every load?",
       generate(random) {
         const k = random.uniformStep(2, 3, 0.5);
-        const forces = [2, 4, 6];
+        // Loads of 3, 6 and 9 N give whole ruler marks (0.1 cm) for k = 2, 2.5 and 3 N/cm, so the
+        // readings are no finer than a ruler can give.
+        const forces = [3, 6, 9];
         // Either every reading gives the same stiffness, or the last one bends more than its share.
         const softens = random.next() < 0.5;
-        const deformations = forces.map((f, i) => Number(((f / k) * (softens && i === 2 ? 1.3 : 1)).toFixed(2)));
+        const deformations = forces.map((f, i) => Number(((f / k) * (softens && i === 2 ? 1.3 : 1)).toFixed(1)));
         const stiffnesses = forces.map((f, i) => f / deformations[i]);
         return {
-          prompt: `Three readings of one strip: ${forces.map((f, i) => `${f} N bends it ${deformations[i].toFixed(2)} cm`).join("; ")}.\nIs the stiffness the same for all three readings (within about 5 %)?`,
+          prompt: `Three readings of one strip: ${forces.map((f, i) => `${f} N bends it ${deformations[i].toFixed(1)} cm`).join("; ")}.\nIs the stiffness the same for all three readings (within about 5 %)?`,
           hint: "Work out force ÷ deformation for each reading and compare the three.",
           choices: [
             { value: "same", label: "Yes, about the same for all three" },

@@ -32,8 +32,15 @@ export const lesson: LessonExercises = {
             value,
             unit: "cm",
             tolerance: { absolute: 0.05 },
-            context: { forceN: force, loadedReadingCm: loaded },
+            // No loaded reading in the context: the checker's general slip for it speaks of a deformation.
+            context: { forceN: force },
             knownWrongAnswers: [
+              {
+                code: "loaded-reading-as-set",
+                value: loaded,
+                unit: "cm",
+                hint: "That is the ruler reading with the load on. The permanent set is read after the load is taken off: reference reading − return reading.",
+              },
               {
                 code: "used-loaded-reading",
                 value: tenth(reference - loaded),
@@ -75,7 +82,15 @@ export const lesson: LessonExercises = {
             value: s,
             unit: "cm",
             tolerance: { absolute: 0.05 },
-            context: { forceN: forces[i], loadedReadingCm: returns[i] },
+            context: { forceN: forces[i] },
+            knownWrongAnswers: [
+              {
+                code: "return-reading-as-set",
+                value: returns[i],
+                unit: "cm",
+                hint: "That is the return reading itself. The permanent set is how far it is from the reference reading: reference reading − return reading.",
+              },
+            ],
           })),
           solution: forces.map((f, i) => `${f} N: ${cm1(reference)} − ${cm1(returns[i])} = ${cm1(sets[i])}`).join("\n"),
         };

@@ -39,6 +39,25 @@ const bendingStressMpa = (forceN: number, spanM: number, thicknessM: number, iM4
   ((forceN * spanM) / 4) * (thicknessM / 2) / iM4 / 1e6;
 
 /**
+ * Two spans (cm) and a bend (cm) at the first whose bend at the second is one a ruler can read (at
+ * least 0.1 cm) and the beam formula still fits (at most a tenth of the new span). Drawn again until
+ * it is; most draws are at once.
+ */
+function plausibleSpanChange(random: SeededRandom) {
+  for (let attempt = 0; attempt < 60; attempt++) {
+    const from = random.pick([15, 20, 25, 30]);
+    let to = random.pick([10, 15, 20, 25, 30, 35, 40]);
+    if (to === from) to = from + 10;
+    const deflection = random.uniformStep(0.4, 1.5, 0.1);
+    const scale = 1 / beamStiffnessScale({ span: to / from });
+    const newDeflection = deflection * scale;
+    if (newDeflection >= 0.1 && newDeflection <= to / 10) return { from, to, deflection, scale, newDeflection };
+  }
+  const scale = 1 / beamStiffnessScale({ span: 25 / 20 });
+  return { from: 20, to: 25, deflection: 1, scale, newDeflection: scale };
+}
+
+/**
  * A strip (width, thickness in mm, span in cm) and a load (N) whose midspan deflection is between
  * 2 and 20 mm and under a tenth of the span: a bend a ruler can read and the beam formula still fits.
  */
@@ -161,12 +180,7 @@ export const lesson: LessonExercises = {
       kind: "number",
       title: "A longer or shorter span",
       generate(random) {
-        const from = random.pick([15, 20, 25, 30]);
-        let to = random.pick([10, 15, 20, 25, 30, 35, 40]);
-        if (to === from) to = from + 10;
-        const deflection = random.uniformStep(0.4, 1.5, 0.1);
-        const scale = 1 / beamStiffnessScale({ span: to / from });
-        const newDeflection = deflection * scale;
+        const { from, to, deflection, scale, newDeflection } = plausibleSpanChange(random);
         return {
           prompt: `A strip on supports ${from} cm apart bends ${deflection.toFixed(1)} cm under a load at its middle. The supports are moved to ${to} cm apart, and the same load is hung at the middle again.\nHow far does it bend now? Give a unit.`,
           hint: "The bend goes with the span cubed: multiply by (new span ÷ old span)³.",

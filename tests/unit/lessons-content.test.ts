@@ -24,6 +24,14 @@ import {
 import type { ExerciseDefinition, ExerciseInstance, ExerciseKind, GeneratorContext, LessonExercises } from "~/lib/exercises";
 import { analyseReadings, formatForStudent, type Mode, type ReadingPoint } from "~/lib/science";
 import { exerciseSeed, seededRandom } from "~/lib/seeded-random";
+import { wrongAnswerGroup } from "~/lib/teaching/words";
+
+/** Every slip an exercise names has words in the teacher's lists (app/lib/teaching/words.ts). */
+function expectTeacherWordsForSlips(expected: { knownWrongAnswers?: readonly { code: string }[] }, label: string) {
+  for (const w of expected.knownWrongAnswers ?? []) {
+    expect(wrongAnswerGroup(w.code, "incorrect").label, `${label}: teacher's words for the slip "${w.code}"`).not.toMatch(/^Slip “/);
+  }
+}
 
 const LESSONS_DIR = fileURLToPath(new URL("../../lessons", import.meta.url));
 const STUDENTS = 50;
@@ -373,6 +381,7 @@ for (const l of lessons) {
               if (def.kind === "ratio") expect(e.unit, `${label}: a ratio has no unit`).toBe("");
               if (def.kind === "number") expect(e.unit, `${label}: a number has a unit`).not.toBe("");
               expectAccepted(e, `${label} student ${s}`);
+              expectTeacherWordsForSlips(e, label);
               if (!ANSWER_MAY_APPEAR_IN_PROMPT.has(label)) {
                 const shown = promptGivesAnswerAway(inst.prompt, e);
                 expect(shown, `${label} student ${s}: the prompt shows the answer ${shown}\n${inst.prompt}`).toBeNull();
@@ -393,6 +402,7 @@ for (const l of lessons) {
               const blanks = t.rows.flat().filter((c) => c === null).length;
               expect(inst.cells?.length, `${label}: one expected answer per empty cell`).toBe(blanks);
               inst.cells!.forEach((cell, i) => expectAccepted(cell, `${label} student ${s} cell ${i}`));
+              inst.cells!.forEach((cell) => expectTeacherWordsForSlips(cell, label));
               break;
             }
           }

@@ -30,6 +30,7 @@ const SLIP_WORDS: Record<string, string> = {
   "forgot-last-reciprocal": "Left out the last step: 1 ÷ the sum",
   averaged: "Averaged the two stiffnesses",
   "used-loaded-reading": "Used the loaded reading instead of the return reading",
+  "loaded-reading-as-set": "Gave the ruler reading with the load on as the permanent set",
   "return-reading-as-set": "Gave the return reading itself, not its difference from the reference",
   "first-permanent-load": "Gave the first load that left a permanent set",
   "multiplied-by-factor": "Multiplied by the safety factor instead of dividing",
