@@ -131,7 +131,7 @@ export async function seedTeachingDemo(db: Db) {
           studentId: student.id,
           lessonSlug: LESSON,
           answerId: "cer-stiffness",
-          claim: "The craft stick has about the same stiffness at every load.",
+          claim: "The strip has about the same stiffness at every load.",
           evidence: "2 N bent it 0.8 cm, 4 N bent it 1.6 cm and 6 N bent it 2.4 cm: 2.5 N/cm each time.",
           reasoning: "Stiffness is force divided by deformation. When doubling the force doubles the deformation, that ratio stays the same.",
           handedInAt: next(),

@@ -1,6 +1,6 @@
 // Exercise generators for lesson 1 (measuring deformation). Numbers come from each student's seed;
 // the expected answers and worked solutions stay on the server. Readings are invented, in the
-// ranges a craft stick on two stacks of books gives with a millimetre ruler.
+// ranges a thin strip on two stacks of books gives with a millimetre ruler.
 import type { LessonExercises } from "~/lib/exercises";
 import { formatForStudent, stiffnessNPerCm } from "~/lib/science";
 

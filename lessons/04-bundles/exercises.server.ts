@@ -1,11 +1,11 @@
 // Exercise generators for lesson 4 (bundles side by side, pieces in series). Numbers come from each
 // student's seed; the expected answers and worked solutions stay on the server. Stiffnesses are
-// invented, in the ranges craft sticks, thin strips, kit springs and rubber bands give.
+// invented, in the ranges thin wooden strips, kit springs and rubber bands give.
 import type { LessonExercises } from "~/lib/exercises";
 import { formatForStudent, seriesStiffness, sideBySideStiffness, stiffnessRatio } from "~/lib/science";
 
 const fmt = (value: number, sig = 3) => formatForStudent(value, "", sig);
-const MATERIALS = ["craft sticks", "basswood strips", "thin plywood strips", "plastic coffee stirrers", "wooden coffee stirrers"];
+const MATERIALS = ["thin balsa strips", "basswood strips", "thin plywood strips", "plastic coffee stirrers", "wooden coffee stirrers"];
 
 export const lesson: LessonExercises = {
   writtenAnswers: ["cer-bundles"],

@@ -99,10 +99,10 @@ describe("a lesson in the browser", () => {
     await page.goto(`/learn/${LESSON}`);
 
     // The data stays hidden until a prediction is committed.
-    await expect(page.getByRole("table", { name: /Craft stick/ }).count()).resolves.toBe(0);
+    await expect(page.getByRole("table", { name: /basswood strip/ }).count()).resolves.toBe(0);
     await page.getByLabel("Stay about the same").check();
     await page.getByRole("button", { name: /Commit my prediction/ }).click();
-    await page.getByRole("table", { name: /Craft stick/ }).waitFor();
+    await page.getByRole("table", { name: /basswood strip/ }).waitFor();
     await expect(page.getByText("Your prediction:").count()).resolves.toBe(1);
 
     for (const { definition, instance } of await answersFor(student.username)) {
