@@ -2,6 +2,7 @@
 // school's student list: it says exactly what goes, and asks for the student's name typed out.
 import { Form, Link } from "react-router";
 import { Notice } from "~/components/auth-forms";
+import { SendButton } from "~/components/send-button";
 
 export function DeleteStudentForm({
   name,
@@ -50,9 +51,9 @@ export function DeleteStudentForm({
           required
         />
         <div className="flex flex-wrap gap-3">
-          <button type="submit" className="btn border-danger bg-danger hover:bg-[#7d1621]" disabled={busy}>
+          <SendButton className="btn border-danger bg-danger hover:bg-[#7d1621]" busy={busy}>
             {busy ? "Deleting…" : `Delete ${name}'s account and data`}
-          </button>
+          </SendButton>
           <Link to={back} className="btn btn-quiet">
             Keep the account
           </Link>

@@ -15,6 +15,7 @@ import { findChild, householdClass, householdsOf } from "~/lib/family/household.
 import { childReport } from "~/lib/family/progress.server";
 import { reviewAction } from "~/lib/teaching/review-action.server";
 import { rubricTotal } from "~/lib/teaching/shared";
+import { SendButton } from "~/components/send-button";
 
 const NOT_FOUND = "There is no child of yours at this address. Open your children from your family page.";
 const passwordSchema = z.object({ intent: z.literal("password"), password: z.string().max(1024) });
@@ -212,9 +213,9 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
         <Form method="post" noValidate>
           <input type="hidden" name="intent" value="password" />
           <Field label="New password" hint="At least 8 characters." name="password" type="text" autoComplete="off" autoCapitalize="none" spellCheck={false} required />
-          <button type="submit" className="btn" disabled={busy}>
+          <SendButton className="btn" busy={busy}>
             Set the new password
-          </button>
+          </SendButton>
         </Form>
       </section>
 

@@ -10,6 +10,7 @@ import { addChild, newChildSchema } from "~/lib/family/children.server";
 import { householdsOf } from "~/lib/family/household.server";
 import { schoolYearOf } from "~/lib/school-year";
 import { seatLedgerForYear } from "~/lib/seats.server";
+import { SendButton } from "~/components/send-button";
 
 type Values = { displayName: string; username: string; gradeBand: string };
 type Errors = Partial<Record<keyof Values | "password", string>>;
@@ -121,9 +122,9 @@ export default function NewChild({ loaderData, actionData }: Route.ComponentProp
           ))}
           {errors.gradeBand ? <p className="mt-1 text-[length:var(--text-step--1)] font-bold text-danger">{errors.gradeBand}</p> : null}
         </fieldset>
-        <button type="submit" className="btn" disabled={busy}>
+        <SendButton className="btn" busy={busy}>
           {busy ? "Making the account…" : "Make the account"}
-        </button>
+        </SendButton>
       </Form>
     </div>
   );

@@ -17,6 +17,7 @@ import { setClassTimeZone } from "~/lib/teaching/classes.server";
 import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
 import { LATE_POLICY_WORDS } from "~/lib/teaching/shared";
 import { DAY_MS, dateToZonedInput, formatDue, isTimeZone, zonedInputToDate } from "~/lib/teaching/time";
+import { SendButton } from "~/components/send-button";
 
 const intentSchema = z.discriminatedUnion("intent", [
   z.object({
@@ -221,9 +222,9 @@ export default function FamilyLessons({ loaderData, actionData }: Route.Componen
                   </div>
                 </div>
                 <div className="flex flex-wrap gap-3">
-                  <button type="submit" className="btn" disabled={busy}>
+                  <SendButton className="btn" busy={busy}>
                     {a ? "Save the dates" : `Assign lesson ${lesson.number}`}
-                  </button>
+                  </SendButton>
                 </div>
               </Form>
               {a ? <TakeOffTheList assignmentId={a.id} slug={lesson.slug} busy={busy} whoseWork="your children's" /> : null}

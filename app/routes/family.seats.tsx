@@ -18,6 +18,7 @@ import { PaymentServiceError, purchasesOf, startCardCheckout } from "~/lib/purch
 import { purchaseSummary } from "~/lib/receipts.server";
 import { purchasableSchoolYears, schoolYearOf } from "~/lib/school-year";
 import { seatLedger } from "~/lib/seats.server";
+import { SendButton } from "~/components/send-button";
 
 const MAX_CHILD_SEATS = 10;
 const blankToUndefined = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
@@ -170,9 +171,9 @@ export default function FamilySeats({ loaderData, actionData }: Route.ComponentP
               "Enter a number of seats to see the total."
             )}
           </p>
-          <button type="submit" className="btn" disabled={busy}>
+          <SendButton className="btn" busy={busy}>
             {busy ? "One moment…" : "Go to card payment"}
-          </button>
+          </SendButton>
         </Form>
       </section>
 

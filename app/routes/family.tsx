@@ -12,6 +12,7 @@ import { childrenOf, householdsOf } from "~/lib/family/household.server";
 import { setWeeklySummary, weeklySummaryWanted } from "~/lib/mail/preferences.server";
 import { schoolYearOf } from "~/lib/school-year";
 import { seatLedgerForYear } from "~/lib/seats.server";
+import { SendButton } from "~/components/send-button";
 
 const intentSchema = z.discriminatedUnion("intent", [z.object({ intent: z.literal("weekly"), on: z.enum(["yes", "no"]) })]);
 
@@ -206,9 +207,9 @@ export default function Family({ loaderData, actionData }: Route.ComponentProps)
         <Form method="post">
           <input type="hidden" name="intent" value="weekly" />
           <input type="hidden" name="on" value={weekly ? "no" : "yes"} />
-          <button type="submit" className="btn btn-quiet" disabled={busy}>
+          <SendButton className="btn btn-quiet" busy={busy}>
             {weekly ? "Stop the weekly summary" : "Send me the weekly summary"}
-          </button>
+          </SendButton>
         </Form>
       </section>
     </div>

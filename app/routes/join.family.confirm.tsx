@@ -10,6 +10,7 @@ import { assertSameOrigin } from "~/lib/auth.server";
 import { signInThroughAuth } from "~/lib/auth/auth-config.server";
 import { createEmailToken } from "~/lib/auth/email-tokens.server";
 import { confirmFamilySignUp, peekFamilySignUp } from "~/lib/family/sign-up.server";
+import { SendButton } from "~/components/send-button";
 
 const confirmSchema = z.object({ token: z.string().min(1).max(200) });
 
@@ -65,9 +66,9 @@ export default function ConfirmFamily({ loaderData, actionData }: Route.Componen
         </p>
         <Form method="post">
           <input type="hidden" name="token" value={loaderData.token} />
-          <button type="submit" className="btn" disabled={busy}>
+          <SendButton className="btn" busy={busy}>
             {busy ? "Making your account…" : "Confirm and open my family page"}
-          </button>
+          </SendButton>
         </Form>
       </div>
     </div>

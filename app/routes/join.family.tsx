@@ -10,6 +10,7 @@ import { serverEnv } from "~/env.server";
 import { assertSameOrigin, getUser, homePathFor } from "~/lib/auth.server";
 import { familySignUpSchema, startFamilySignUp } from "~/lib/family/sign-up.server";
 import { FAMILY_SEAT_PRICE_CENTS, formatPrice } from "~/lib/pricing";
+import { SendButton } from "~/components/send-button";
 
 type Values = { displayName: string; email: string; householdName: string };
 type FieldErrors = Partial<Record<keyof Values | "password", string>>;
@@ -112,9 +113,9 @@ export default function JoinFamily({ loaderData, actionData }: Route.ComponentPr
           required
           error={errors.password}
         />
-        <button type="submit" className="btn" disabled={busy}>
+        <SendButton className="btn" busy={busy}>
           {busy ? "One moment…" : "Send me the link"}
-        </button>
+        </SendButton>
       </Form>
       <p className="mt-6 text-ink-soft">
         Already have an account? <Link to="/sign-in">Sign in</Link>.

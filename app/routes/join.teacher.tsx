@@ -11,6 +11,7 @@ import { signInThroughAuth } from "~/lib/auth/auth-config.server";
 import { createEmailToken } from "~/lib/auth/email-tokens.server";
 import { newPasswordSchema } from "~/lib/auth/password-rules.server";
 import { acceptInvitation, invitationForToken } from "~/lib/invitations.server";
+import { SendButton } from "~/components/send-button";
 
 const SPENT = "This invitation link has been used, withdrawn or has run out (links work for a week). Ask the school's administrator to send it again.";
 const acceptSchema = z.object({ token: z.string().min(1).max(200), displayName: z.string().max(200).default(""), password: z.string().max(1024).default("") });
@@ -90,9 +91,9 @@ export default function JoinTeacher({ loaderData, actionData }: Route.ComponentP
             <Field label="Choose a password" hint="At least 8 characters. A few ordinary words in a row make a good one." name="password" type="password" autoComplete="new-password" required error={answer?.fieldErrors?.password} />
           </>
         )}
-        <button type="submit" className="btn" disabled={busy}>
+        <SendButton className="btn" busy={busy}>
           {busy ? "One moment…" : `Accept and join ${loaderData.school}`}
-        </button>
+        </SendButton>
       </Form>
     </div>
   );

@@ -10,6 +10,7 @@ import { Notice } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
 import { users } from "~/db/schema.server";
 import { readWeeklySummaryToken, setWeeklySummary } from "~/lib/mail/preferences.server";
+import { SendButton } from "~/components/send-button";
 
 const NOT_VALID = "This link is not one of ours, or it was cut short when copied. Open it again from the e-mail, or sign in and switch the summary off on your family page.";
 const postSchema = z.object({ intent: z.enum(["resume", "stop"]).default("stop") });
@@ -66,9 +67,9 @@ export default function WeeklySummary({ loaderData, actionData }: Route.Componen
       )}
       <Form method="post">
         <input type="hidden" name="intent" value={state.on ? "stop" : "resume"} />
-        <button type="submit" className="btn btn-quiet" disabled={busy}>
+        <SendButton className="btn btn-quiet" busy={busy}>
           {state.on ? "Stop it again" : "Oops — turn it back on"}
-        </button>
+        </SendButton>
       </Form>
     </div>
   );

@@ -15,6 +15,7 @@ import { assertSameOrigin } from "~/lib/auth/same-origin.server";
 import { loadUser } from "~/lib/auth/session.server";
 import { bucketsFor } from "~/lib/auth/throttle.server";
 import { hashPassword, MIN_PASSWORD_LENGTH } from "~/lib/passwords.server";
+import { SendButton } from "~/components/send-button";
 
 type ActionData = { error?: string; spent?: true };
 
@@ -98,9 +99,9 @@ export default function ChooseNewPassword({ loaderData, actionData }: Route.Comp
             <input type="checkbox" checked={shown} onChange={(e) => setShown(e.target.checked)} />
             Show the password while I type
           </label>
-          <button type="submit" className="btn" disabled={busy}>
+          <SendButton className="btn" busy={busy}>
             {busy ? "Saving…" : "Save and sign in"}
-          </button>
+          </SendButton>
         </Form>
       </div>
       <p className="mt-4 text-[length:var(--text-step--1)] text-ink-soft">Saving signs you out of Bendwise on every other device.</p>

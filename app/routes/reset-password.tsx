@@ -8,6 +8,7 @@ import { db } from "~/db/client.server";
 import { sendEmailLink } from "~/lib/auth/email-links.server";
 import { EMAIL_TOKEN_MINUTES } from "~/lib/auth/email-tokens.server";
 import { assertSameOrigin } from "~/lib/auth/same-origin.server";
+import { SendButton } from "~/components/send-button";
 
 const schema = z.object({
   email: z
@@ -73,9 +74,9 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
             defaultValue={result?.email ?? ""}
             error={result?.error}
           />
-          <button type="submit" className="btn" disabled={busy}>
+          <SendButton className="btn" busy={busy}>
             {busy ? "Sending…" : "Send me the link"}
-          </button>
+          </SendButton>
         </Form>
       </div>
       <p className="mt-5 text-ink-soft">

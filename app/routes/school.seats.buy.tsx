@@ -13,6 +13,7 @@ import { payments } from "~/lib/payments.server";
 import { formatPrice, SCHOOL_SEAT_PRICE_CENTS } from "~/lib/pricing";
 import { PaymentServiceError, requestInvoice, startCardCheckout } from "~/lib/purchases.server";
 import { purchasableSchoolYears } from "~/lib/school-year";
+import { SendButton } from "~/components/send-button";
 
 const MAX_SEATS_PER_ORDER = 5000;
 
@@ -173,7 +174,7 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
         <fieldset className="mb-4" aria-describedby={errors.method ? "method-error" : undefined}>
           <legend className="mb-1 font-bold">How will the school pay?</legend>
           <label className="mb-2 flex gap-3 rounded-lg border border-rule p-3">
-            <input type="radio" name="method" value="card" checked={method === "card"} onChange={() => setMethod("card")} className="mt-1" />
+            <input type="radio" name="method" value="card" checked={method === "card"} onChange={() => setMethod("card")} className="mt-1 shrink-0 self-start" />
             <span>
               <span className="block font-bold">By card, now</span>
               <span className="text-[length:var(--text-step--1)] text-ink-soft">
@@ -182,7 +183,7 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
             </span>
           </label>
           <label className="flex gap-3 rounded-lg border border-rule p-3">
-            <input type="radio" name="method" value="invoice" checked={method === "invoice"} onChange={() => setMethod("invoice")} className="mt-1" />
+            <input type="radio" name="method" value="invoice" checked={method === "invoice"} onChange={() => setMethod("invoice")} className="mt-1 shrink-0 self-start" />
             <span>
               <span className="block font-bold">By invoice</span>
               <span className="text-[length:var(--text-step--1)] text-ink-soft">
@@ -217,9 +218,9 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
             "Enter a number of seats to see the total."
           )}
         </p>
-        <button type="submit" className="btn" disabled={busy}>
+        <SendButton className="btn" busy={busy}>
           {busy ? "One moment…" : method === "invoice" ? "Send me the invoice" : "Go to card payment"}
-        </button>
+        </SendButton>
       </Form>
     </div>
   );

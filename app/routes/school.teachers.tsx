@@ -11,6 +11,7 @@ import { serverEnv } from "~/env.server";
 import { assertSameOrigin, requireRole } from "~/lib/auth.server";
 import { INVITATION_DAYS, inviteSchema, inviteTeacher, openInvitations, resendInvitation, withdrawInvitation } from "~/lib/invitations.server";
 import { formatLongDate } from "~/lib/teaching/time";
+import { SendButton } from "~/components/send-button";
 
 const intentSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("invite"), displayName: z.string(), email: z.string() }),
@@ -109,9 +110,9 @@ export default function SchoolTeachers({ loaderData, actionData }: Route.Compone
               error={invite?.fieldErrors?.email}
             />
           </div>
-          <button type="submit" className="btn" disabled={busy}>
+          <SendButton className="btn" busy={busy}>
             Send the invitation
-          </button>
+          </SendButton>
         </Form>
       </section>
 
@@ -137,16 +138,16 @@ export default function SchoolTeachers({ loaderData, actionData }: Route.Compone
                   <Form method="post">
                     <input type="hidden" name="intent" value="resend" />
                     <input type="hidden" name="invitationId" value={i.id} />
-                    <button type="submit" className="btn btn-quiet" disabled={busy}>
+                    <SendButton className="btn btn-quiet" busy={busy}>
                       Send again<span className="sr-only"> to {i.email}</span>
-                    </button>
+                    </SendButton>
                   </Form>
                   <Form method="post">
                     <input type="hidden" name="intent" value="withdraw" />
                     <input type="hidden" name="invitationId" value={i.id} />
-                    <button type="submit" className="btn btn-quiet" disabled={busy}>
+                    <SendButton className="btn btn-quiet" busy={busy}>
                       Withdraw<span className="sr-only"> the invitation to {i.email}</span>
-                    </button>
+                    </SendButton>
                   </Form>
                 </div>
               </li>

@@ -14,6 +14,7 @@ import { sendEmailLink } from "~/lib/auth/email-links.server";
 import { EMAIL_TOKEN_MINUTES, peekEmailToken } from "~/lib/auth/email-tokens.server";
 import { assertSameOrigin } from "~/lib/auth/same-origin.server";
 import { loadUser } from "~/lib/auth/session.server";
+import { SendButton } from "~/components/send-button";
 
 const askSchema = z.object({
   email: z
@@ -88,9 +89,9 @@ export default function SignInLink({ loaderData, actionData }: Route.ComponentPr
           <Form method="post">
             <input type="hidden" name="intent" value="use" />
             <input type="hidden" name="token" value={loaderData.token} />
-            <button type="submit" className="btn" disabled={busy}>
+            <SendButton className="btn" busy={busy}>
               {busy ? "Signing in…" : "Sign in to Bendwise"}
-            </button>
+            </SendButton>
           </Form>
         </div>
       </div>
@@ -130,9 +131,9 @@ export default function SignInLink({ loaderData, actionData }: Route.ComponentPr
             defaultValue={send?.email ?? ""}
             error={send?.error}
           />
-          <button type="submit" className="btn" disabled={busy}>
+          <SendButton className="btn" busy={busy}>
             {busy ? "Sending…" : "E-mail me a link"}
-          </button>
+          </SendButton>
         </Form>
       </div>
       <p className="mt-5">

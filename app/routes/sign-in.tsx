@@ -9,6 +9,7 @@ import { adultCredentials, signInThroughAuth, studentCredentials, SignInPaused }
 import { assertSameOrigin } from "~/lib/auth/same-origin.server";
 import { loadUser } from "~/lib/auth/session.server";
 import { waitMessage } from "~/lib/auth/throttle.server";
+import { SendButton } from "~/components/send-button";
 
 // The door a form came through; an unknown one is treated as the adults' door.
 const doorSchema = z.enum(["adult", "student"]).catch("adult");
@@ -160,9 +161,9 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
               required
               error={adult?.fieldErrors.password}
             />
-            <button type="submit" className="btn" disabled={busyDoor === "adult"}>
+            <SendButton className="btn" busy={busyDoor === "adult"}>
               {busyDoor === "adult" ? "Signing in…" : "Sign in"}
-            </button>
+            </SendButton>
           </Form>
           <ul className="mt-5 space-y-1 text-[length:var(--text-step--1)]">
             <li>
@@ -224,9 +225,9 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
               required
               error={student?.fieldErrors.password}
             />
-            <button type="submit" className="btn" disabled={busyDoor === "student"}>
+            <SendButton className="btn" busy={busyDoor === "student"}>
               {busyDoor === "student" ? "Signing in…" : "Sign in"}
-            </button>
+            </SendButton>
           </Form>
           <p className="mt-5 text-[length:var(--text-step--1)] text-ink-soft">
             Forgot your password? Ask your teacher, or the parent who made your account: they can set a new one for you.

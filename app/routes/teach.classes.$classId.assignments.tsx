@@ -15,6 +15,7 @@ import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { classRoster } from "~/lib/teaching/roster.server";
 import { DAY_MS, dateToZonedInput, formatDue, zonedInputToDate } from "~/lib/teaching/time";
 import { ClassHeader, Notice, TakeOffTheList } from "~/components/teaching/ui";
+import { SendButton } from "~/components/send-button";
 
 const intentSchema = z.discriminatedUnion("intent", [
   z.object({
@@ -223,9 +224,9 @@ function AssignForm({ lesson, errors, busy }: { lesson: LessonRow; errors: Recor
           {error("latePenaltyPercent")}
         </div>
       </div>
-      <button type="submit" className="btn" disabled={busy}>
+      <SendButton className="btn" busy={busy}>
         {a ? "Save the changes" : `Assign lesson ${lesson.number}`}
-      </button>
+      </SendButton>
     </Form>
   );
 }

@@ -26,6 +26,7 @@ import {
 import { checkNewPassword } from "~/lib/auth/password-rules.server";
 import { problemPlace } from "~/lib/teaching/shared";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
+import { SendButton } from "~/components/send-button";
 
 const gradeBand = z.enum(["6-8", "9-10"], { error: "Choose grades 6–8 or 9–10." });
 
@@ -226,7 +227,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
             </div>
             <SelectField label="Grade band of these students" name="gradeBand" defaultValue={csv?.gradeBand ?? "6-8"} options={BANDS} />
           </div>
-          <button type="submit" className="btn" disabled={busy}>Check the file</button>
+          <SendButton className="btn" busy={busy}>Check the file</SendButton>
         </Form>
         {csv ? <RosterCheck result={csv} busy={busy} /> : null}
       </section>
@@ -242,7 +243,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
             <SelectField label="Grade band" name="gradeBand" defaultValue={addOne?.values.gradeBand ?? "6-8"} options={BANDS} />
             <TextField label="Student number (optional)" name="studentNumber" maxLength={30} autoComplete="off" defaultValue={addOne?.values.studentNumber} error={addOne?.errors.studentNumber} />
             <TextField label="First password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" error={addOne?.errors.password} />
-            <button type="submit" className="btn" disabled={busy}>Add the student</button>
+            <SendButton className="btn" busy={busy}>Add the student</SendButton>
           </Form>
         </section>
         <section className="card" aria-labelledby="add-existing">
@@ -253,7 +254,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
           <Form method="post" preventScrollReset>
             <input type="hidden" name="intent" value="add-existing" />
             <TextField label="Their username" name="username" required maxLength={60} autoComplete="off" autoCapitalize="none" spellCheck={false} error={existing?.seatNotice ? undefined : existing?.error} />
-            <button type="submit" className="btn btn-quiet" disabled={busy}>Add to this class</button>
+            <SendButton className="btn btn-quiet" busy={busy}>Add to this class</SendButton>
           </Form>
         </section>
       </div>
@@ -335,9 +336,9 @@ function RosterCheck({ result, busy }: { result: Extract<ActionResult, { intent:
           <input type="hidden" name="csv" value={result.csv} />
           <input type="hidden" name="gradeBand" value={result.gradeBand} />
           <input type="hidden" name="fileName" value={result.fileName} />
-          <button type="submit" className="btn" disabled={busy}>
+          <SendButton className="btn" busy={busy}>
             Add these {preview.rows.length} students to the class
-          </button>
+          </SendButton>
         </Form>
       ) : null}
     </div>

@@ -8,6 +8,7 @@ import { classHeading, renameClass, renewClassCode, setArchived, setClassTimeZon
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { timeZoneMenu } from "~/lib/teaching/time";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
+import { SendButton } from "~/components/send-button";
 
 const intentSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("rename"), name: z.string().trim().min(1, "Give the class a name.").max(80, "Keep the name under 80 characters.") }),
@@ -74,7 +75,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
           <Form method="post" preventScrollReset key={klass.name}>
             <input type="hidden" name="intent" value="rename" />
             <TextField label="Class name" name="name" defaultValue={klass.name} required maxLength={80} error={error("rename")} />
-            <button className="btn" type="submit" disabled={busy}>Rename</button>
+            <SendButton className="btn" busy={busy}>Rename</SendButton>
           </Form>
         </section>
 
@@ -89,7 +90,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
           </p>
           <Form method="post" preventScrollReset onSubmit={(e) => confirmOr(e, "Make a new code? The old code stops working at once; tell your students the new one.")}>
             <input type="hidden" name="intent" value="renew-code" />
-            <button className="btn btn-quiet" type="submit" disabled={busy || klass.archived}>Make a new code</button>
+            <SendButton className="btn btn-quiet" busy={busy || klass.archived}>Make a new code</SendButton>
           </Form>
         </section>
 
@@ -99,7 +100,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
           <Form method="post" preventScrollReset key={timeZone}>
             <input type="hidden" name="intent" value="time-zone" />
             <SelectField label="Time zone" name="timeZone" defaultValue={timeZone} options={timeZones} error={error("time-zone")} />
-            <button className="btn" type="submit" disabled={busy}>Save the time zone</button>
+            <SendButton className="btn" busy={busy}>Save the time zone</SendButton>
           </Form>
         </section>
 
@@ -112,7 +113,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
               <p className="mb-4">This class is archived: it is not in your list and its code signs nobody in. Restore it to use it again.</p>
               <Form method="post" preventScrollReset>
                 <input type="hidden" name="intent" value="restore" />
-                <button className="btn" type="submit" disabled={busy}>Restore the class</button>
+                <SendButton className="btn" busy={busy}>Restore the class</SendButton>
               </Form>
             </>
           ) : (
@@ -123,7 +124,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
               </p>
               <Form method="post" preventScrollReset onSubmit={(e) => confirmOr(e, "Archive this class? Its code stops signing students in until you restore it.")}>
                 <input type="hidden" name="intent" value="archive" />
-                <button className="btn btn-quiet" type="submit" disabled={busy}>Archive the class</button>
+                <SendButton className="btn btn-quiet" busy={busy}>Archive the class</SendButton>
               </Form>
             </>
           )}

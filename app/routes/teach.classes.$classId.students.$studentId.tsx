@@ -24,6 +24,7 @@ import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-rea
 import { ReviewForm } from "~/components/teaching/review-form";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
 import { writtenAnswerView } from "~/lib/teaching/review.server";
+import { SendButton } from "~/components/send-button";
 
 const STUDENT_NOT_FOUND = "There is no such student in this class.";
 const whole = (max: number, what: string) =>
@@ -333,7 +334,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
               <TextField label="More days" name="extraDays" type="number" min={0} max={MAX_EXTRA_DAYS} defaultValue={0} inputMode="numeric" />
             </div>
             <p className="mb-3 text-[length:var(--text-step--1)] text-ink-soft">One lesson's setting replaces the class-wide one for that lesson. 0 and 0 removes it.</p>
-            <button type="submit" className="btn" disabled={busy}>Save</button>
+            <SendButton className="btn" busy={busy}>Save</SendButton>
           </Form>
         </section>
 
@@ -344,7 +345,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
           <Form method="post" preventScrollReset>
             <input type="hidden" name="intent" value="password" />
             <TextField label="New password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" />
-            <button type="submit" className="btn" disabled={busy}>Set a new password</button>
+            <SendButton className="btn" busy={busy}>Set a new password</SendButton>
           </Form>
         </section>
 
@@ -357,14 +358,14 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
             <Form method="post" preventScrollReset>
               <input type="hidden" name="intent" value="move" />
               <SelectField label="Move to" name="toClassId" options={targets.map((t) => ({ value: t.id, label: `${t.name} (${t.schoolYear})` }))} />
-              <button type="submit" className="btn" disabled={busy}>Move</button>
+              <SendButton className="btn" busy={busy}>Move</SendButton>
             </Form>
           )}
           <hr className="my-4 border-rule" />
           {about("remove")}
           <Form method="post" preventScrollReset onSubmit={(e) => { if (!window.confirm(`Take ${student.displayName} out of ${klass.name}? Their account and work are kept.`)) e.preventDefault(); }}>
             <input type="hidden" name="intent" value="remove" />
-            <button type="submit" className="btn btn-quiet" disabled={busy}>Take out of this class</button>
+            <SendButton className="btn btn-quiet" busy={busy}>Take out of this class</SendButton>
           </Form>
         </section>
       </div>

@@ -11,6 +11,7 @@ import { classHeading, createClass, listTeacherClasses, spacedCode } from "~/lib
 import { loadGradebooks } from "~/lib/teaching/gradebook.server";
 import { teacherScope } from "~/lib/teaching/guard.server";
 import { Notice, Percent, SelectField, TextField } from "~/components/teaching/ui";
+import { SendButton } from "~/components/send-button";
 
 const createSchema = z.object({
   intent: z.literal("create"),
@@ -148,9 +149,9 @@ export default function TeachClasses({ loaderData }: Route.ComponentProps) {
             Due dates use the time zone <span className="font-mono">{timeZone}</span> (this computer's); you can change it in the class settings.
           </p>
           {errors.form ? <Notice tone="problem">{errors.form}</Notice> : null}
-          <button type="submit" className="btn" disabled={navigation.state === "submitting"}>
+          <SendButton className="btn" busy={navigation.state === "submitting"}>
             Make the class
-          </button>
+          </SendButton>
         </Form>
       </section>
 

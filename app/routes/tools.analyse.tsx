@@ -12,6 +12,7 @@ import { hitRateLimit } from "~/lib/rate-limit.server";
 import { parseReadingsText } from "~/lib/readings-text";
 import { analyseReadings, formatForStudent, implausibleReadings, type AnalysisResult } from "~/lib/science";
 import { ANALYSIS_REQUESTS_PER_MINUTE } from "./api.analysis";
+import { SendButton } from "~/components/send-button";
 
 const formSchema = z.object({
   mode: z.enum(["bend", "stretch"]).default("bend"),
@@ -130,9 +131,9 @@ export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
           </label>
         </div>
         <div>
-          <button type="submit" className="btn" disabled={busy}>
+          <SendButton className="btn" busy={busy}>
             {busy ? "Working it out…" : "Analyse"}
-          </button>
+          </SendButton>
         </div>
       </Form>
       {actionData && actionData.problems.length > 0 && (

@@ -134,6 +134,29 @@ describe("a lesson in the browser", () => {
     await context.close();
   });
 
+  it("keeps the keyboard where it was when an answer is sent, and takes it to a new row of readings", async () => {
+    const { page, context, consoleErrors } = await openPage(browser);
+    await openAsStudent(page, { ...demoSignIns.student, username: "grace.w" });
+    await page.goto(`/learn/${LESSON}`);
+    const box = exercise(page, "stiffness-one-reading");
+    await box.getByLabel(/Your answer/).fill("99 N/cm");
+    await box.getByRole("button", { name: "Check my answer" }).focus();
+    await page.keyboard.press("Enter");
+    // The button stays where the keyboard is while the answer is checked ("Checking…") and after it
+    // (a disabled button would drop focus to the page).
+    await expect(page.evaluate(() => document.activeElement?.tagName)).resolves.toBe("BUTTON");
+    await expect.poll(() => page.evaluate(() => document.activeElement?.textContent?.trim())).toBe("Check my answer");
+    await expect(box.getByTestId("exercise-feedback").textContent()).resolves.not.toBe("");
+
+    await page.goto("/learn/07-home-lab");
+    const readings = page.locator("#readings-ruler-readings");
+    await readings.getByRole("button", { name: "Add a row" }).focus();
+    await page.keyboard.press("Enter");
+    await expect(page.evaluate(() => document.activeElement?.getAttribute("aria-label"))).resolves.toBe("Force, row 7");
+    expect(consoleErrors).toEqual([]);
+    await context.close();
+  });
+
   it("passes an accessibility scan (axe-core) with no violation, and its math carries MathML", async () => {
     // The scan script is injected by the test, so this context alone may bypass the page's CSP.
     const { page, context } = await openPage(browser, { bypassCSP: true });

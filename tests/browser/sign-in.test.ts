@@ -111,7 +111,7 @@ describe("around sign-in", () => {
       await signInAsAdult(page, person.email, `not it ${i}`);
       await answered;
       await door.getByRole("alert").waitFor();
-      await page.waitForFunction(() => !document.querySelector("button[disabled]"));
+      await page.waitForFunction(() => !document.querySelector("button[aria-disabled=true]"));
     }
     await door.getByRole("alert").filter({ hasText: "Too many wrong tries" }).waitFor({ timeout: 5_000 });
     const alert = await door.getByRole("alert").innerText();

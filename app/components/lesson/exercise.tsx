@@ -4,6 +4,7 @@ import { useId } from "react";
 import { useFetcher } from "react-router";
 import type { ExerciseState, Feedback } from "~/lib/course.server";
 import { useLesson } from "./lesson-context";
+import { SendButton } from "~/components/send-button";
 
 export interface AnswerResponse {
   exerciseId?: string;
@@ -59,9 +60,9 @@ export function Exercise({ id }: { id: string }) {
           <input type="hidden" name="exerciseId" value={id} />
           <AnswerFields exercise={exercise} formId={formId} disabled={closed || !canAnswer} />
           {canAnswer && !closed && (
-            <button type="submit" className="btn mt-3" disabled={busy}>
+            <SendButton className="btn mt-3" busy={busy}>
               {busy ? "Checking…" : "Check my answer"}
-            </button>
+            </SendButton>
           )}
           {!canAnswer && <p className="mt-3 text-ink-soft">You are looking at this lesson as an adult: answers are not saved.</p>}
         </fetcher.Form>

@@ -2,6 +2,7 @@
 import { useFetcher } from "react-router";
 import { PHOTO_MAX_BYTES } from "~/lib/photo-rules";
 import { useLesson } from "./lesson-context";
+import { SendButton } from "~/components/send-button";
 
 export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id: string; prompt?: string }) {
   const { state, canAnswer } = useLesson();
@@ -23,9 +24,9 @@ export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id
             <span className="mb-1 block font-bold">Choose a photo (JPEG, PNG or WebP, up to {PHOTO_MAX_BYTES / 1024 / 1024} MB)</span>
             <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" required className="block w-full max-w-full" />
           </label>
-          <button type="submit" className="btn mt-3" disabled={fetcher.state !== "idle"}>
+          <SendButton className="btn mt-3" busy={fetcher.state !== "idle"}>
             {fetcher.state !== "idle" ? "Uploading…" : "Upload the photo"}
-          </button>
+          </SendButton>
         </fetcher.Form>
       )}
       <div aria-live="polite">

@@ -1,11 +1,12 @@
 // The student's own readings: a table saved to the server, analysed by the science module (the same
 // analysis as POST /api/analysis), with its chart.
-import { useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import type { SavedReadings } from "~/lib/course.server";
 import { analyseReadings, formatForStudent, type Mode } from "~/lib/science";
 import { ForceChartFromAnalysis } from "./force-chart";
 import { useLesson } from "./lesson-context";
+import { SendButton } from "~/components/send-button";
 
 interface Row {
   forceN: string;
@@ -51,6 +52,13 @@ export function ReadingsEntry({
   const [rows, setRows] = useState<Row[]>(() => rowsFrom(saved));
   const [unloaded, setUnloaded] = useState(text(saved?.unloadedCm ?? undefined));
   const [material, setMaterial] = useState(saved?.material ?? "");
+  // "Add a row" takes the keyboard to the new row's force, instead of leaving it on a button the new
+  // row has pushed down.
+  const table = useRef<HTMLTableSectionElement>(null);
+  const [addedRow, setAddedRow] = useState<number | null>(null);
+  useEffect(() => {
+    if (addedRow !== null) table.current?.querySelectorAll<HTMLInputElement>('input[name="forceN"]')[addedRow]?.focus();
+  }, [addedRow]);
   const errors = fetcher.data?.readingsId === id ? fetcher.data.errors : undefined;
   const update = (i: number, patch: Partial<Row>) => setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
   const analysis = saved
@@ -91,7 +99,7 @@ export function ReadingsEntry({
                 <th scope="col" className="px-2 text-left">Broke</th>
               </tr>
             </thead>
-            <tbody>
+            <tbody ref={table}>
               {rows.map((row, i) => (
                 <tr key={i}>
                   <td className="px-1 py-1">
@@ -114,12 +122,17 @@ export function ReadingsEntry({
         </div>
         {canAnswer && (
           <div className="mt-3 flex flex-wrap gap-3">
-            <button type="button" className="btn btn-quiet" onClick={() => setRows((rs) => [...rs, emptyRow()])} disabled={rows.length >= 40}>
+            <button type="button" className="btn btn-quiet" onClick={() => {
+                setRows((rs) => [...rs, emptyRow()]);
+                setAddedRow(rows.length);
+              }}
+              disabled={rows.length >= 40}
+            >
               Add a row
             </button>
-            <button type="submit" className="btn" disabled={fetcher.state !== "idle"}>
+            <SendButton className="btn" busy={fetcher.state !== "idle"}>
               {fetcher.state !== "idle" ? "Saving…" : "Save and analyse"}
-            </button>
+            </SendButton>
           </div>
         )}
       </fetcher.Form>

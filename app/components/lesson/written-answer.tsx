@@ -1,6 +1,7 @@
 // A written claim–evidence–reasoning answer: saved as a draft, then handed in; the teacher's comment shows here.
 import { useFetcher } from "react-router";
 import { useLesson } from "./lesson-context";
+import { SendButton } from "~/components/send-button";
 
 export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
   const { state, canAnswer, reader } = useLesson();
@@ -43,15 +44,19 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
         {field("evidence", "Evidence", "Numbers from your data that support the claim.")}
         {field("reasoning", "Reasoning", "Why the evidence supports the claim: the science that links them.")}
         {canAnswer && (
-          <div className="flex flex-wrap gap-3">
+          // The result is said beside the buttons, where the eye and the keyboard focus already are.
+          <div className="flex flex-wrap items-center gap-3">
             {!handedIn && (
-              <button type="submit" name="handIn" value="0" className="btn btn-quiet" disabled={fetcher.state !== "idle"}>
+              <SendButton name="handIn" value="0" className="btn btn-quiet" busy={fetcher.state !== "idle"}>
                 Save a draft
-              </button>
+              </SendButton>
             )}
-            <button type="submit" name="handIn" value="1" className="btn" disabled={fetcher.state !== "idle"}>
+            <SendButton name="handIn" value="1" className="btn" busy={fetcher.state !== "idle"}>
               {handedIn ? "Hand in again" : "Hand in"}
-            </button>
+            </SendButton>
+            <p aria-live="polite" className="font-bold text-ok">
+              {mine?.saved === "draft" ? "Draft saved." : handedIn ? `Handed in. Your ${reader} can read it now.` : ""}
+            </p>
           </div>
         )}
       </fetcher.Form>
@@ -60,9 +65,6 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
           {mine.error}
         </p>
       )}
-      <p aria-live="polite" className="mt-2 font-bold text-ok">
-        {mine?.saved === "draft" ? "Draft saved." : handedIn ? `Handed in. Your ${reader} can read it now.` : ""}
-      </p>
       {saved?.reviewComment && (
         <div className="mt-3 rounded bg-spruce-wash p-3" data-testid="review-comment">
           <p className="font-bold">Your {reader}'s comment</p>

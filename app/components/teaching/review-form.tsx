@@ -3,6 +3,7 @@
 import { useId } from "react";
 import { useFetcher } from "react-router";
 import { RUBRIC, type RubricScores } from "~/lib/teaching/shared";
+import { SendButton } from "~/components/send-button";
 
 export interface ReviewedAnswer {
   studentId: string;
@@ -47,9 +48,9 @@ export function ReviewForm({ answer, action, of }: { answer: ReviewedAnswer; act
       </label>
       <textarea id={`${id}-comment`} name="comment" rows={3} maxLength={2000} className="field" defaultValue={answer.comment ?? ""} />
       <div className="mt-2 flex flex-wrap items-center gap-3">
-        <button type="submit" className="btn" disabled={fetcher.state !== "idle"}>
+        <SendButton className="btn" busy={fetcher.state !== "idle"}>
           Save the review
-        </button>
+        </SendButton>
         <span aria-live="polite" className={fetcher.data?.error ? "font-bold text-danger" : "font-bold text-ok"}>
           {fetcher.data?.error ?? (saved ? "Saved. The student sees your comment on their lesson page." : "")}
         </span>

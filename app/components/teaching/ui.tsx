@@ -2,6 +2,7 @@
 // header with its tabs that every page of a class carries.
 import { useId } from "react";
 import { Form, NavLink } from "react-router";
+import { SendButton } from "~/components/send-button";
 
 type InputProps = React.InputHTMLAttributes<HTMLInputElement> & { name: string };
 
@@ -164,9 +165,9 @@ export function TakeOffTheList({ assignmentId, slug, busy, whoseWork }: { assign
         <input type="hidden" name="intent" value="unassign" />
         <input type="hidden" name="assignmentId" value={assignmentId} />
         <input type="hidden" name="slug" value={slug} />
-        <button type="submit" className="btn btn-quiet" disabled={busy}>
+        <SendButton className="btn btn-quiet" busy={busy}>
           Yes, take it off the list
-        </button>
+        </SendButton>
       </Form>
     </details>
   );
