@@ -145,7 +145,13 @@ export default function Assignments({ loaderData, actionData }: Route.ComponentP
               {mine?.errors?.form || mine?.errors?.slug ? <Notice tone="problem">{mine.errors.form ?? mine.errors.slug}</Notice> : null}
               <details open={Boolean(mine?.errors && Object.keys(mine.errors).length > 0)} className="group">
                 <summary className="cursor-pointer font-bold text-spruce">
-                  {a ? "Change the dates or the late-work rule" : `Assign lesson ${lesson.number}…`}
+                  {a ? (
+                    <>
+                      Change the dates or the late-work rule<span className="sr-only"> of lesson {lesson.number}</span>
+                    </>
+                  ) : (
+                    `Assign lesson ${lesson.number}…`
+                  )}
                 </summary>
                 <div className="mt-3">
                   <AssignForm lesson={lesson} errors={mine?.errors ?? {}} busy={busy} />
