@@ -136,7 +136,8 @@ describe("a lesson in the browser", () => {
 
   it("keeps the keyboard where it was when an answer is sent, and takes it to a new row of readings", async () => {
     const { page, context, consoleErrors } = await openPage(browser);
-    await openAsStudent(page, { ...demoSignIns.student, username: "grace.w" });
+    // A child learning at home: no other browser test uses their lesson 2 (grace.w is the teacher test's).
+    await openAsStudent(page, demoSignIns.child);
     await page.goto(`/learn/${LESSON}`);
     const box = exercise(page, "stiffness-one-reading");
     await box.getByLabel(/Your answer/).fill("99 N/cm");
