@@ -19,7 +19,7 @@ import { rubricTotal } from "~/lib/teaching/shared";
 import { lessonAnswersForClass } from "~/lib/teaching/student-work.server";
 import { formatDue, formatMoment } from "~/lib/teaching/time";
 import { readableAnswer } from "~/lib/teaching/words";
-import { writtenAnswerView } from "~/lib/teaching/review.server";
+import { hasWriting, writtenAnswerView } from "~/lib/teaching/review.server";
 
 async function parentLesson(request: Request, slug: string | undefined) {
   const { user } = await requireRole(request, ["parent"]);
@@ -50,7 +50,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     children: children.length,
     items: analyseItems(lesson.slug, attempts, children.length),
     tries: attempts.map((a) => ({ id: a.id, exerciseId: a.exerciseId, child: a.displayName, answer: readableAnswer(a.rawAnswer, labelsOf(a.studentId, lesson.slug, a.exerciseId)), right: a.correct, at: formatMoment(a.createdAt, tz) })),
-    answers: answers.map((a) => ({
+    answers: answers.filter(hasWriting).map((a) => ({
       studentId: a.studentId,
       displayName: a.displayName,
       ...writtenAnswerView(a, tz),

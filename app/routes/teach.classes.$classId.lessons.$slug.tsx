@@ -17,7 +17,7 @@ import { formatDue } from "~/lib/teaching/time";
 import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { ClassHeader } from "~/components/teaching/ui";
-import { writtenAnswerView } from "~/lib/teaching/review.server";
+import { hasWriting, writtenAnswerView } from "~/lib/teaching/review.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { klass } = await requireTeacherClass(request, params.classId);
@@ -37,7 +37,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       ? { dueText: formatDue(assignment.dueAt, tz), opensText: formatDue(assignment.opensAt, tz), policy: LATE_POLICY_WORDS[assignment.latePolicy], penalty: assignment.latePenaltyPercent }
       : null,
     items: analyseItems(lesson.slug, attempts, students.length),
-    answers: answers.map((a) => ({
+    answers: answers.filter(hasWriting).map((a) => ({
       studentId: a.studentId,
       displayName: a.displayName,
       ...writtenAnswerView(a, tz),

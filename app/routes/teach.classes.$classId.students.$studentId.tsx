@@ -23,7 +23,7 @@ import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
 import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
-import { writtenAnswerView } from "~/lib/teaching/review.server";
+import { hasWriting, writtenAnswerView } from "~/lib/teaching/review.server";
 import { SendButton } from "~/components/send-button";
 
 const STUDENT_NOT_FOUND = "There is no such student in this class.";
@@ -92,7 +92,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
           };
         }),
       answers: work.answers
-        .filter((a) => a.lessonSlug === slug)
+        .filter((a) => a.lessonSlug === slug && hasWriting(a))
         .map((a) => writtenAnswerView(a, tz)),
       photos: work.photos.filter((p) => p.lessonSlug === slug).map((p) => ({ id: p.id, photoId: p.photoId, at: formatMoment(p.createdAt, tz) })),
     };

@@ -7,7 +7,7 @@ import Papa from "papaparse";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db, sqlStatements } from "~/db/client.server";
 import { accommodations, assignments, classes, enrollments, exerciseAttempts, lessonVisits, readingSets, users, writtenAnswers } from "~/db/schema.server";
-import { loadLessonState } from "~/lib/course.server";
+import { loadLessonState, saveWrittenAnswer } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { analyseItems, classAttempts } from "~/lib/teaching/analysis.server";
 import { gradebookVersion, loadGradebook } from "~/lib/teaching/gradebook.server";
@@ -356,6 +356,17 @@ describe("item analysis", () => {
 });
 
 describe("reviewing written answers", () => {
+  it("lists drafts with words in them and leaves out a draft that is still empty", async () => {
+    const classId = ids.mapleB.id;
+    const [quinn, rosa] = await Promise.all(["quinn.h", "rosa.g"].map(studentByUsername));
+    await saveWrittenAnswer({ db }, quinn.id, LESSON, "cer-stiffness", { claim: "", evidence: " ", reasoning: "" }, false);
+    await saveWrittenAnswer({ db }, rosa.id, LESSON, "cer-stiffness", { claim: "Stiffer at small loads.", evidence: "", reasoning: "" }, false);
+    const lesson = await runRoute(lessonPage.loader as never, get(`/x`, { cookie: cookies.teacher }), { classId, slug: LESSON });
+    const listed = (lesson.body as { answers: { studentId: string }[] }).answers.map((a) => a.studentId);
+    expect(listed).toContain(rosa.id);
+    expect(listed).not.toContain(quinn.id);
+  });
+
   it("saves 0–2 points for claim, evidence and reasoning with a comment the student sees on their lesson page", async () => {
     const kira = await studentByUsername("kira.n");
     const classId = ids.mapleB.id;

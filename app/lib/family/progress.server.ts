@@ -12,7 +12,7 @@ import { loadStudentWork } from "~/lib/teaching/student-work.server";
 import { formatMoment } from "~/lib/teaching/time";
 import { triesAsRead, type TryAsRead } from "~/lib/teaching/words";
 import type { TeacherClass } from "~/lib/teaching/classes.server";
-import { writtenAnswerView } from "~/lib/teaching/review.server";
+import { hasWriting, writtenAnswerView } from "~/lib/teaching/review.server";
 
 export interface ChildLesson {
   slug: string;
@@ -85,7 +85,7 @@ export async function childReport({ db }: { db: Database }, childId: string, kla
         }))
         .filter((e) => e.tries.length > 0),
       answers: work.answers
-        .filter((a) => a.lessonSlug === p.slug)
+        .filter((a) => a.lessonSlug === p.slug && hasWriting(a))
         .map((a) => writtenAnswerView(a, tz)),
       readings: work.readings
         .filter((r) => r.lessonSlug === p.slug)

@@ -34,6 +34,11 @@ export async function saveReview(
   return updated.length > 0 ? { ok: true } : { ok: false, message: "This answer has not been handed in yet, so it cannot be reviewed." };
 }
 
+/** A written answer worth showing an adult: handed in, or a draft with some words in it (an empty draft says nothing). */
+export function hasWriting(a: Pick<typeof writtenAnswers.$inferSelect, "claim" | "evidence" | "reasoning" | "handedInAt">): boolean {
+  return a.handedInAt !== null || [a.claim, a.evidence, a.reasoning].some((text) => text.trim() !== "");
+}
+
 /** A written answer as the teacher's and parent's pages show it, with times in the class's time zone. */
 export function writtenAnswerView(
   a: Pick<typeof writtenAnswers.$inferSelect, "answerId" | "claim" | "evidence" | "reasoning" | "handedInAt" | "reviewScores" | "reviewComment">,
