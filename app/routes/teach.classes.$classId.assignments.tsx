@@ -14,7 +14,7 @@ import { classHeading } from "~/lib/teaching/classes.server";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { classRoster } from "~/lib/teaching/roster.server";
 import { DAY_MS, dateToZonedInput, formatDue, zonedInputToDate } from "~/lib/teaching/time";
-import { ClassHeader, Notice, TakeOffTheList } from "~/components/teaching/ui";
+import { ClassHeader, closeOnEscape, Notice, TakeOffTheList } from "~/components/teaching/ui";
 import { SendButton } from "~/components/send-button";
 
 const intentSchema = z.discriminatedUnion("intent", [
@@ -143,7 +143,7 @@ export default function Assignments({ loaderData, actionData }: Route.ComponentP
               {mine?.done ? <Notice tone="done">{mine.done}</Notice> : null}
               {mine?.caution ? <Notice tone="info">{mine.caution}</Notice> : null}
               {mine?.errors?.form || mine?.errors?.slug ? <Notice tone="problem">{mine.errors.form ?? mine.errors.slug}</Notice> : null}
-              <details open={Boolean(mine?.errors && Object.keys(mine.errors).length > 0)} className="group">
+              <details open={Boolean(mine?.errors && Object.keys(mine.errors).length > 0)} className="group" onKeyDown={closeOnEscape}>
                 <summary className="cursor-pointer font-bold text-spruce">
                   {a ? (
                     <>

@@ -138,6 +138,11 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     // 9. Taking the lesson off the list asks once more, then keeps the student's work.
     await page.goto(`/teach/classes/${classId}/assignments`);
     await lesson2.getByText("Change the dates or the late-work rule").click();
+    // Escape closes the open form and leaves the keyboard on its summary.
+    await lesson2.getByLabel("Due").press("Escape");
+    await expect(lesson2.locator("details").first().evaluate((d) => (d as HTMLDetailsElement).open)).resolves.toBe(false);
+    await expect(page.evaluate(() => document.activeElement?.tagName)).resolves.toBe("SUMMARY");
+    await lesson2.getByText("Change the dates or the late-work rule").click();
     await lesson2.getByText("Take off the list…").click();
     await lesson2.getByText(/the students' work on it stays/).waitFor();
     await lesson2.getByRole("button", { name: "Yes, take it off the list" }).click();

@@ -152,13 +152,22 @@ export function Percent({ value, empty = "—" }: { value: number | null; empty?
   return <>{value === null ? empty : `${value}%`}</>;
 }
 
+/** Escape closes an open <details> that holds a form and gives the keyboard back to its summary. */
+export function closeOnEscape(event: React.KeyboardEvent<HTMLDetailsElement>) {
+  const details = event.currentTarget;
+  if (event.key !== "Escape" || !details.open) return;
+  event.stopPropagation(); // an inner one closes alone
+  details.open = false;
+  details.querySelector("summary")?.focus();
+}
+
 /**
  * Taking a lesson off a class's list asks once more, without JavaScript: the dates and the late-work
  * rule go, the students' work stays. Shared by the teacher's and the parent's lesson lists.
  */
 export function TakeOffTheList({ assignmentId, slug, busy, whoseWork }: { assignmentId: string; slug: string; busy: boolean; whoseWork: string }) {
   return (
-    <details className="mt-3">
+    <details className="mt-3" onKeyDown={closeOnEscape}>
       <summary className="cursor-pointer font-bold text-spruce">Take off the list…</summary>
       <Form method="post" preventScrollReset className="mt-2">
         <p className="mb-2 text-ink-soft">Its dates and late-work rule go; {whoseWork} work on it stays, and you can assign it again at any time.</p>
