@@ -69,7 +69,7 @@ export default function Teach({ loaderData }: Route.ComponentProps) {
             {rows.map((c) => (
               <tr key={c.id} className="border-b border-rule">
                 <td className="py-2 pr-4">
-                  <Link to={`/teach/classes/${c.id}`}>{c.name}</Link>
+                  <Link to={`/teach/classes/${c.id}/gradebook`}>{c.name}</Link>
                   {schools.length > 1 ? <span className="block text-[length:var(--text-step--1)] text-ink-soft">{c.school}</span> : null}
                 </td>
                 <td className="py-2 pr-4">{c.schoolYear}</td>

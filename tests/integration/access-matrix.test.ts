@@ -44,7 +44,7 @@ const matrix: Record<string, Row | Row[]> = {
   "/learn":                     row("/learn",                                      302, 403, 403, 200, 403, 403),
   "/teach":                     row("/teach",                                      302, 403, 200, 403, 403, 200),
   "/teach/classes/:classId": [
-                                row((ids) => `/teach/classes/${ids.mapleClass}`,   302, 403, 200, 403, 403, 404),
+                                row((ids) => `/teach/classes/${ids.mapleClass}`,   302, 403, 302, 403, 403, 404),
                                 row(`/teach/classes/${NO_SUCH_ID}`,                302, 403, 404, 403, 403, 404),
   ],
   "/school":                    row("/school",                                     302, 200, 403, 403, 403, 403),

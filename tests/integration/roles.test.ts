@@ -10,7 +10,8 @@ import * as learn from "~/routes/learn";
 import * as teach from "~/routes/teach";
 import * as school from "~/routes/school";
 import * as family from "~/routes/family";
-import * as classRoster from "~/routes/teach.classes.$classId";
+import * as classAddress from "~/routes/teach.classes.$classId";
+import * as classRoster from "~/routes/teach.classes.$classId.roster";
 import * as signIn from "~/routes/sign-in";
 import { demoSignIns } from "../../drizzle/scripts/seed";
 import { get, post, runRoute, sessionCookieFor, userIdOf } from "./auth-helpers";
@@ -53,15 +54,18 @@ describe("a student", () => {
 });
 
 describe("a teacher of the first school", () => {
-  it("sees the roster of their own class", async () => {
-    const result = await runRoute(classRoster.loader as never, get(`/teach/classes/${mapleClass.id}`, { cookie: cookies.teacher }), { classId: mapleClass.id });
+  it("sees the roster of their own class; the class's own address opens its gradebook", async () => {
+    const result = await runRoute(classRoster.loader as never, get(`/teach/classes/${mapleClass.id}/roster`, { cookie: cookies.teacher }), { classId: mapleClass.id });
     expect(result.status).toBe(200);
     expect((result.body as { students: unknown[] }).students).toHaveLength(10);
+    const address = await runRoute(classAddress.loader as never, get(`/teach/classes/${mapleClass.id}`, { cookie: cookies.teacher }), { classId: mapleClass.id });
+    expect(address.status).toBe(302);
+    expect(address.location).toBe(`/teach/classes/${mapleClass.id}/gradebook`);
   });
 
   it("gets 404 for a class of the second school, and for a colleague's class", async () => {
     for (const [who, id] of [["teacher", harborClass.id], ["secondTeacher", mapleClass.id]] as const) {
-      const result = await runRoute(classRoster.loader as never, get(`/teach/classes/${id}`, { cookie: cookies[who] }), { classId: id });
+      const result = await runRoute(classAddress.loader as never, get(`/teach/classes/${id}`, { cookie: cookies[who] }), { classId: id });
       expect(result.status).toBe(404);
       expect(result.body).toMatch(/no class of yours/);
     }
