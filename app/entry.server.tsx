@@ -20,8 +20,7 @@ export default function handleRequest(
   const nonce = newNonce();
   applySecurityHeaders(responseHeaders, nonce);
   // A 503 (the database cannot be reached just now: see client.server.ts) says when to try again.
-  responseStatusCode = statusAfterFailures(request, responseStatusCode);
-  if (responseStatusCode === 503) responseHeaders.set("Retry-After", "5");
+  responseStatusCode = outageStatus(request, responseStatusCode, responseHeaders);
 
   if (request.method.toUpperCase() === "HEAD") {
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
@@ -108,6 +107,13 @@ export function statusAfterFailures(request: Request, status: number): number {
   return status === 500 && outageDuring.has(request) ? 503 : status;
 }
 
+/** statusAfterFailures, with the Retry-After that every 503 of the app carries set on `headers`. */
+function outageStatus(request: Request, status: number, headers: Headers): number {
+  const sent = statusAfterFailures(request, status);
+  if (sent === 503) headers.set("Retry-After", "5");
+  return sent;
+}
+
 /**
  * React Router's data requests (the `.data` answers to fetchers, revalidations and actions) are
  * compressed the same way as pages: whole, in one call. They never stream a part later either.
@@ -115,9 +121,8 @@ export function statusAfterFailures(request: Request, status: number): number {
  */
 export const handleDataRequest: HandleDataRequestFunction = async (response, { request }) => {
   // A loader or action that met PostgreSQL gone mid-request answers 503 here too (see handleError).
-  const status = statusAfterFailures(request, response.status);
   const headers = new Headers(response.headers);
-  if (status === 503) headers.set("Retry-After", "5");
+  const status = outageStatus(request, response.status, headers);
   const statusText = status === response.status ? response.statusText : "";
   if (!response.body || response.headers.has("Content-Encoding")) {
     return status === response.status ? response : new Response(response.body, { status, statusText, headers });

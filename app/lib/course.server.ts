@@ -610,7 +610,7 @@ export interface AssignedForContinue {
   dueAt: string;
   dueText: string;
   opened: boolean;
-  latePolicy: string;
+  latePolicy: LessonPolicy["latePolicy"];
 }
 
 export interface ContinueTarget {
@@ -641,9 +641,9 @@ export function continueTarget(progress: LessonProgress[], assigned: AssignedFor
   const due = [...assigned]
     .sort((a, b) => a.dueAt.localeCompare(b.dueAt))
     .find((a) => {
-      const dueAt = Date.parse(a.dueAt);
-      const takesAnswers = a.latePolicy !== "closed" || dueAt >= now.getTime(); // as closedForAnswers
-      return a.opened && takesAnswers && dueAt <= soon && open.some((p) => p.slug === a.slug);
+      const dueAt = new Date(a.dueAt);
+      const takesAnswers = !closedForAnswers({ latePolicy: a.latePolicy, dueAt }, now);
+      return a.opened && takesAnswers && dueAt.getTime() <= soon && open.some((p) => p.slug === a.slug);
     });
   if (due) {
     const lesson = open.find((p) => p.slug === due.slug)!;

@@ -232,7 +232,7 @@ describe("progress", () => {
     });
     // Lesson 5 opened yesterday out of curiosity; lesson 3 half done a week ago and assigned.
     const progress = [lesson("01", 20, true), lesson("03", 7), lesson("05", 1), lesson("06", null)];
-    const assigned = (slug: string, dueInDays: number, latePolicy = "accept", opened = true) => ({
+    const assigned = (slug: string, dueInDays: number, latePolicy: "accept" | "penalty" | "closed" = "accept", opened = true) => ({
       slug, dueAt: new Date(now.getTime() + dueInDays * day).toISOString(), dueText: `in ${dueInDays} days`, opened, latePolicy,
     });
 

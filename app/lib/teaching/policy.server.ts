@@ -145,7 +145,7 @@ function toPolicy(row: PolicyRow): LessonPolicy {
 }
 
 /** True once a lesson that is closed at its due date is past this student's due date. */
-export function closedForAnswers(policy: LessonPolicy | null | undefined, now: Date = new Date()): boolean {
+export function closedForAnswers(policy: Pick<LessonPolicy, "latePolicy" | "dueAt"> | null | undefined, now: Date = new Date()): boolean {
   return Boolean(policy && policy.latePolicy === "closed" && now.getTime() > policy.dueAt.getTime());
 }
 
