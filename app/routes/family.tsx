@@ -164,7 +164,7 @@ export default function Family({ loaderData, actionData }: Route.ComponentProps)
                       >
                         <span aria-hidden="true">{l.number}</span>
                         <span className="sr-only">
-                          Lesson {l.number}, {l.complete ? "complete" : l.started ? `${l.done} of ${l.total} parts done` : "not started"}
+                          Lesson {l.number}, {l.title}: {l.complete ? "complete" : l.started ? `${l.done} of ${l.total} parts done` : "not started"}
                         </span>
                       </li>
                     ))}

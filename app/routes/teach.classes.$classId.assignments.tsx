@@ -113,7 +113,7 @@ export default function Assignments({ loaderData, actionData }: Route.ComponentP
   const busy = useNavigation().state === "submitting";
   const answer = actionData as { slug: string; done?: string; caution?: string; errors?: Record<string, string> } | undefined;
   return (
-    <div className="mx-auto max-w-5xl px-5 py-10">
+    <div className="mx-auto max-w-6xl px-5 py-10">
       <ClassHeader klass={klass} />
       <p className="mb-6 text-ink-soft">
         Assign a lesson with the day it opens and the day it is due. Times are in <span className="font-mono">{timeZone}</span> (change it in the{" "}

@@ -8,7 +8,7 @@ import type { Route } from "./+types/teach.classes.$classId.gradebook";
 import { db } from "~/db/client.server";
 import { classHeading } from "~/lib/teaching/classes.server";
 import { gradebookView, loadGradebook, type GradebookView } from "~/lib/teaching/gradebook.server";
-import { GRADEBOOK_FILTERS, filterRows, type GradebookFilter } from "~/lib/teaching/shared";
+import { GRADEBOOK_FILTERS, STUCK_AFTER_WRONG, filterRows, type GradebookFilter } from "~/lib/teaching/shared";
 import { formatClockTime } from "~/lib/teaching/time";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { ClassHeader, Percent } from "~/components/teaching/ui";
@@ -166,7 +166,9 @@ function Legend() {
       <ul className="mt-2 list-disc space-y-1 pl-5">
         <li>Each cell: how many of the lesson's required parts are done (exercises right or out of tries, written answers handed in) and the score.</li>
         <li>Score: the share of required exercises answered right; late answers count as the lesson's late-work rule says.</li>
-        <li>Late: past the student's due date and not finished, or finished after it. Stuck: two or more wrong answers to an exercise and none right yet.</li>
+        <li>Overdue: past the student's due date and not finished. Late: finished after the due date.</li>
+        <li>Stuck on N: N exercises with {STUCK_AFTER_WRONG} or more wrong answers and none right yet.</li>
+        <li>N to review: written answers handed in, or handed in again, since your last review.</li>
         <li>Average: every lesson already open, a lesson not started counting as 0.</li>
       </ul>
     </details>

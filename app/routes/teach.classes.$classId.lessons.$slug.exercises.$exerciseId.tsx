@@ -35,7 +35,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export default function ExerciseAnalysis({ loaderData }: Route.ComponentProps) {
   const { klass, lesson, item, byStudent } = loaderData;
   return (
-    <div className="mx-auto max-w-5xl px-5 py-10">
+    <div className="mx-auto max-w-6xl px-5 py-10">
       <ClassHeader klass={klass} title={item.title} />
       <p className="mb-6">
         <Link to={`/teach/classes/${klass.id}/lessons/${lesson.slug}`}>← Lesson {lesson.number}: {lesson.title}</Link>

@@ -58,7 +58,7 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
   const handedIn = answers.filter((a) => a.handedIn);
   const waiting = handedIn.filter((a) => a.needsReview).length;
   return (
-    <div className="mx-auto max-w-5xl px-5 py-10">
+    <div className="mx-auto max-w-6xl px-5 py-10">
       <ClassHeader klass={klass} title={`Lesson ${lesson.number}: ${lesson.title}`} />
       <p className="mb-6 text-ink-soft">
         {assignment ? `Opens ${assignment.opensText} · due ${assignment.dueText} · ${assignment.policy}${assignment.penalty ? ` (${assignment.penalty} points a day)` : ""}.` : "Not assigned to this class."}{" "}

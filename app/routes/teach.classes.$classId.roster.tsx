@@ -168,7 +168,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
   const added = result?.intent === "added" ? result.added : undefined;
 
   return (
-    <div className="mx-auto max-w-5xl px-5 py-10">
+    <div className="mx-auto max-w-6xl px-5 py-10">
       <ClassHeader klass={klass} />
       <p className="mb-4 text-ink-soft">
         {students.length} {students.length === 1 ? "student" : "students"} · your school has {seats.free} free {seats.free === 1 ? "seat" : "seats"} for {seats.schoolYear}

@@ -65,7 +65,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
     ) : null;
   const error = (intent: string) => (actionData && actionData.intent === intent && "message" in actionData ? actionData.message : undefined);
   return (
-    <div className="mx-auto max-w-5xl px-5 py-10">
+    <div className="mx-auto max-w-6xl px-5 py-10">
       <ClassHeader klass={klass} />
       {actionData && actionData.intent === "" && "message" in actionData ? <Notice tone="problem">{actionData.message}</Notice> : null}
       <div className="grid gap-6 md:grid-cols-2">

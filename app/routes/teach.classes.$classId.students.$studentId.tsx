@@ -196,7 +196,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
 
   if (answer?.removed || answer?.movedTo) {
     return (
-      <div className="mx-auto max-w-5xl px-5 py-10">
+      <div className="mx-auto max-w-6xl px-5 py-10">
         <ClassHeader klass={klass} />
         {about(answer.intent)}
         <p>
@@ -207,7 +207,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
   }
 
   return (
-    <div className="mx-auto max-w-5xl px-5 py-10">
+    <div className="mx-auto max-w-6xl px-5 py-10">
       <ClassHeader klass={klass} title={student.displayName} />
       <p className="mb-6 text-ink-soft">
         Username <span className="font-mono text-ink">{student.username}</span> · grades {student.gradeBand ?? "—"}
