@@ -117,6 +117,11 @@ export interface KnownWrongAnswer {
   value: number;
   unit: string;
   hint: string;
+  /**
+   * how close a typed value must be to count as this slip (default: the exercise's tolerance); a
+   * slip that lies near the right answer or near another slip needs a narrower one to be told apart
+   */
+  tolerance?: Tolerance;
 }
 
 /** The expected answer of an exercise; it stays on the server. */
@@ -493,6 +498,7 @@ interface Candidate {
   value: number;
   /** canonical unit of the candidate value ("" for a plain number) */
   unit: string;
+  tolerance?: Tolerance;
 }
 
 /** The wrong answers worth looking for, given the expected answer's kind and the exercise's context. */
@@ -506,7 +512,7 @@ function slipCandidates(expected: ExpectedAnswer, expectedUnit: string): Candida
 
   for (const w of expected.knownWrongAnswers ?? []) {
     const u = readUnit(w.unit);
-    if (u.ok && Number.isFinite(w.value)) out.push({ code: w.code, hint: w.hint, value: w.value, unit: u.unit });
+    if (u.ok && Number.isFinite(w.value)) out.push({ code: w.code, hint: w.hint, value: w.value, unit: u.unit, tolerance: w.tolerance });
   }
 
   const isLength = sameKind(expectedUnit, "m");
@@ -579,10 +585,10 @@ function findSlip(
       // A candidate that is itself (nearly) the right answer explains nothing.
       if (target === null || withinTolerance(target, expected.value, tolerance)) continue;
       const typed = typedIn(expectedUnit);
-      if (typed !== null && withinTolerance(typed, target, tolerance)) return { code: cand.code, hint: cand.hint };
+      if (typed !== null && withinTolerance(typed, target, cand.tolerance ?? tolerance)) return { code: cand.code, hint: cand.hint };
     } else {
       const typed = typedIn(cand.unit);
-      const relativeOnly: Tolerance = { relative: tolerance.relative ?? DEFAULT_TOLERANCE.relative };
+      const relativeOnly: Tolerance = cand.tolerance ?? { relative: tolerance.relative ?? DEFAULT_TOLERANCE.relative };
       if (typed !== null && withinTolerance(typed, cand.value, relativeOnly)) return { code: cand.code, hint: cand.hint };
     }
   }

@@ -32,12 +32,22 @@ export const lesson: LessonExercises = {
             value: reading,
             unit: "cm",
             tolerance: { absolute: 0.05 },
+            // The two slips lie 0.01–0.09 cm apart, closer than the answer's tolerance: each is matched
+            // only by the exact value it gives, so "17 cm" for 17.1 cm is not read as 17.01 cm.
             knownWrongAnswers: [
               {
                 code: "millimetres-as-hundredths",
                 value: whole + marks / 100,
                 unit: "cm",
+                tolerance: { absolute: 0.004 },
                 hint: "Each small mark is 1 mm, which is 0.1 cm, not 0.01 cm. Count the marks in tenths of a centimetre.",
+              },
+              {
+                code: "marks-not-counted",
+                value: whole,
+                unit: "cm",
+                tolerance: { absolute: 0.004 },
+                hint: "The edge is above the number: add 0.1 cm for each small mark between the number and the edge.",
               },
               {
                 code: "counted-down-from-number-above",
@@ -47,7 +57,7 @@ export const lesson: LessonExercises = {
               },
             ],
           },
-          solution: `Each small mark is 1 mm = 0.1 cm. ${marks} marks above ${whole} cm: ${whole} cm + ${marks} × 0.1 cm = ${cm1(reading)}.`,
+          solution: `Each small mark is 1 mm = 0.1 cm. ${marks} ${marks === 1 ? "mark" : "marks"} above ${whole} cm: ${whole} cm + ${marks} × 0.1 cm = ${cm1(reading)}.`,
         };
       },
     },

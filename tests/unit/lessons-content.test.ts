@@ -431,3 +431,20 @@ for (const l of lessons) {
     }
   });
 }
+
+describe("lesson 1, reading a millimetre ruler", () => {
+  // Two slips sit within the answer's tolerance of each other (17.01 cm and 17 cm for 17.1 cm): each
+  // student's number below the edge must be named as marks not counted, and the hundredths as hundredths.
+  const def = lessons.find((l) => l.folder.startsWith("01-"))!.exercises!.exercises.find((d) => d.id === "read-the-ruler")!;
+  it(`tells "marks not counted" from "millimetres as hundredths" for ${STUDENTS} students`, () => {
+    for (let s = 0; s < STUDENTS; s++) {
+      const e = generate(def, s, null).expected!;
+      const whole = Math.floor(e.value);
+      const marks = Math.round((e.value - whole) * 10);
+      expect(checkAnswer(`${whole} cm`, e).slip?.code, `student ${s}: ${whole} cm for ${e.value} cm`).toBe("marks-not-counted");
+      expect(checkAnswer(`${whole}.0 cm`, e).slip?.code).toBe("marks-not-counted");
+      expect(checkAnswer(`${(whole + marks / 100).toFixed(2)} cm`, e).slip?.code).toBe("millimetres-as-hundredths");
+      expect(checkAnswer(`${e.value.toFixed(1)} cm`, e).outcome).toBe("correct");
+    }
+  });
+});

@@ -15,6 +15,7 @@ const SLIP_WORDS: Record<string, string> = {
   // Slips named by single exercises of the lessons (lessons/*/exercises.server.ts).
   "millimetres-as-hundredths": "Read each millimetre mark as 0.01 cm",
   "counted-down-from-number-above": "Counted the marks down from the number above",
+  "marks-not-counted": "Gave the number below the edge without its small marks",
   "one-reading-only": "Gave how far off one reading can be, not a difference of two",
   "whole-mark-for-one-reading": "Gave a whole mark where half a mark was asked",
   "offset-wrong-way": "Corrected the scale's zero the wrong way",
