@@ -7,6 +7,11 @@ import { G_N_PER_KG, formatForStudent, stiffnessNPerCm, weightN } from "~/lib/sc
 const fmt = (value: number, sig = 3) => formatForStudent(value, "", sig);
 /** A value the student entered, written as entered (up to 6 figures): 0.98, 24, 23.7. */
 const given = (value: number) => String(Number(value.toPrecision(6)));
+/** A ruler reading or a deformation in cm, with at least the ruler's tenth: 38.0, not 38 (as lesson 1 teaches). */
+const cmReading = (value: number) => {
+  const text = given(value);
+  return text.includes(".") ? text : `${text}.0`;
+};
 
 type OwnData = NonNullable<GeneratorContext["ownData"]>;
 
@@ -135,8 +140,8 @@ export const lesson: LessonExercises = {
           },
           solution:
             reading !== undefined && ownData.mode === "bend"
-              ? `Deformation = ${given(ownData.unloadedCm)} cm − ${given(reading)} cm = ${given(top.deformationCm)} cm.`
-              : `From your readings, the deformation at ${given(top.forceN)} N is ${given(top.deformationCm)} cm.`,
+              ? `Deformation = ${cmReading(ownData.unloadedCm)} cm − ${cmReading(reading)} cm = ${cmReading(top.deformationCm)} cm.`
+              : `From your readings, the deformation at ${given(top.forceN)} N is ${cmReading(top.deformationCm)} cm.`,
         };
       },
     },
@@ -161,7 +166,7 @@ export const lesson: LessonExercises = {
             tolerance: { relative: 0.03 },
             context: { forceN: top.forceN, deformationCm: top.deformationCm, loadedReadingCm: readingFor(ownData, top.deformationCm) },
           },
-          solution: `k = ${given(top.forceN)} N ÷ ${given(top.deformationCm)} cm = ${fmt(k)} N/cm.`,
+          solution: `k = ${given(top.forceN)} N ÷ ${cmReading(top.deformationCm)} cm = ${fmt(k)} N/cm.`,
         };
       },
     },
@@ -252,7 +257,7 @@ export const lesson: LessonExercises = {
             tolerance: { relative: 0.03 },
             context: { forceN: top.forceN, deformationCm: top.deformationCm, loadedReadingCm: readingFor(ownData, top.deformationCm) },
           },
-          solution: `k = ${given(top.forceN)} N ÷ ${given(top.deformationCm)} cm = ${fmt(k)} N/cm.${
+          solution: `k = ${given(top.forceN)} N ÷ ${cmReading(top.deformationCm)} cm = ${fmt(k)} N/cm.${
             slope !== null ? ` Your best line through the origin gives ${fmt(slope)} N/cm; the line uses every reading, so it is the better value for the stirrer.` : ""
           }`,
         };
