@@ -198,13 +198,15 @@ export async function recordAttempt(
     slug: string;
     definition: ExerciseDefinition;
     submission: Submission;
+    /** who set the lesson, named when answers are refused after it closed */
+    reader?: "teacher" | "parent";
   },
 ): Promise<{ feedback: Feedback; counted: boolean } | { refused: string }> {
   const { studentId, slug, definition } = input;
   // Two statements: the readings, this exercise's earlier tries and the policy together, then the
   // attempt and the visit written together.
   const { readings, past, policy } = await exerciseContext({ db }, studentId, slug, definition.id);
-  if (closedForAnswers(policy)) return { refused: closedMessage(policy!) };
+  if (closedForAnswers(policy)) return { refused: closedMessage(policy!, input.reader) };
   const instance = exerciseInstance(studentId, slug, definition, readings);
   if (instance.waitingForReadings) return { refused: "Save your readings first; this question uses them." };
 

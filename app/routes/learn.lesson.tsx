@@ -22,6 +22,7 @@ import {
 import { lessonCodeUrl, registerLessonOnServer } from "~/lib/lesson-code.server";
 import { lessonComponent, loadLessonScript } from "~/lib/lesson-scope";
 import { compiledLesson, findLesson, listLessons } from "~/lib/lessons.server";
+import { closedForAnswers, closedMessage, lessonPolicies } from "~/lib/teaching/policy.server";
 import { photoStorage, readPhotoForm, recordPhoto } from "~/lib/photo-store.server";
 import { implausibleReadings, type Mode } from "~/lib/science";
 
@@ -48,8 +49,6 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const compiled = await compiledLesson(lesson.slug);
   registerLessonOnServer(compiled);
   const isStudent = user.memberships.some((m) => m.role === "student");
-  // Who reads the student's written work: a child learning at home has a parent for a teacher.
-  const reader = user.memberships.some((m) => m.role === "student" && m.organisationKind === "household") ? ("parent" as const) : ("teacher" as const);
   // Adults see the lesson with numbers of their own, and nothing they type is saved.
   const state = await loadLessonState({ db }, user.id, lesson.slug);
   const lessons = listLessons();
@@ -59,8 +58,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     hash: compiled.hash,
     codeUrl: lessonCodeUrl(compiled),
     state,
-    canAnswer: isStudent,
-    reader,
+    // A lesson closed at its due date shows the student's work read-only (the action refuses too).
+    canAnswer: isStudent && !state.assignment?.closed,
+    asAdult: !isStudent,
+    reader: readerOf(user),
     // An adult looking at the lesson goes back to their own page: /learn is for students only.
     back: isStudent ? { to: "/learn", label: "Your course" } : { to: homePathFor(user), label: "Your page" },
     previous: index > 0 ? { slug: lessons[index - 1].slug, title: lessons[index - 1].title } : null,
@@ -91,12 +92,22 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
 }
 
+/** Who reads the student's written work and set the lesson: a child learning at home has a parent for a teacher. */
+function readerOf(user: { memberships: { role: string; organisationKind: string }[] }): "teacher" | "parent" {
+  return user.memberships.some((m) => m.role === "student" && m.organisationKind === "household") ? "parent" : "teacher";
+}
+
 /**
  * PostgreSQL could not be reached: the same 503 the rest of the app answers, as data for the part of
  * the lesson that was sent (an exercise, a prediction, readings, a written answer, a photo), so the
  * student reads why next to it and what they typed stays on the page to send again.
  */
 function outageReply(form: FormData | null) {
+  return partRefused(form, DATABASE_UNAVAILABLE_MESSAGE, { status: 503, headers: { "Retry-After": "5" } });
+}
+
+/** A refusal shown beside the part of the lesson that was sent (whichever kind it is), with `message`. */
+function partRefused(form: FormData | null, message: string, init: ResponseInit) {
   const id = (name: string) => {
     const value = form?.get(name);
     return typeof value === "string" && idSchema.safeParse(value).success ? value : undefined;
@@ -108,10 +119,10 @@ function outageReply(form: FormData | null) {
       readingsId: id("readingsId"),
       answerId: id("answerId"),
       photoId: id("photoId"),
-      error: DATABASE_UNAVAILABLE_MESSAGE,
-      errors: [DATABASE_UNAVAILABLE_MESSAGE],
+      error: message,
+      errors: [message],
     },
-    { status: 503, headers: { "Retry-After": "5" } },
+    init,
   );
 }
 
@@ -121,6 +132,14 @@ async function lessonAction(request: Request, form: FormData | null, slugParam: 
   const lesson = findLesson(slugParam);
   if (!lesson) throw data("There is no lesson at this address.", { status: 404 });
   const slug = lesson.slug;
+  const reader = readerOf(user);
+
+  // A lesson closed at its due date takes nothing new: no readings, predictions, written answers or
+  // photos (an answer to an exercise is refused by recordAttempt, in the statements it runs anyway).
+  if (form?.get("intent") !== "answer") {
+    const policy = (await lessonPolicies({ db }, user.id, [slug])).get(slug);
+    if (closedForAnswers(policy)) return partRefused(form, closedMessage(policy!, reader), { status: 409 });
+  }
 
   if (!form) return photoAction(request, user.id, slug);
   const parsed = intentSchema.safeParse(Object.fromEntries(form));
@@ -139,7 +158,7 @@ async function lessonAction(request: Request, form: FormData | null, slugParam: 
           : definition.kind === "table"
             ? { kind: "cells", cells: form.getAll("cell").map((c) => String(c).slice(0, 200)).slice(0, 50) }
             : { kind: "text", answer: String(form.get("answer") ?? "") };
-      const outcome = await recordAttempt({ db }, { studentId: user.id, slug, definition, submission });
+      const outcome = await recordAttempt({ db }, { studentId: user.id, slug, definition, submission, reader });
       if ("refused" in outcome) return data({ exerciseId: input.exerciseId, error: outcome.refused }, { status: 409 });
       return { exerciseId: input.exerciseId, feedback: outcome.feedback };
     }
@@ -250,7 +269,7 @@ async function photoAction(request: Request, studentId: string, slug: string) {
 }
 
 export default function LessonPage({ loaderData }: Route.ComponentProps) {
-  const { lesson, hash, codeUrl, state, canAnswer, reader, back, previous, next } = loaderData;
+  const { lesson, hash, codeUrl, state, canAnswer, asAdult, reader, back, previous, next } = loaderData;
   const Lesson = lessonComponent(hash);
   return (
     <article className="mx-auto max-w-3xl px-5 py-10">
@@ -271,7 +290,7 @@ export default function LessonPage({ loaderData }: Route.ComponentProps) {
         </p>
         {state.assignment?.closed ? (
           <p className="mt-2 rounded bg-caution-wash p-3 font-ui text-caution" role="status">
-            This lesson closed at its due date: you can read it and see your answers, but new answers are not taken. Ask your teacher if you need more time.
+            This lesson closed at its due date: you can read it and see your answers, but new answers are not taken. Ask your {reader} if you need more time.
           </p>
         ) : null}
       </header>
@@ -297,7 +316,7 @@ export default function LessonPage({ loaderData }: Route.ComponentProps) {
         </section>
       )}
       <div className="prose-reading lesson-body">
-        <LessonContext.Provider value={{ slug: lesson.slug, canAnswer, reader, state }}>
+        <LessonContext.Provider value={{ slug: lesson.slug, canAnswer, asAdult, reader, state }}>
           {Lesson ? <Lesson components={lessonComponents} /> : <p>The lesson is loading…</p>}
         </LessonContext.Provider>
       </div>

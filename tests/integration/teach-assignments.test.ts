@@ -229,6 +229,24 @@ describe("closed at the due date", () => {
     expect(state.assignment).toMatchObject({ closed: true, latePolicy: "closed" });
     expect(state.exercises[definition.id].attemptsUsed).toBe(0);
 
+    // Nothing else is taken either: a prediction, a draft, a written answer handed in, readings.
+    const parts = [
+      { intent: "predict", predictionId: "stiffness-trend", choice: "same" },
+      { intent: "written-answer", answerId: "cer-stiffness", claim: "Same.", evidence: "2.5 N/cm each.", reasoning: "F ÷ Δx.", handIn: "0" },
+      { intent: "written-answer", answerId: "cer-stiffness", claim: "Same.", evidence: "2.5 N/cm each.", reasoning: "F ÷ Δx.", handIn: "1" },
+      { intent: "save-readings", readingsId: "own-strip", unloadedCm: "20.0", forceN: "1", readingCm: "19.5" },
+    ];
+    for (const part of parts) {
+      const sent = await runRoute(lessonRoute.action as never, post(`/learn/${LESSON}`, part, { cookie: benCookie }), { slug: LESSON });
+      expect(sent.status, part.intent).toBe(409);
+      expect((sent.body as { error: string }).error).toMatch(/closed at its due date .+ Ask your teacher/);
+    }
+    const after = await loadLessonState({ db }, ids.ben.id, LESSON);
+    expect([after.predictions, after.writtenAnswers, after.readings]).toEqual([{}, {}, {}]);
+    // The page shows his work read-only, and not as to an adult.
+    const page = await runRoute(lessonRoute.loader as never, get(`/learn/${LESSON}`, { cookie: benCookie }), { slug: LESSON });
+    expect(page.body).toMatchObject({ canAnswer: false, asAdult: false, reader: "teacher" });
+
     // Two more days for Ben: the lesson is open to him again, and only to him.
     await accommodate(ids.ben.id, { scope: "class", extraAttempts: "0", extraDays: "2" });
     const taken = await recordAttempt({ db }, { studentId: ids.ben.id, slug: LESSON, definition, submission: { kind: "text", answer: "1 cm" } });

@@ -19,7 +19,7 @@ const STATUS_TEXT: Record<ExerciseState["status"], string> = {
 };
 
 export function Exercise({ id }: { id: string }) {
-  const { state, canAnswer } = useLesson();
+  const { state, canAnswer, asAdult } = useLesson();
   const exercise = state.exercises[id];
   const fetcher = useFetcher<AnswerResponse>();
   const formId = useId();
@@ -64,7 +64,7 @@ export function Exercise({ id }: { id: string }) {
               {busy ? "Checking…" : "Check my answer"}
             </SendButton>
           )}
-          {!canAnswer && <p className="mt-3 text-ink-soft">You are looking at this lesson as an adult: answers are not saved.</p>}
+          {asAdult && <p className="mt-3 text-ink-soft">You are looking at this lesson as an adult: answers are not saved.</p>}
         </fetcher.Form>
       )}
       <div id={`${formId}-feedback`} aria-live="polite" className="mt-3">

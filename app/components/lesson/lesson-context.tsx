@@ -4,8 +4,10 @@ import type { LessonState } from "~/lib/course.server";
 
 export interface LessonContextValue {
   slug: string;
-  /** false for adults looking at a lesson: they see it, but nothing is saved */
+  /** false for adults looking at a lesson (they see it, but nothing is saved) and once a lesson has closed */
   canAnswer: boolean;
+  /** an adult (teacher, parent) looking at the lesson */
+  asAdult: boolean;
   /** who reads and reviews the student's written work: their teacher, or the parent at home */
   reader: "teacher" | "parent";
   state: LessonState;

@@ -150,6 +150,6 @@ export function closedForAnswers(policy: Pick<LessonPolicy, "latePolicy" | "dueA
 }
 
 /** The sentence a student gets when answers are refused after the due date. */
-export function closedMessage(policy: LessonPolicy): string {
-  return `This lesson closed at its due date (${formatDue(policy.dueAt, policy.timeZone)}), so answers are no longer taken. Ask your teacher if you need more time.`;
+export function closedMessage(policy: LessonPolicy, reader: "teacher" | "parent" = "teacher"): string {
+  return `This lesson closed at its due date (${formatDue(policy.dueAt, policy.timeZone)}), so answers are no longer taken. Ask your ${reader} if you need more time.`;
 }
