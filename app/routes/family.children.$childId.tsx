@@ -128,7 +128,8 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
           </table>
         </div>
         <p className="mt-2 text-[length:var(--text-step--1)] text-ink-soft">
-          The score is the share of a lesson's exercises answered right. <Link to="/family/lessons">Assign lessons and due dates</Link>.
+          The score is the share of a lesson's required exercises answered right; in an assigned lesson, answers after the due date count as
+          its late-work rule says. <Link to="/family/lessons">Assign lessons and due dates</Link>.
         </p>
       </section>
 

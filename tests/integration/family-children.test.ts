@@ -5,8 +5,8 @@
 import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
-import { classes, enrollments, memberships, users } from "~/db/schema.server";
-import { findExercise, recordAttempt } from "~/lib/course.server";
+import { assignments, classes, enrollments, memberships, users } from "~/db/schema.server";
+import { exerciseInstance, findExercise, recordAttempt } from "~/lib/course.server";
 import { hashPassword } from "~/lib/passwords.server";
 import { seatLedgerForYear } from "~/lib/seats.server";
 import { assignedLessonsFor } from "~/lib/teaching/assignments.server";
@@ -140,6 +140,29 @@ describe("the parent as the household's teacher", () => {
     const items = await runRoute(lessonRoute.loader as never, get("/family/lessons/01-measuring-deformation", { cookie: parentCookie }), { slug: "01-measuring-deformation" });
     const row = (items.body as { items: { exerciseId: string; studentsTried: number; studentsInClass: number; rightFirstTry: number }[] }).items.find((i) => i.exerciseId === "read-the-ruler");
     expect(row).toMatchObject({ studentsTried: 1, studentsInClass: 1, rightFirstTry: 0 });
+  });
+
+  it("gives an assigned lesson the same score on the child's page as at a glance: late answers count as the late rule says", async () => {
+    // Wren answers right, then the lesson's due date is set before that answer, with nothing taken late.
+    const slug = "01-measuring-deformation";
+    const definition = findExercise(slug, "read-the-ruler")!;
+    const instance = exerciseInstance(wrenId, slug, definition, []);
+    const taken = await recordAttempt({ db }, { studentId: wrenId, slug, definition, submission: { kind: "text", answer: `${instance.expected!.value.toFixed(1)} cm` } });
+    expect(taken).toMatchObject({ feedback: { right: true } });
+    const [klass] = await db.select().from(classes).where(eq(classes.organisationId, household.id));
+    await db
+      .update(assignments)
+      .set({ opensAt: new Date(Date.now() - 10 * 86_400_000), dueAt: new Date(Date.now() - 86_400_000), latePolicy: "closed" })
+      .where(and(eq(assignments.classId, klass.id), eq(assignments.lessonSlug, slug)));
+
+    const page = await runRoute(childRoute.loader as never, get(`/family/children/${wrenId}`, { cookie: parentCookie }), { childId: wrenId });
+    const onPage = (page.body as { lessons: { slug: string; score: number | null }[] }).lessons.find((l) => l.slug === slug)!;
+    const glance = await runRoute(lessonsRoute.loader as never, get("/family/lessons", { cookie: parentCookie }));
+    const book = glance.body as { gradebook: { lessons: { slug: string; assignmentId: string }[]; rows: { id: string; cells: Record<string, { score: number | null }> }[] } };
+    const assignmentId = book.gradebook.lessons.find((l) => l.slug === slug)!.assignmentId;
+    const atGlance = book.gradebook.rows.find((r) => r.id === wrenId)!.cells[assignmentId].score;
+    expect(atGlance).toBe(0);
+    expect(onPage.score).toBe(atGlance);
   });
 
   it("shows another family nothing of this child", async () => {

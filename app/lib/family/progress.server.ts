@@ -23,7 +23,10 @@ export interface ChildLesson {
   requiredTotal: number;
   complete: boolean;
   started: boolean;
-  /** share of the lesson's required exercises answered right, 0–100; null before any try */
+  /**
+   * share of the lesson's required exercises answered right, 0–100; null before any try. For an
+   * assigned lesson, the gradebook's score: answers after the due date count as its late-work rule says.
+   */
   score: number | null;
   assignment: { assignmentId: string; dueText: string; cell: GradebookCell | null } | null;
   exercises: {
@@ -62,6 +65,8 @@ export async function childReport({ db }: { db: Database }, childId: string, kla
     const attempts = work.attempts.filter((a) => a.lessonSlug === p.slug);
     const rightIds = new Set(attempts.filter((a) => a.correct === 1).map((a) => a.exerciseId));
     const assigned = view?.lessons.find((l) => l.slug === p.slug);
+    const cell = assigned ? (row?.cells[assigned.assignmentId] ?? null) : null;
+    const rawScore = attempts.length > 0 && required.length > 0 ? Math.round((100 * required.filter((e) => rightIds.has(e.id)).length) / required.length) : null;
     return {
       slug: p.slug,
       number: p.number,
@@ -71,8 +76,9 @@ export async function childReport({ db }: { db: Database }, childId: string, kla
       requiredTotal: p.requiredTotal,
       complete: p.complete,
       started: p.started,
-      score: attempts.length > 0 && required.length > 0 ? Math.round((100 * required.filter((e) => rightIds.has(e.id)).length) / required.length) : null,
-      assignment: assigned ? { assignmentId: assigned.assignmentId, dueText: assigned.dueText, cell: row?.cells[assigned.assignmentId] ?? null } : null,
+      // The same figure as "Assigned lessons at a glance" for an assigned lesson, so the two pages agree.
+      score: cell ? cell.score : rawScore,
+      assignment: assigned ? { assignmentId: assigned.assignmentId, dueText: assigned.dueText, cell } : null,
       exercises: exercises
         .map((e) => ({
           id: e.id,
