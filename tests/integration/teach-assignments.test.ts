@@ -101,9 +101,18 @@ describe("assigning a lesson", () => {
     expect(rows).toHaveLength(1);
     expect(rows[0]).toMatchObject({ latePolicy: "accept", latePenaltyPercent: 0 });
 
-    const page = await runRoute(assignPage.loader as never, get(`/teach/classes/${ids.mapleA.id}/assignments`, { cookie: cookies.teacher }), { classId: ids.mapleA.id });
-    const lesson = (page.body as { lessons: { slug: string; assignment: { dueAt: string } | null }[] }).lessons.find((l) => l.slug === LESSON)!;
-    expect(lesson.assignment?.dueAt).toBe("2026-12-12T17:00");
+    const summary = async () => {
+      const page = await runRoute(assignPage.loader as never, get(`/teach/classes/${ids.mapleA.id}/assignments`, { cookie: cookies.teacher }), { classId: ids.mapleA.id });
+      return (page.body as { lessons: { slug: string; assignment: { dueAt: string; lateRule: string } | null }[] }).lessons.find((l) => l.slug === LESSON)!.assignment!;
+    };
+    expect((await summary()).dueAt).toBe("2026-12-12T17:00");
+    // The assigned lesson's summary says its late-work rule in plain words.
+    expect((await summary()).lateRule).toBe("late answers count in full");
+    await assign({ opensAt: "2026-12-01T08:00", dueAt: "2026-12-12T17:00", latePolicy: "penalty", latePenaltyPercent: "5" });
+    expect((await summary()).lateRule).toBe("late answers lose 5 points a day");
+    await assign({ opensAt: "2026-12-01T08:00", dueAt: "2026-12-12T17:00", latePolicy: "closed" });
+    expect((await summary()).lateRule).toBe("closes at the due date");
+    await assign({ opensAt: "2026-12-01T08:00", dueAt: "2026-12-12T17:00", latePolicy: "accept" });
   });
 
   it("is refused to another teacher (404), who changes nothing", async () => {
@@ -230,7 +239,7 @@ describe("closed at the due date", () => {
     expect(state.exercises[definition.id].attemptsUsed).toBe(0);
 
     // Nothing else is taken either: a prediction, a draft, a written answer handed in, readings.
-    const parts = [
+    const parts: Record<string, string>[] = [
       { intent: "predict", predictionId: "stiffness-trend", choice: "same" },
       { intent: "written-answer", answerId: "cer-stiffness", claim: "Same.", evidence: "2.5 N/cm each.", reasoning: "F ÷ Δx.", handIn: "0" },
       { intent: "written-answer", answerId: "cer-stiffness", claim: "Same.", evidence: "2.5 N/cm each.", reasoning: "F ÷ Δx.", handIn: "1" },
