@@ -47,7 +47,7 @@ export default function Learn({ loaderData }: Route.ComponentProps) {
         {finished} of {lessons.length} lessons finished. Predict first, then load, read the ruler, and check each calculation as you go.
       </p>
       <ContinueCard target={continueAt} lessons={lessons} />
-      <AssignedLessons lessons={assigned} done={Object.fromEntries(lessons.map((l) => [l.slug, l.complete]))} />
+      <AssignedLessons lessons={assigned} done={Object.fromEntries(lessons.map((l) => [l.slug, l.complete]))} by={atHome ? "parent" : "teacher"} />
       <section aria-labelledby="path-heading" className="mb-10">
         <h2 id="path-heading" className="mb-4 text-[length:var(--text-step-2)]">
           Your course

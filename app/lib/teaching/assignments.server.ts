@@ -156,6 +156,8 @@ export interface AssignedLesson {
   title: string;
   className: string;
   opensAt: string;
+  /** when the lesson is assigned from, written in the class's time zone */
+  opensText: string;
   /** the student's own due date (with any extra days) */
   dueAt: string;
   /** the same, written in the class's time zone */
@@ -181,6 +183,7 @@ export async function assignedLessonsFor({ db }: Db, studentId: string, now: Dat
           title: lesson.title,
           className: p.className,
           opensAt: p.opensAt.toISOString(),
+          opensText: formatDue(p.opensAt, p.timeZone, now),
           dueAt: p.dueAt.toISOString(),
           dueText: formatDue(p.dueAt, p.timeZone, now),
           timeZone: p.timeZone,
