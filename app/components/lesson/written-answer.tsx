@@ -1,7 +1,13 @@
 // A written claim–evidence–reasoning answer: saved as a draft, then handed in; the teacher's comment shows here.
+import { useState } from "react";
 import { useFetcher } from "react-router";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
+import { isRubricScores, RUBRIC, rubricTotal, type RubricScores } from "~/lib/teaching/shared";
+
+/** Each part's limit (the action's too). The browser stops typing and cuts a paste there without a word, so the count shows near it. */
+const MAX_CHARACTERS = 4000;
+const SHOW_COUNT_FROM = 3500;
 
 export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
   const { state, canAnswer, reader } = useLesson();
@@ -9,6 +15,7 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
   const fetcher = useFetcher<{ answerId?: string; errors?: Record<string, string>; error?: string; saved?: "draft" | "handed-in" }>();
   const mine = fetcher.data?.answerId === id ? fetcher.data : undefined;
   const handedIn = saved?.handedIn || mine?.saved === "handed-in";
+  const [lengths, setLengths] = useState<Record<string, number>>({});
   const field = (name: "claim" | "evidence" | "reasoning", label: string, help: string) => (
     <div className="mb-3">
       <label htmlFor={`${id}-${name}`} className="block font-bold">
@@ -21,13 +28,15 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
         id={`${id}-${name}`}
         name={name}
         rows={3}
-        maxLength={4000}
+        maxLength={MAX_CHARACTERS}
         className="field"
         defaultValue={saved?.[name] ?? ""}
         disabled={!canAnswer}
-        aria-describedby={`${id}-${name}-help`}
+        onInput={(e) => setLengths((l) => ({ ...l, [name]: e.currentTarget.value.length }))}
+        aria-describedby={`${id}-${name}-help ${id}-${name}-count`}
         aria-invalid={Boolean(mine?.errors?.[name])}
       />
+      <CharactersLeft id={`${id}-${name}-count`} length={lengths[name] ?? (saved?.[name] ?? "").length} />
       {mine?.errors?.[name] && <p className="text-danger">{mine.errors[name]}</p>}
     </div>
   );
@@ -65,12 +74,41 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
           {mine.error}
         </p>
       )}
-      {saved?.reviewComment && (
+      {(saved?.reviewComment || isRubricScores(saved?.reviewScores)) && (
         <div className="mt-3 rounded bg-spruce-wash p-3" data-testid="review-comment">
-          <p className="font-bold">Your {reader}'s comment</p>
-          <p className="whitespace-pre-wrap wrap-anywhere">{saved.reviewComment}</p>
+          <p className="font-bold">Your {reader}'s review</p>
+          {isRubricScores(saved?.reviewScores) && <RubricLevels scores={saved.reviewScores} />}
+          {saved?.reviewComment && <p className="whitespace-pre-wrap wrap-anywhere">{saved.reviewComment}</p>}
         </div>
       )}
     </section>
+  );
+}
+
+/** The rubric's level for each part, in its own words, with the total (the teacher's scores). */
+function RubricLevels({ scores }: { scores: RubricScores }) {
+  return (
+    <ul className="mb-2" data-testid="review-scores">
+      {RUBRIC.map((r) => (
+        <li key={r.key}>
+          <span className="font-bold">{r.label}:</span> {r.levels[scores[r.key]]} ({scores[r.key]} of 2)
+        </li>
+      ))}
+      <li>
+        <span className="font-bold">In all:</span> {rubricTotal(scores)} of {RUBRIC.length * 2}
+      </li>
+    </ul>
+  );
+}
+
+function CharactersLeft({ id, length }: { id: string; length: number }) {
+  if (length < SHOW_COUNT_FROM) return <span id={id} hidden />;
+  const left = MAX_CHARACTERS - length;
+  return (
+    <p id={id} className={`text-[length:var(--text-step--1)] ${left === 0 ? "font-bold text-danger" : "text-ink-soft"}`} data-testid="characters-left">
+      {left === 0
+        ? `This part is full: ${MAX_CHARACTERS.toLocaleString("en-US")} characters at most. Anything past that was not added.`
+        : `${left.toLocaleString("en-US")} of ${MAX_CHARACTERS.toLocaleString("en-US")} characters left.`}
+    </p>
   );
 }
