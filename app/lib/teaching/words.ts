@@ -54,7 +54,7 @@ const OUTCOME_WORDS: Record<string, string> = {
   "unit-missing": "Right number, but no unit",
   "unit-wrong-kind": "A unit of another quantity",
   "sig-figs-off": "Right value, other significant figures than asked",
-  incorrect: "Wrong, with no slip we recognise",
+  incorrect: "Wrong (not one of the usual slips)",
   unreadable: "Could not be read (no try used)",
   "not-checkable": "Not checkable (no try used)",
 };
