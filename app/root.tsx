@@ -7,7 +7,7 @@ import "./app.css";
 
 import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
-import { SiteFooter, SiteHeader, type HeaderAccount } from "~/components/site-chrome";
+import { LandingNotice, SiteFooter, SiteHeader, type HeaderAccount } from "~/components/site-chrome";
 import { getUser, homesFor } from "~/lib/auth.server";
 import { useNonce } from "~/lib/nonce";
 
@@ -47,6 +47,7 @@ export default function App() {
     <>
       <SiteHeader />
       <main id="main" className="flex-1">
+        <LandingNotice />
         <Outlet />
       </main>
       <SiteFooter />

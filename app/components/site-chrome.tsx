@@ -1,5 +1,5 @@
 // The header and footer around every page.
-import { Form, Link, NavLink, useRouteLoaderData } from "react-router";
+import { Form, Link, NavLink, useLocation, useRouteLoaderData } from "react-router";
 import { BrandMark } from "./brand-mark";
 
 /** What the root loader tells the header about the signed-in person. */
@@ -55,6 +55,23 @@ export function SiteHeader({ children }: { children?: React.ReactNode }) {
         </nav>
       </div>
     </header>
+  );
+}
+
+/** Notices an action sends the visitor on with (`?notice=…`), said once at the top of the page they land on. */
+const NOTICES: Record<string, string> = {
+  "password-changed": "Your new password is saved and you are signed in. Anywhere else you were signed in has been signed out.",
+};
+
+export function LandingNotice() {
+  const notice = NOTICES[new URLSearchParams(useLocation().search).get("notice") ?? ""];
+  if (!notice) return null;
+  return (
+    <div className="mx-auto max-w-6xl px-5 pt-4">
+      <p role="status" className="rounded bg-spruce-wash p-3 font-bold text-ok" data-testid="landing-notice">
+        {notice}
+      </p>
+    </div>
   );
 }
 

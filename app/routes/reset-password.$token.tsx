@@ -55,7 +55,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const signedIn = await loadUser(request, result.cookieHeader);
   const headers = new Headers();
   for (const cookie of result.setCookies) headers.append("Set-Cookie", cookie);
-  return redirect(signedIn ? homePathFor(signedIn) : "/", { headers });
+  return redirect(`${signedIn ? homePathFor(signedIn) : "/"}?notice=password-changed`, { headers });
 }
 
 export default function ChooseNewPassword({ loaderData, actionData }: Route.ComponentProps) {

@@ -148,7 +148,7 @@ describe("password reset by e-mail", () => {
     expect(passphrase.length).toBeGreaterThan(64);
     const saved = await runRoute(chooseNewPassword.action as never, post(link, { password: passphrase }), { token });
     expect(saved.status).toBe(302);
-    expect(saved.location).toBe("/teach");
+    expect(saved.location).toBe("/teach?notice=password-changed"); // the page says the new password is saved
     expect(await getUser(get("/teach", { cookie: cookieHeaderFrom(saved.setCookies) }))).not.toBeNull();
 
     // The session from before the reset has ended; the old password no longer works; the new one does.
