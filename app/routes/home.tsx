@@ -136,6 +136,11 @@ export default function Home() {
               <li>Unlimited teachers and classes</li>
               <li>Gradebook exports for your grade system</li>
             </ul>
+            <p className="mt-4">
+              <Link to="/sign-in" className="btn btn-quiet">
+                School administrators: sign in to buy seats
+              </Link>
+            </p>
           </div>
           <div className="card border-2 border-ember">
             <h3 className="text-[length:var(--text-step-1)]">Families</h3>
@@ -148,6 +153,11 @@ export default function Home() {
               <li>Follow each child's progress and written answers</li>
               <li>A short weekly summary, if you want one</li>
             </ul>
+            <p className="mt-4">
+              <Link to="/join/family" className="btn">
+                Make a family account
+              </Link>
+            </p>
           </div>
         </div>
         <p className="mt-4 text-[length:var(--text-step--1)] text-ink-soft">Prices shown are for this demo installation.</p>
