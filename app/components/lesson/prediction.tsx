@@ -44,7 +44,7 @@ export function Prediction({ id, question, options, children }: {
       </fieldset>
       {fetcher.data?.error && <p className="mt-2 text-danger">{fetcher.data.error}</p>}
       <button type="submit" className="btn mt-3">
-        Commit my prediction and show the data
+        Commit my prediction and read on
       </button>
     </fetcher.Form>
   );
