@@ -55,6 +55,18 @@ describe("the two doors of /sign-in", () => {
     expect(user?.memberships.map((m) => m.role)).toEqual(["student"]);
   });
 
+  it.each([
+    ["student", ["map-le7a", "MAPLE 7A", "maple.7a", " Map-Le 7A "]],
+    ["child", ["lindq-home", "LINDQ HOME", "lindqhome", "Lindq.Home"]],
+  ] as const)("a %s's code works with the hyphens, spaces and dots people type between its parts", async (who, typings) => {
+    const { username, password } = s[who];
+    for (const code of typings) {
+      const result = await student(code, username, password);
+      expect(result.status, code).toBe(302);
+      expect(result.location, code).toBe("/learn");
+    }
+  });
+
   it("refuses a student with the code of a class they are not in", async () => {
     const result = await student("MAPLE8E", s.student.username, s.student.password);
     expect(result.status).toBe(400);

@@ -18,7 +18,7 @@
 import { Auth, raw, setEnvDefaults, skipCSRFCheck, type AuthConfig } from "@auth/core";
 import { CredentialsSignin } from "@auth/core/errors";
 import Credentials from "@auth/core/providers/credentials";
-import { and, eq, isNull } from "drizzle-orm";
+import { and, eq, isNull, sql } from "drizzle-orm";
 import { z } from "zod";
 import { db } from "~/db/client.server";
 import { classes, enrollments, memberships, organisations, users } from "~/db/schema.server";
@@ -26,6 +26,7 @@ import { serverEnv, type ServerEnv } from "~/env.server";
 import { hashPassword, verifyPassword } from "~/lib/passwords.server";
 import { consumeEmailToken } from "./email-tokens.server";
 import { bucketsFor, clearAccountFailures, clientAddress, currentWait, recordFailure, type Wait } from "./throttle.server";
+import { compactSignInCode } from "~/lib/teaching/classes.server";
 
 declare module "@auth/core/types" {
   interface User {
@@ -77,7 +78,7 @@ export const adultCredentials = z.object({
 export const studentCredentials = z.object({
   code: z
     .string()
-    .transform((s) => s.toUpperCase().replace(/\s+/g, ""))
+    .transform(compactSignInCode)
     .pipe(z.string().min(3, "Enter the code your teacher or parent gave you.").max(40, "That code is too long.")),
   username: z
     .string()
@@ -118,7 +119,8 @@ async function findStudent(code: string, username: string): Promise<Candidate | 
     .from(organisations)
     .innerJoin(users, eq(users.homeOrganisationId, organisations.id))
     .innerJoin(memberships, and(eq(memberships.userId, users.id), eq(memberships.organisationId, organisations.id), eq(memberships.role, "student")))
-    .where(and(eq(organisations.signInCode, code), eq(organisations.kind, "household"), eq(users.username, username)));
+    // Household codes are stored with their hyphen ("HOME-4KTX9M"); the code typed arrives compacted.
+    .where(and(sql`regexp_replace(upper(${organisations.signInCode}), '[^A-Z0-9]', '', 'g') = ${code}`, eq(organisations.kind, "household"), eq(users.username, username)));
   return viaHousehold ?? null;
 }
 

@@ -15,10 +15,20 @@ type Db = { db: Database };
  * Class codes are read aloud in a classroom and typed by 11-year-olds: eight characters from an
  * alphabet without look-alikes or sound-alikes (no 0/O, 1/I/L, 2/Z, 5/S, 8/B), shown as two groups
  * of four. 25^8 ≈ 1.5 × 10^11 codes: far too many to guess, and a student also needs a username and
- * a password. Sign-in ignores spaces and case.
+ * a password. Sign-in ignores case and separators (compactSignInCode).
  */
 export const CLASS_CODE_ALPHABET = "ACDEFGHJKMNPQRTUVWXY34679";
 export const CLASS_CODE_LENGTH = 8;
+
+/**
+ * A sign-in code as typed, made comparable: capitals, and only letters and digits, so the spaces,
+ * hyphens, dots and other separators people type between the groups do not matter
+ * ("nnxw-uchq", "NNXW UCHQ" and "nnxw.uchq" are all "NNXWUCHQ"). Class codes are stored this way;
+ * household codes ("HOME-4KTX9M") are compared compacted too (auth-config.server.ts).
+ */
+export function compactSignInCode(typed: string): string {
+  return typed.toUpperCase().replace(/[^A-Z0-9]/g, "");
+}
 
 export function newClassCode(): string {
   let code = "";
