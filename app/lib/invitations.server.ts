@@ -2,12 +2,13 @@
 // auth/email-tokens.server.ts) works for a week; opening it shows the school's name, and accepting
 // either makes the teacher's account with the password they choose, or, when the address already has
 // an account, adds the school to it. Sending the invitation again makes a new link and the old one
-// stops working; withdrawing it deletes it.
-import { and, desc, eq, inArray, isNull, sql } from "drizzle-orm";
+// stops working; withdrawing it deletes it. An accepted link keeps a receipt for a month, so its
+// teacher opening it again, signed in, is told it is done and shown the way to their classes.
+import { and, desc, eq, inArray, isNotNull, isNull, sql } from "drizzle-orm";
 import { z } from "zod";
 import type { Database } from "~/db/client.server";
 import { memberships, organisations, teacherInvitations, users, verificationTokens } from "~/db/schema.server";
-import { consumeEmailToken, createEmailToken, EMAIL_TOKEN_MINUTES, peekEmailToken } from "~/lib/auth/email-tokens.server";
+import { consumeEmailToken, createEmailToken, EMAIL_TOKEN_MINUTES, keepTokenReceipt, peekEmailToken } from "~/lib/auth/email-tokens.server";
 import { renderEmail, sendMail } from "~/lib/mailer.server";
 import { hashPassword } from "~/lib/passwords.server";
 import { formatLongDate } from "~/lib/teaching/time";
@@ -180,7 +181,7 @@ export async function acceptInvitation({ db }: Db, token: string, newAccount: { 
   const passwordHash = newAccount ? await hashPassword(newAccount.password) : null;
   const id = await consumeEmailToken({ db }, token, "teacher-invite");
   if (!id) return { ok: false, reason: "link-not-valid" };
-  return db.transaction(async (tx) => {
+  const result = await db.transaction(async (tx) => {
     const [invitation] = await tx
       .update(teacherInvitations)
       .set({ acceptedAt: new Date() })
@@ -206,4 +207,22 @@ export async function acceptInvitation({ db }: Db, token: string, newAccount: { 
     await tx.update(teacherInvitations).set({ acceptedBy: user.id }).where(eq(teacherInvitations.id, invitation.id));
     return { ok: true, userId: user.id, email: invitation.email, created, schoolName: school.name } as const;
   });
+  // The used link keeps a receipt, so opening it again can tell the teacher who accepted it so.
+  if (result.ok) await keepTokenReceipt({ db }, token, id, "teacher-invite-accepted");
+  return result;
+}
+
+/**
+ * The invitation a used-up link belonged to, when it was accepted (within a month): who accepted it
+ * and at which school. The link's page tells that teacher, signed in, that it is done.
+ */
+export async function acceptedInvitationForToken({ db }: Db, token: string): Promise<{ acceptedBy: string | null; schoolName: string } | null> {
+  const id = await peekEmailToken({ db }, token, "teacher-invite-accepted");
+  if (!id) return null;
+  const [row] = await db
+    .select({ acceptedBy: teacherInvitations.acceptedBy, schoolName: organisations.name })
+    .from(teacherInvitations)
+    .innerJoin(organisations, eq(organisations.id, teacherInvitations.organisationId))
+    .where(and(eq(teacherInvitations.id, id), isNotNull(teacherInvitations.acceptedAt)));
+  return row ?? null;
 }

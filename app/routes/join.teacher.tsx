@@ -1,16 +1,17 @@
 // /join/teacher?token=…: the link in a school's invitation. Opening it shows the school and, for an
 // address without an account, a form to choose a password; accepting uses the link up, makes the
-// teacher's account (or adds the school to the existing one), signs them in and opens /teach.
+// teacher's account (or adds the school to the existing one), signs them in and opens /teach. Opened
+// again by that teacher, signed in, it says so and links to their classes.
 import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/join.teacher";
 import { Field, Notice } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
-import { assertSameOrigin } from "~/lib/auth.server";
+import { assertSameOrigin, getUser } from "~/lib/auth.server";
 import { signInThroughAuth } from "~/lib/auth/auth-config.server";
 import { createEmailToken } from "~/lib/auth/email-tokens.server";
 import { newPasswordSchema } from "~/lib/auth/password-rules.server";
-import { acceptInvitation, invitationForToken } from "~/lib/invitations.server";
+import { acceptedInvitationForToken, acceptInvitation, invitationForToken } from "~/lib/invitations.server";
 import { SendButton } from "~/components/send-button";
 
 const SPENT = "This invitation link has been used, withdrawn or has run out (links work for a week). Ask the school's administrator to send it again.";
@@ -19,7 +20,13 @@ const acceptSchema = z.object({ token: z.string().min(1).max(200), displayName: 
 export async function loader({ request }: Route.LoaderArgs) {
   const token = new URL(request.url).searchParams.get("token") ?? "";
   const invitation = token ? await invitationForToken({ db }, token) : null;
-  if (!invitation) return { mode: "spent" as const };
+  if (!invitation) {
+    // Opened again by the teacher who accepted it, signed in: it is done, and their classes are a click away.
+    const accepted = token ? await acceptedInvitationForToken({ db }, token) : null;
+    const user = accepted?.acceptedBy ? await getUser(request) : null;
+    if (accepted && user && user.id === accepted.acceptedBy) return { mode: "accepted" as const, school: accepted.schoolName, displayName: user.displayName };
+    return { mode: "spent" as const };
+  }
   return { mode: "accept" as const, token, email: invitation.email, displayName: invitation.displayName, school: invitation.schoolName, hasAccount: invitation.hasAccount };
 }
 
@@ -56,6 +63,19 @@ export async function action({ request }: Route.ActionArgs) {
 export default function JoinTeacher({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
   const answer = actionData as { problem?: string; displayName?: string; fieldErrors?: Record<string, string> } | undefined;
+  if (loaderData.mode === "accepted") {
+    return (
+      <div className="mx-auto max-w-xl px-5 py-12">
+        <h1 className="mb-4 text-[length:var(--text-step-3)]">You have already joined {loaderData.school}</h1>
+        <p className="mb-4">
+          You accepted this invitation, and you are signed in as {loaderData.displayName}. There is nothing more to do with this link.
+        </p>
+        <p>
+          <Link className="btn" to="/teach/classes">Open your classes</Link>
+        </p>
+      </div>
+    );
+  }
   if (answer?.problem || loaderData.mode === "spent") {
     return (
       <div className="mx-auto max-w-xl px-5 py-12">

@@ -64,6 +64,10 @@ describe("inviting a teacher", () => {
     expect(await signInWith({ email, password: "sixteen paper cranes" })).toContain("authjs.session-token");
 
     expect((await runRoute(joinTeacher.loader as never, get(link))).body).toEqual({ mode: "spent" });
+    // Opened again by the teacher who accepted it, signed in: it says so (and the page links to their
+    // classes); to anyone else the link simply does not work any more.
+    expect((await runRoute(joinTeacher.loader as never, get(link, { cookie }))).body).toEqual({ mode: "accepted", school: "Maplebrook Middle School (invented demo)", displayName: "Mei Tanaka" });
+    expect((await runRoute(joinTeacher.loader as never, get(link, { cookie: await sessionCookieFor("teacher") }))).body).toEqual({ mode: "spent" });
     expect((await runRoute(joinTeacher.action as never, post("/join/teacher", { token: tokenOf(link), displayName: "Someone", password: "another long phrase" }))).status).toBe(400);
     const listed = await runRoute(teachersRoute.loader as never, get("/school/teachers", { cookie: admin }));
     expect((listed.body as { invitations: { email: string }[] }).invitations.map((i) => i.email)).not.toContain(email);

@@ -7,7 +7,7 @@ import { and, eq, gt, sql } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
 import { verificationTokens } from "~/db/schema.server";
 
-export type EmailTokenPurpose = "sign-in" | "reset-password" | "verify-email" | "teacher-invite";
+export type EmailTokenPurpose = "sign-in" | "reset-password" | "verify-email" | "teacher-invite" | "teacher-invite-accepted";
 
 /** How long a link works: short, because an inbox is not a safe. */
 export const EMAIL_TOKEN_MINUTES: Record<EmailTokenPurpose, number> = {
@@ -17,6 +17,9 @@ export const EMAIL_TOKEN_MINUTES: Record<EmailTokenPurpose, number> = {
   "verify-email": 24 * 60,
   // A school's invitation to a teacher: a week, then the administrator sends a new one.
   "teacher-invite": 7 * 24 * 60,
+  // Not a link that opens anything: the receipt of an accepted invitation's used-up link (keepTokenReceipt),
+  // so opening it again can say whose it was, for a month.
+  "teacher-invite-accepted": 30 * 24 * 60,
 };
 
 const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
@@ -60,4 +63,14 @@ export async function consumeEmailToken({ db }: { db: Database }, token: string,
   const row = rows[0];
   if (!row || row.expires.getTime() <= Date.now()) return null;
   return row.userId;
+}
+
+/**
+ * After a link is used up: keeps its hash as a receipt under `purpose` for `identifier`, so opening
+ * the link again can say what it was used for (peekEmailToken with that purpose) instead of only
+ * that it does not work. A receipt signs nobody in and opens nothing by itself.
+ */
+export async function keepTokenReceipt({ db }: { db: Database }, token: string, identifier: string, purpose: "teacher-invite-accepted"): Promise<void> {
+  const expires = new Date(Date.now() + EMAIL_TOKEN_MINUTES[purpose] * 60_000);
+  await db.insert(verificationTokens).values({ identifier, token: hashToken(token), expires, purpose }).onConflictDoNothing();
 }
