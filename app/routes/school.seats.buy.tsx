@@ -15,7 +15,9 @@ import { PaymentServiceError, requestInvoice, startCardCheckout } from "~/lib/pu
 import { purchasableSchoolYears } from "~/lib/school-year";
 import { SendButton } from "~/components/send-button";
 
+const MIN_SEATS_PER_ORDER = 1;
 const MAX_SEATS_PER_ORDER = 5000;
+const SEATS_RANGE = `Choose between ${MIN_SEATS_PER_ORDER} and ${MAX_SEATS_PER_ORDER.toLocaleString("en-US")} seats for one order.`;
 
 const blankToUndefined = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
 
@@ -27,17 +29,20 @@ const purchaseOrderSchema = z
   .default("");
 const methodSchema = z.enum(["card", "invoice"], { error: "Choose how the school will pay: by card now, or by invoice." });
 
+/** The number of seats: the order checks it, and the page checks it as it is typed to show the total or what is wrong. */
+const seatsSchema = z.preprocess(
+  blankToUndefined,
+  z.coerce
+    .number({ error: "Enter how many seats, as a whole number (for example 30)." })
+    .int("Enter a whole number of seats (for example 30).")
+    .min(MIN_SEATS_PER_ORDER, SEATS_RANGE)
+    .max(MAX_SEATS_PER_ORDER, SEATS_RANGE),
+);
+
 function seatOrderSchema(years: readonly string[]) {
   return z
     .object({
-      seats: z.preprocess(
-        blankToUndefined,
-        z.coerce
-          .number({ error: "Enter how many seats, as a whole number (for example 30)." })
-          .int("Enter a whole number of seats (for example 30).")
-          .min(1, "Buy at least 1 seat.")
-          .max(MAX_SEATS_PER_ORDER, `Up to ${MAX_SEATS_PER_ORDER.toLocaleString("en-US")} seats in one order.`),
-      ),
+      seats: seatsSchema,
       schoolYear: z.string({ error: "Choose the school year." }).refine((y) => years.includes(y), `Choose ${years.join(" or ")}.`),
       method: methodSchema,
       purchaseOrder: purchaseOrderSchema,
@@ -64,7 +69,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     years,
     price: SCHOOL_SEAT_PRICE_CENTS,
     defaults: {
-      seats: Number.isInteger(seats) && seats > 0 && seats <= MAX_SEATS_PER_ORDER ? String(seats) : "10",
+      seats: seatsSchema.safeParse(seats).success ? String(seats) : "10",
       schoolYear: year && years.includes(year) ? year : years[0],
       method: "card",
       purchaseOrder: "",
@@ -113,8 +118,7 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
   const [method, setMethod] = useState(values.method);
   const navigation = useNavigation();
   const busy = navigation.state !== "idle" && navigation.formMethod === "POST";
-  const count = Number(seats);
-  const total = Number.isInteger(count) && count > 0 && count <= MAX_SEATS_PER_ORDER ? formatPrice(count * price) : null;
+  const count = seatsSchema.safeParse(seats);
   const errorCount = Object.keys(errors).length;
 
   return (
@@ -210,12 +214,13 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
         />
 
         <p className="mb-4 text-[length:var(--text-step-1)]" aria-live="polite" data-testid="order-total">
-          {total ? (
+          {count.success ? (
             <>
-              Total: <strong>{total}</strong> ({count} × {formatPrice(price)})
+              Total: <strong>{formatPrice(count.data * price)}</strong> ({count.data} × {formatPrice(price)})
             </>
           ) : (
-            "Enter a number of seats to see the total."
+            // What is wrong with the number typed, in the words the order would use.
+            <span data-testid="order-total-problem">{count.error.issues[0]?.message}</span>
           )}
         </p>
         <SendButton className="btn" busy={busy}>

@@ -9,7 +9,7 @@ import { latePolicy } from "~/db/schema.server";
 import { assertSameOrigin } from "~/lib/auth.server";
 import { listLessons } from "~/lib/lessons.server";
 import { assignedMessage, assignLesson, classAccommodations, classAssignments, unassignLesson } from "~/lib/teaching/assignments.server";
-import { LATE_POLICY_WORDS } from "~/lib/teaching/shared";
+import { LATE_POLICY_WORDS, lateRuleInWords } from "~/lib/teaching/shared";
 import { classHeading } from "~/lib/teaching/classes.server";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { classRoster } from "~/lib/teaching/roster.server";
@@ -56,6 +56,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
             opensText: formatDue(a.opensAt, tz, now),
             latePolicy: a.latePolicy,
             latePenaltyPercent: a.latePenaltyPercent,
+            lateRule: lateRuleInWords(a.latePolicy, a.latePenaltyPercent),
           }
         : null,
       defaults: { opensAt: dateToZonedInput(now, tz), dueAt: weekAhead },
@@ -133,7 +134,7 @@ export default function Assignments({ loaderData, actionData }: Route.ComponentP
                 <p className="text-[length:var(--text-step--1)] text-ink-soft">
                   {a ? (
                     <>
-                      <strong className="text-ok">Assigned</strong> · opens {a.opensText} · due {a.dueText}
+                      <strong className="text-ok">Assigned</strong> · opens {a.opensText} · due {a.dueText} · <span data-testid="late-rule">{a.lateRule}</span>
                     </>
                   ) : (
                     "Not assigned"

@@ -8,7 +8,7 @@ import type { Route } from "./+types/teach.classes.$classId.gradebook";
 import { db } from "~/db/client.server";
 import { classHeading } from "~/lib/teaching/classes.server";
 import { gradebookView, loadGradebook, type GradebookView } from "~/lib/teaching/gradebook.server";
-import { GRADEBOOK_FILTERS, STUCK_AFTER_WRONG, filterRows, type GradebookFilter } from "~/lib/teaching/shared";
+import { AVERAGE_RULE, GRADEBOOK_FILTERS, STUCK_AFTER_WRONG, filterRows, type GradebookFilter } from "~/lib/teaching/shared";
 import { formatClockTime } from "~/lib/teaching/time";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { ClassHeader, Percent } from "~/components/teaching/ui";
@@ -105,6 +105,12 @@ export default function GradebookPage({ loaderData }: Route.ComponentProps) {
           {book.summary.students} {book.summary.students === 1 ? "student" : "students"} · {book.summary.lessons}{" "}
           {book.summary.lessons === 1 ? "lesson" : "lessons"} assigned · lesson work done: <Percent value={book.summary.completePercent} /> ·
           average score: <Percent value={book.summary.averageScore} />
+          {book.summary.averagedStudents < book.summary.students ? (
+            <span data-testid="averaged-students">
+              {" "}
+              (of the {book.summary.averagedStudents} {book.summary.averagedStudents === 1 ? "student" : "students"} with a lesson that counts yet)
+            </span>
+          ) : null}
           {book.summary.toReview > 0 ? <> · <strong>{book.summary.toReview}</strong> written {book.summary.toReview === 1 ? "answer" : "answers"} to review</> : null}
         </p>
         <p className="flex flex-wrap gap-3">
@@ -120,7 +126,6 @@ export default function GradebookPage({ loaderData }: Route.ComponentProps) {
             key={f.value}
             to={withParams(f.value)}
             preventScrollReset
-            replace
             aria-current={filter === f.value ? "true" : undefined}
             title={f.means}
             className={`rounded-full border-2 px-3 py-1 font-bold no-underline ${filter === f.value ? "border-spruce bg-spruce text-white hover:text-white" : "border-spruce text-spruce hover:bg-spruce-wash"}`}
@@ -169,7 +174,7 @@ function Legend() {
         <li>Overdue: past the student's due date and not finished. Late: finished after the due date.</li>
         <li>Stuck on N: N exercises with {STUCK_AFTER_WRONG} or more wrong answers and none right yet.</li>
         <li>N to review: written answers handed in, or handed in again, since your last review.</li>
-        <li>Average: every lesson already open, a lesson not started counting as 0.</li>
+        <li data-testid="average-rule">Average: {AVERAGE_RULE} The class's average score is the mean of its students' averages.</li>
       </ul>
     </details>
   );

@@ -67,22 +67,24 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
 
       <section aria-labelledby="items" className="mb-10">
         <h2 id="items" className="mb-3 text-[length:var(--text-step-2)]">How each exercise went</h2>
-        <div className="overflow-x-auto rounded-lg border border-rule bg-card">
-          <table className="w-full border-collapse text-left text-[length:var(--text-step--1)]">
+        {/* On a narrow screen the table keeps readable columns (each header on one or two lines) and
+            scrolls sideways inside its own box, the exercise names staying in view. */}
+        <div className="overflow-x-auto rounded-lg border border-rule bg-card" data-testid="item-analysis">
+          <table className="w-full min-w-[44rem] border-collapse text-left text-[length:var(--text-step--1)]">
             <caption className="sr-only">Item analysis of the lesson's exercises</caption>
             <thead>
-              <tr className="border-b-2 border-rule">
-                <th scope="col" className="px-3 py-2">Exercise</th>
-                <th scope="col" className="px-3 py-2">Tried</th>
-                <th scope="col" className="px-3 py-2">Right at the first try</th>
-                <th scope="col" className="px-3 py-2">Tries on average</th>
+              <tr className="border-b-2 border-rule align-bottom">
+                <th scope="col" className="sticky left-0 z-10 w-40 bg-card px-3 py-2">Exercise</th>
+                <th scope="col" className="w-24 px-3 py-2">Tried</th>
+                <th scope="col" className="w-32 px-3 py-2">Right at the first try</th>
+                <th scope="col" className="w-28 px-3 py-2">Tries on average</th>
                 <th scope="col" className="px-3 py-2">Most common wrong answer</th>
               </tr>
             </thead>
             <tbody>
               {items.map((item) => (
                 <tr key={item.exerciseId} className="border-b border-rule align-top" data-exercise={item.exerciseId}>
-                  <th scope="row" className="px-3 py-2 font-normal">
+                  <th scope="row" className="sticky left-0 z-10 w-40 bg-card px-3 py-2 font-normal">
                     <Link to={`/teach/classes/${klass.id}/lessons/${lesson.slug}/exercises/${item.exerciseId}`}>{item.title}</Link>
                     {item.required ? null : <span className="block text-ink-soft">optional</span>}
                   </th>

@@ -24,7 +24,8 @@ import {
   type RosterPreview,
 } from "~/lib/teaching/roster.server";
 import { checkNewPassword } from "~/lib/auth/password-rules.server";
-import { problemPlace } from "~/lib/teaching/shared";
+import { problemPlace, USERNAME_MAX, USERNAME_RULE } from "~/lib/teaching/shared";
+import { addStudentsLabel } from "~/lib/teaching/words";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
 import { SendButton } from "~/components/send-button";
 
@@ -239,7 +240,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
           <Form method="post" preventScrollReset key={added ? added.map((a) => a.username).join() : "add-one"}>
             <input type="hidden" name="intent" value="add-one" />
             <TextField label="Display name" hint="First name and initial is enough." name="displayName" required maxLength={60} autoComplete="off" defaultValue={addOne?.values.displayName} error={addOne?.errors.displayName} />
-            <TextField label="Username" hint="Letters, digits, dots; unique at your school." name="username" required maxLength={40} autoComplete="off" autoCapitalize="none" spellCheck={false} defaultValue={addOne?.values.username} error={addOne?.errors.username} />
+            <TextField label="Username" hint={`${USERNAME_RULE}; unique at your school.`} name="username" required maxLength={USERNAME_MAX} autoComplete="off" autoCapitalize="none" spellCheck={false} defaultValue={addOne?.values.username} error={addOne?.errors.username} />
             <SelectField label="Grade band" name="gradeBand" defaultValue={addOne?.values.gradeBand ?? "6-8"} options={BANDS} />
             <TextField label="Student number (optional)" name="studentNumber" maxLength={30} autoComplete="off" defaultValue={addOne?.values.studentNumber} error={addOne?.errors.studentNumber} />
             <TextField label="First password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" error={addOne?.errors.password} />
@@ -337,7 +338,7 @@ function RosterCheck({ result, busy }: { result: Extract<ActionResult, { intent:
           <input type="hidden" name="gradeBand" value={result.gradeBand} />
           <input type="hidden" name="fileName" value={result.fileName} />
           <SendButton className="btn" busy={busy}>
-            Add these {preview.rows.length} students to the class
+            {addStudentsLabel(preview.rows.length)}
           </SendButton>
         </Form>
       ) : null}

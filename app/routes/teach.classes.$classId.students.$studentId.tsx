@@ -14,10 +14,10 @@ import { classHeading } from "~/lib/teaching/classes.server";
 import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
 import { notFound, requireTeacherClass } from "~/lib/teaching/guard.server";
 import { reviewAction } from "~/lib/teaching/review-action.server";
-import { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS, rubricTotal } from "~/lib/teaching/shared";
+import { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS, rubricTotal, type GradebookCell } from "~/lib/teaching/shared";
 import { findClassStudent, moveStudent, moveTargets, removeFromClass, setStudentPassword } from "~/lib/teaching/roster.server";
 import { loadStudentWork } from "~/lib/teaching/student-work.server";
-import { formatMoment } from "~/lib/teaching/time";
+import { DAY_MS, formatDue, formatMoment } from "~/lib/teaching/time";
 import { triesAsRead } from "~/lib/teaching/words";
 import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
 import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
@@ -41,6 +41,13 @@ const intentSchema = z.discriminatedUnion("intent", [
     extraDays: whole(MAX_EXTRA_DAYS, "extra days"),
   }),
 ]);
+
+/** "Due Sat 12 Dec, 5:00 pm (3 days added for this student; the class's is Wed 9 Dec, 5:00 pm)": the student's own due date. */
+function dueLine(lesson: { dueAt: string; dueText: string }, cell: GradebookCell | undefined, timeZone: string): string {
+  const extraDays = cell ? Math.round((Date.parse(cell.dueAt) - Date.parse(lesson.dueAt)) / DAY_MS) : 0;
+  if (!cell || extraDays <= 0) return `Due ${lesson.dueText}`;
+  return `Due ${formatDue(cell.dueAt, timeZone)} (${extraDays} ${extraDays === 1 ? "day" : "days"} added for this student; the class's is ${lesson.dueText})`;
+}
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { klass, user } = await requireTeacherClass(request, params.classId);
@@ -69,7 +76,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     return {
       slug,
       title: summary ? `Lesson ${summary.number}: ${summary.title}` : slug,
-      assignment: assignment ? { dueText: assignment.dueText, cell: row?.cells[assignment.assignmentId] ?? null } : null,
+      assignment: assignment ? { dueLine: dueLine(assignment, row?.cells[assignment.assignmentId], tz), cell: row?.cells[assignment.assignmentId] ?? null } : null,
       exercises: exercises.map((e) => ({
         id: e.id,
         title: e.title,
@@ -222,7 +229,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
           <p className="mb-3 text-[length:var(--text-step--1)] text-ink-soft">
             {lesson.assignment ? (
               <>
-                Due {lesson.assignment.dueText}
+                <span data-testid="student-due">{lesson.assignment.dueLine}</span>
                 {lesson.assignment.cell
                   ? ` · ${lesson.assignment.cell.requiredDone} of ${lesson.assignment.cell.requiredTotal} parts done${lesson.assignment.cell.score !== null ? ` · score ${lesson.assignment.cell.score}%` : ""}${lesson.assignment.cell.overdue ? " · overdue" : lesson.assignment.cell.finishedLate ? " · finished late" : ""}`
                   : ""}

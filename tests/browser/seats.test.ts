@@ -44,6 +44,13 @@ async function orderSeats(page: Page, seats: number, method: "card" | "invoice",
   await page.getByRole("link", { name: "Buy seats" }).click();
   await page.waitForURL(/\/school\/seats\/buy/);
   await page.getByRole("heading", { name: "Buy student seats" }).waitFor();
+  // A number out of range is named as such, with the order's own limits, instead of a total.
+  for (const wrong of ["0", "99999"]) {
+    await page.getByLabel("How many seats?").fill(wrong);
+    await expect(page.getByTestId("order-total").innerText()).resolves.toBe("Choose between 1 and 5,000 seats for one order.");
+  }
+  await page.getByLabel("How many seats?").fill("");
+  await expect(page.getByTestId("order-total").innerText()).resolves.toBe("Enter how many seats, as a whole number (for example 30).");
   await page.getByLabel("How many seats?").fill(String(seats));
   if (method === "invoice") {
     await page.getByLabel("By invoice").check();

@@ -85,6 +85,9 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     expect(await saved()).toHaveLength(3);
     await expect(page.getByRole("table", { name: "First passwords" }).innerText()).resolves.toMatch(new RegExp(usernames[1]));
 
+    // The form for one student states the username rule the check applies.
+    await expect(page.getByText("3 to 40 letters a–z, digits, dots, hyphens and underscores, starting and ending with a letter or digit; unique at your school.").count()).resolves.toBe(1);
+
     // 4. A demo student who already has an account joins this class too.
     await page.getByLabel("Their username").fill(STUDENT);
     await page.getByRole("button", { name: "Add to this class" }).click();
@@ -105,6 +108,8 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     const cell = page.locator(`tr[data-student="${STUDENT}"] td[data-lesson="${LESSON}"]`);
     await expect(cell.innerText()).resolves.toMatch(/Not started/);
     await expect(page.locator("tr[data-student]").count()).resolves.toBe(4);
+    // Nobody has started yet and the lesson is not due: no average counts anything yet.
+    await expect(page.getByTestId("average").allInnerTexts()).resolves.toEqual(["—", "—", "—", "—"]);
     await page.evaluate(() => ((window as unknown as { stillHere: boolean }).stillHere = true));
 
     // 7. The student answers an exercise of lesson 2 in another browser.
@@ -126,6 +131,10 @@ describe("a teacher's class from nothing to a live gradebook", () => {
       .toMatch(/1 of 7 done/);
     await expect(cell.getByTestId("score").innerText()).resolves.toBe("17%");
     expect(await page.evaluate(() => (window as unknown as { stillHere?: boolean }).stillHere)).toBe(true);
+    // One rule everywhere: the lesson counts for the student who started it, not yet for the others.
+    await expect(page.locator(`tr[data-student="${STUDENT}"]`).getByTestId("average").innerText()).resolves.toBe("17%");
+    await expect(page.getByTestId("averaged-students").innerText()).resolves.toMatch(/of the 1 student with a lesson that counts yet/);
+    await expect(page.getByTestId("average-rule").textContent()).resolves.toMatch(/once they have started it, or once its due date for them has passed/);
 
     // The filters work on the rows already in the page.
     await page.getByRole("link", { name: /^Not started/ }).click();
@@ -133,6 +142,16 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     await expect(page.getByTestId("filter-means").innerText()).resolves.toMatch(/not started at least one lesson that is open/);
     await expect.poll(() => page.locator(`tr[data-student="${STUDENT}"]`).count()).toBe(0);
     await expect(page.locator("tr[data-student]").count()).resolves.toBe(3);
+    expect(await page.evaluate(() => (window as unknown as { stillHere?: boolean }).stillHere)).toBe(true);
+    // Each filter is a step in the history: Back returns to the filter before, then to everyone.
+    await page.getByRole("link", { name: /^Stuck/ }).click();
+    await page.waitForURL(/show=stuck/);
+    await page.goBack();
+    await page.waitForURL(/show=not-started/);
+    await expect.poll(() => page.locator("tr[data-student]").count()).toBe(3);
+    await page.goBack();
+    await page.waitForURL((url) => url.pathname.endsWith("/gradebook") && !url.searchParams.has("show"));
+    await expect.poll(() => page.locator("tr[data-student]").count()).toBe(4);
     expect(await page.evaluate(() => (window as unknown as { stillHere?: boolean }).stillHere)).toBe(true);
 
     // 9. Taking the lesson off the list asks once more, then keeps the student's work.
@@ -162,11 +181,24 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     await signInAsAdult(page, demoSignIns.teacher.email, demoSignIns.teacher.password);
     await page.waitForURL(/\/teach/);
     const [klass] = await db.select().from(classes).where(eq(classes.name, "Grade 7 Physical Science A"));
-    for (const path of ["gradebook", "roster", "assignments", "settings"]) {
+    for (const path of ["gradebook", "roster", "assignments", "settings", `lessons/${LESSON}`]) {
       await page.goto(`/teach/classes/${klass.id}/${path}`);
       const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
       expect(overflow, path).toBeLessThanOrEqual(0);
     }
+    // The lesson's item analysis keeps its headers readable (one or two lines each, not a word per
+    // line) and scrolls sideways inside its own box.
+    const box = page.getByTestId("item-analysis");
+    await box.screenshot({ path: "tests/.artifacts/item-analysis-375.png" });
+    const headerLines = await box.locator("thead th").evaluateAll((cells) =>
+      cells.map((cell) => {
+        const range = document.createRange();
+        range.selectNodeContents(cell);
+        return new Set([...range.getClientRects()].map((r) => Math.round(r.top))).size;
+      }),
+    );
+    expect(Math.max(...headerLines)).toBeLessThanOrEqual(2);
+    expect(await box.evaluate((el) => el.scrollWidth > el.clientWidth)).toBe(true);
     expect(consoleErrors).toEqual([]);
     await context.close();
   }, 60_000);

@@ -98,8 +98,8 @@ describe("/school/seats/buy", () => {
     });
     expect((await order({ seats: "", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Enter how many seats, as a whole number (for example 30)." } });
     expect((await order({ seats: "2.5", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Enter a whole number of seats (for example 30)." } });
-    expect((await order({ seats: "0", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Buy at least 1 seat." } });
-    expect((await order({ seats: "5001", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Up to 5,000 seats in one order." } });
+    expect((await order({ seats: "0", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Choose between 1 and 5,000 seats for one order." } });
+    expect((await order({ seats: "5001", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Choose between 1 and 5,000 seats for one order." } });
     expect((await order({ seats: "3", schoolYear: "2026-27" })).body).toMatchObject({ fieldErrors: { method: "Choose how the school will pay: by card now, or by invoice." } });
     expect((await order({ seats: "3", schoolYear: "2026-27", method: "invoice", purchaseOrder: "PO<script>" })).body).toMatchObject({
       fieldErrors: { purchaseOrder: "Use letters, digits, spaces and . / # _ - only." },

@@ -12,6 +12,7 @@ import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { analyseItems, classAttempts } from "~/lib/teaching/analysis.server";
 import { gradebookVersion, loadGradebook } from "~/lib/teaching/gradebook.server";
 import { filterRows } from "~/lib/teaching/shared";
+import { formatDue } from "~/lib/teaching/time";
 import * as gradebookPage from "~/routes/teach.classes.$classId.gradebook";
 import * as gradebookJson from "~/routes/api.teach.classes.$classId.gradebook";
 import * as gradebookCsvRoute from "~/routes/teach.classes.$classId.gradebook.csv";
@@ -302,14 +303,50 @@ describe("exports", () => {
     expect(result.headers.get("content-disposition")).toMatch(/^attachment; filename="gradebook-grade-7-physical-science-b-\d{4}-\d{2}-\d{2}\.csv"$/);
     const text = result.body as string;
     const rows = Papa.parse<string[]>(text, { skipEmptyLines: true }).data;
-    expect(rows[0]).toEqual(["Student", "Username", "Student number", "Lesson 2: Force and deformation (score %)", "Lessons complete", "Lessons assigned", "Average score of open lessons (%)"]);
+    expect(rows[0]).toEqual(["Student", "Username", "Student number", "Lesson 2: Force and deformation (score %)", "Lessons complete", "Lessons assigned", "Average score (%): lessons started or past due, not started then 0"]);
     expect(rows).toHaveLength(1 + 10 + 1);
     expect(rows.find((r) => r[1] === "kira.n")).toEqual(["Kira N.", "kira.n", "", "100", "1", "1", "100"]);
     expect(rows.find((r) => r[1] === "nils.a")?.[3]).toBe("0");
-    expect(rows.at(-1)![0]).toBe("Class average");
+    expect(rows.at(-1)![0]).toBe("Whole class: average scores, lessons in total");
     // A name that looks like a formula stays text in a spreadsheet; other scripts survive.
     expect(rows.find((r) => r[1] === "olu.e")?.[0]).toBe("'=HYPERLINK(\"x\") Ørjan");
     await db.update(users).set({ displayName: "Olu E." }).where(eq(users.username, "olu.e"));
+  });
+
+  it("follows one average rule on the page, in the summary and in every CSV column, before and after the due date", async () => {
+    // A lesson open and due in two days; one of three students has finished it, two have not started.
+    const [klass] = await db
+      .insert(classes)
+      .values({ organisationId: ids.maplebrook.id, teacherId: ids.oduya.id, name: "Average rule", schoolYear: "2026-27", signInCode: `AVG${Date.now() % 100000}` })
+      .returning();
+    const [done] = await enrollInventedStudents(ids.maplebrook.id, klass.id, 3);
+    const [assignment] = await db
+      .insert(assignments)
+      .values({ classId: klass.id, lessonSlug: LESSON, opensAt: new Date(Date.now() - DAY), dueAt: new Date(Date.now() + 2 * DAY) })
+      .returning();
+    for (const id of required) await recordTry(done.id, LESSON, id, { right: true });
+    await db.insert(writtenAnswers).values({ studentId: done.id, lessonSlug: LESSON, answerId: "cer-stiffness", claim: "c", evidence: "e", reasoning: "r", handedInAt: new Date() });
+
+    const check = async (expected: { averages: (number | null)[]; cells: string[]; classAverage: number | null; lessonAverage: string }) => {
+      const page = await runRoute(gradebookPage.loader as never, get(`/teach/classes/${klass.id}/gradebook`, { cookie: cookies.teacher }), { classId: klass.id });
+      const book = (page.body as { gradebook: Awaited<ReturnType<typeof loadGradebook>> }).gradebook;
+      expect(book.rows.map((r) => r.averageScore)).toEqual(expected.averages);
+      expect(book.summary.averageScore).toBe(expected.classAverage);
+      expect(book.summary.averagedStudents).toBe(expected.averages.filter((a) => a !== null).length);
+      const csv = await runRoute(gradebookCsvRoute.loader as never, get(`/teach/classes/${klass.id}/gradebook/csv`, { cookie: cookies.teacher }), { classId: klass.id });
+      const rows = Papa.parse<string[]>(csv.body as string, { skipEmptyLines: true }).data.slice(1);
+      // Student rows: the lesson's score as it counts, lessons complete, assigned, the average.
+      expect(rows.slice(0, 3).map((r) => r.slice(3))).toEqual(
+        expected.cells.map((cell, i) => [cell, i === 0 ? "1" : "0", "1", expected.averages[i] === null ? "" : String(expected.averages[i])]),
+      );
+      // The class: the lesson's average of what counts, lessons complete and assigned in total, the class average.
+      expect(rows[3].slice(3)).toEqual([expected.lessonAverage, "1", "3", expected.classAverage === null ? "" : String(expected.classAverage)]);
+    };
+    // Before the due date, a lesson not started does not count yet.
+    await check({ averages: [100, null, null], cells: ["100", "", ""], classAverage: 100, lessonAverage: "100" });
+    // Past the due date, it counts as 0 for those who never started it, everywhere.
+    await db.update(assignments).set({ dueAt: new Date(Date.now() - 60_000) }).where(eq(assignments.id, assignment.id));
+    await check({ averages: [100, 0, 0], cells: ["100", "0", "0"], classAverage: 33, lessonAverage: "33" });
   });
 
   it("sends each exercise's tries as CSV", async () => {
@@ -417,6 +454,20 @@ describe("a student's page", () => {
     expect(lesson.exercises.flatMap((e) => e.attempts).length).toBeGreaterThanOrEqual(required.length);
     expect(lesson.readings[0].analysis.fit.throughOrigin.slope).toBeCloseTo(2.5, 5);
     expect(lesson.answers).toHaveLength(1);
+  });
+
+  it("shows the student's own due date, marked as extended, when they have more days", async () => {
+    const maya = await studentByUsername("maya.d");
+    const [lesson] = await db.select().from(assignments).where(and(eq(assignments.classId, ids.mapleB.id), eq(assignments.lessonSlug, LESSON)));
+    const tz = ids.mapleB.timeZone;
+    const dueLineOf = async () => {
+      const page = await runRoute(studentPage.loader as never, get(`/x`, { cookie: cookies.teacher }), { classId: ids.mapleB.id, studentId: maya.id });
+      return (page.body as { lessons: { slug: string; assignment: { dueLine: string } | null }[] }).lessons.find((l) => l.slug === LESSON)!.assignment!.dueLine;
+    };
+    expect(await dueLineOf()).toBe(`Due ${formatDue(lesson.dueAt, tz)}`);
+    await db.insert(accommodations).values({ classId: ids.mapleB.id, studentId: maya.id, assignmentId: lesson.id, extraAttempts: 1, extraDays: 3 });
+    expect(await dueLineOf()).toBe(`Due ${formatDue(new Date(lesson.dueAt.getTime() + 3 * DAY), tz)} (3 days added for this student; the class's is ${formatDue(lesson.dueAt, tz)})`);
+    await db.delete(accommodations).where(and(eq(accommodations.studentId, maya.id), eq(accommodations.assignmentId, lesson.id)));
   });
 
   it("shows a choice as the option the student saw, not its stored value", async () => {

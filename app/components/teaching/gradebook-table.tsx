@@ -36,7 +36,7 @@ export function GradebookTable({ classId, book, rows }: { classId: string; book:
               <td className="px-3 py-2">
                 {row.lessonsComplete} of {book.lessons.length}
               </td>
-              <td className="px-3 py-2" data-testid="average">{row.averageScore === null ? "—" : `${row.averageScore}%`}</td>
+              <td className="px-3 py-2" data-testid="average">{row.averageScore === null ? <span title="No lesson counts yet: none started, none past its due date">—</span> : `${row.averageScore}%`}</td>
             </tr>
           ))}
         </tbody>

@@ -5,6 +5,7 @@ import Papa from "papaparse";
 import { choiceLabelReader } from "~/lib/course.server";
 import type { ClassAttempt } from "./analysis.server";
 import type { Gradebook } from "./gradebook.server";
+import { countedScore, lessonAverage } from "./shared";
 import { formatMoment } from "./time";
 import { outcomeWords, readableAnswer } from "./words";
 
@@ -36,33 +37,37 @@ export function csvResponse(body: string, filename: string): Response {
   });
 }
 
-/** One row per student, a score column per assigned lesson, then totals; a last row with the class averages. */
+/** The average's column says its rule (AVERAGE_RULE in shared.ts) in short. */
+export const AVERAGE_COLUMN = "Average score (%): lessons started or past due, not started then 0";
+
+/**
+ * One row per student, a score column per assigned lesson, then totals; a last row for the class.
+ * Scores follow the gradebook's AVERAGE_RULE throughout: a lesson's cell is empty while it does not
+ * count for that student yet (not started and not yet due), 0 when it counts and was not started;
+ * the class's lesson columns and average are means of what counts; its lessons are totals.
+ */
 export function gradebookCsv(book: Gradebook): string {
   const lessonColumns = book.lessons.map((l) => `${l.number ? `Lesson ${l.number}: ` : ""}${l.title} (score %)`);
-  const fields = ["Student", "Username", "Student number", ...lessonColumns, "Lessons complete", `Lessons assigned`, "Average score of open lessons (%)"];
+  const fields = ["Student", "Username", "Student number", ...lessonColumns, "Lessons complete", "Lessons assigned", AVERAGE_COLUMN];
   const rows = book.rows.map((r) => [
     r.student.displayName,
     r.student.username ?? "",
     r.student.studentNumber ?? "",
-    ...book.lessons.map((l) => r.cells[l.assignmentId]?.score ?? (l.opened ? 0 : null)),
+    ...book.lessons.map((l) => countedScore(r.cells[l.assignmentId])),
     r.lessonsComplete,
     book.lessons.length,
     r.averageScore,
   ]);
-  const mean = (values: (number | null)[]) => {
-    const present = values.filter((v): v is number => v !== null);
-    return present.length > 0 ? Math.round(present.reduce((a, b) => a + b, 0) / present.length) : null;
-  };
-  const averages = [
-    "Class average",
+  const classRow = [
+    "Whole class: average scores, lessons in total",
     "",
     "",
-    ...book.lessons.map((l) => mean(book.rows.map((r) => r.cells[l.assignmentId]?.score ?? (l.opened ? 0 : null)))),
-    mean(book.rows.map((r) => r.lessonsComplete)),
-    book.lessons.length,
-    mean(book.rows.map((r) => r.averageScore)),
+    ...book.lessons.map((l) => lessonAverage(book.rows, l.assignmentId)),
+    book.rows.reduce((sum, r) => sum + r.lessonsComplete, 0),
+    book.lessons.length * book.rows.length,
+    book.summary.averageScore,
   ];
-  return toCsv(fields, book.rows.length > 0 ? [...rows, averages] : rows);
+  return toCsv(fields, book.rows.length > 0 ? [...rows, classRow] : rows);
 }
 
 /** Every attempt at one exercise of lesson `slug` by the class's students, in the class's time zone. */

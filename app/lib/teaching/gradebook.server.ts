@@ -15,7 +15,9 @@
 //   or nothing ("closed");
 // - stuck: STUCK_AFTER_WRONG or more wrong answers to one exercise and no right one yet;
 // - late: past the student's due date without finishing, or finished after it;
-// - a student's average counts every lesson already open, a lesson not started as 0.
+// - a student's average counts each open lesson the student has started, and each open lesson past
+//   their own due date, not started then counting as 0; a lesson not started and not yet due does not
+//   count yet (AVERAGE_RULE in shared.ts; `counted` on each cell).
 import { eq, sql, type SQL } from "drizzle-orm";
 import { LRUCache } from "lru-cache";
 import type { Database } from "~/db/client.server";
@@ -26,7 +28,7 @@ import { attemptsAllowed, NO_TRY_OUTCOMES_SQL } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { effectiveAccommodation } from "./policy.server";
 import { DAY_MS, daysLate, formatClockTime, formatDue } from "./time";
-import { STUCK_AFTER_WRONG, type ClassSummary, type Gradebook, type GradebookCell, type GradebookLesson, type GradebookRow } from "./shared";
+import { STUCK_AFTER_WRONG, countedScore, meanOf, type ClassSummary, type Gradebook, type GradebookCell, type GradebookLesson, type GradebookRow } from "./shared";
 
 export type { ClassSummary, Gradebook, GradebookCell, GradebookLesson, GradebookRow } from "./shared";
 
@@ -198,6 +200,7 @@ export async function loadGradebooks({ db }: Db, classIds: string[], now: Date =
         const requiredTotal = scored + requiredAnswers.length;
         const started = startedBy.has(key(student.id, lesson.slug)) || visits.has(key(student.id, lesson.slug)) || answers.length > 0;
         const complete = requiredTotal > 0 && done === requiredTotal;
+        const pastDue = now.getTime() > due.getTime();
         cells[lesson.assignmentId] = {
           status: complete ? "complete" : started ? "working" : "not-started",
           requiredDone: done,
@@ -205,7 +208,8 @@ export async function loadGradebooks({ db }: Db, classIds: string[], now: Date =
           score: started && scored > 0 ? Math.round((100 * credit) / scored) : null,
           dueAt: due.toISOString(),
           accommodated: extra.extraAttempts > 0 || extra.extraDays > 0,
-          overdue: !complete && now.getTime() > due.getTime(),
+          counted: lesson.opened && (started || pastDue),
+          overdue: !complete && pastDue,
           finishedLate: complete && completedAt > due.getTime(),
           stuckOn,
           toReview,
@@ -213,15 +217,13 @@ export async function loadGradebooks({ db }: Db, classIds: string[], now: Date =
         };
       }
       const open = lessons.filter((l) => l.opened);
-      // The average counts a lesson once the student has work in it, or once it is past their due date
-      // (then not started counts as 0): a lesson still ahead of its due date does not pull it down.
-      const averaged = open.filter((l) => cells[l.assignmentId].status !== "not-started" || now.getTime() > Date.parse(cells[l.assignmentId].dueAt));
       const list = Object.values(cells);
       return {
         student,
         cells,
         lessonsComplete: list.filter((c) => c.status === "complete").length,
-        averageScore: averaged.length > 0 ? Math.round(averaged.reduce((sum, l) => sum + (cells[l.assignmentId].score ?? 0), 0) / averaged.length) : null,
+        // A lesson still ahead of its due date and not started does not pull the average down.
+        averageScore: meanOf(list.map(countedScore)),
         notStarted: open.some((l) => cells[l.assignmentId].status === "not-started"),
         late: list.some((c) => c.overdue || c.finishedLate),
         stuck: list.some((c) => c.stuckOn.length > 0),
@@ -339,12 +341,12 @@ export async function loadGradebookForRoute({ db }: Db, classId: string, timeZon
 
 function summarise(rows: GradebookRow[], lessons: GradebookLesson[]): ClassSummary {
   const cells = rows.flatMap((r) => Object.values(r.cells));
-  const averages = rows.map((r) => r.averageScore).filter((s): s is number => s !== null);
   return {
     students: rows.length,
     lessons: lessons.length,
     completePercent: cells.length > 0 ? Math.round((100 * cells.filter((c) => c.status === "complete").length) / cells.length) : null,
-    averageScore: averages.length > 0 ? Math.round(averages.reduce((a, b) => a + b, 0) / averages.length) : null,
+    averageScore: meanOf(rows.map((r) => r.averageScore)),
+    averagedStudents: rows.filter((r) => r.averageScore !== null).length,
     notStarted: rows.filter((r) => r.notStarted).length,
     late: rows.filter((r) => r.late).length,
     stuck: rows.filter((r) => r.stuck).length,

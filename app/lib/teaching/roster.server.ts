@@ -15,7 +15,7 @@ import { checkNewPassword } from "~/lib/auth/password-rules.server";
 import { hashPassword } from "~/lib/passwords.server";
 import { enrollStudentUsingSeat, releaseSeat, seatLedgerForYear, type SeatRefusal } from "~/lib/seats.server";
 import type { TeacherClass } from "./classes.server";
-import type { RosterProblem } from "./shared";
+import { USERNAME_CHARACTERS, USERNAME_ENDS, USERNAME_MAX, USERNAME_MIN, USERNAME_PATTERN, type RosterProblem } from "./shared";
 
 export { problemPlace, type RosterProblem } from "./shared";
 
@@ -28,7 +28,6 @@ export const MAX_ROSTER_BYTES = 200_000;
 
 // ───────────────────────────── Names, usernames, numbers ─────────────────────────────
 
-const USERNAME = /^[a-z0-9](?:[a-z0-9._-]{1,38})[a-z0-9]$/;
 
 /** The message for a display name, or null when it is fine. */
 export function displayNameProblem(name: string): string | null {
@@ -41,11 +40,9 @@ export function displayNameProblem(name: string): string | null {
 /** The message for a (lower-cased) username, or null when it is fine. */
 export function usernameProblem(username: string): string | null {
   if (!username) return "The username is missing.";
-  if (username.length < 3) return `The username “${username}” is shorter than 3 characters.`;
-  if (username.length > 40) return "The username is longer than 40 characters.";
-  if (!USERNAME.test(username)) {
-    return `The username “${username}” may use only letters a–z, digits, dots, hyphens and underscores, and must start and end with a letter or digit.`;
-  }
+  if (username.length < USERNAME_MIN) return `The username “${username}” is shorter than ${USERNAME_MIN} characters.`;
+  if (username.length > USERNAME_MAX) return `The username is longer than ${USERNAME_MAX} characters.`;
+  if (!USERNAME_PATTERN.test(username)) return `The username “${username}” may use only ${USERNAME_CHARACTERS}, ${USERNAME_ENDS}.`;
   return null;
 }
 

@@ -31,6 +31,8 @@ export interface GradebookCell {
   dueAt: string;
   /** the student has an accommodation for this lesson (shown to the teacher only) */
   accommodated: boolean;
+  /** the lesson counts in the student's average (AVERAGE_RULE): open, and started or past the student's due date */
+  counted: boolean;
   overdue: boolean;
   finishedLate: boolean;
   /** ids of exercises the student is stuck on */
@@ -51,7 +53,7 @@ export interface GradebookRow {
   student: GradebookStudent;
   cells: Record<string, GradebookCell>;
   lessonsComplete: number;
-  /** the mean score of every open lesson, a lesson not started counting 0; null with no open lesson */
+  /** the mean of the counted cells' scores (AVERAGE_RULE); null while no lesson counts yet */
   averageScore: number | null;
   notStarted: boolean;
   late: boolean;
@@ -63,7 +65,10 @@ export interface ClassSummary {
   lessons: number;
   /** complete cells ÷ (students × lessons), 0–100 */
   completePercent: number | null;
+  /** the mean of the students' averages, of those with an average (AVERAGE_RULE) */
   averageScore: number | null;
+  /** how many students have an average, i.e. at least one lesson that counts */
+  averagedStudents: number;
   notStarted: number;
   late: number;
   stuck: number;
@@ -78,6 +83,29 @@ export interface Gradebook {
   generatedAt: string;
   /** Which computation of a kept gradebook this is: the page's refresh sends it back, and hears "unchanged" while it still holds. */
   revision?: string;
+}
+
+/**
+ * Which lessons a student's average counts, in words: the gradebook's legend and its CSV export say
+ * this, and `counted` on each cell (gradebook.server.ts) applies it.
+ */
+export const AVERAGE_RULE =
+  "A lesson counts in a student's average once they have started it, or once its due date for them has passed (not started by then, it counts as 0). A lesson not started and not yet due does not count yet.";
+
+/** The score a cell adds to averages: its score (0 when not started), or null while it does not count. */
+export function countedScore(cell: GradebookCell | undefined): number | null {
+  return cell?.counted ? (cell.score ?? 0) : null;
+}
+
+/** The rounded mean of the numbers given, leaving out nulls; null when there are none. */
+export function meanOf(values: (number | null)[]): number | null {
+  const present = values.filter((v): v is number => v !== null);
+  return present.length > 0 ? Math.round(present.reduce((a, b) => a + b, 0) / present.length) : null;
+}
+
+/** The class's average for one lesson: the mean of the students' counted scores for it. */
+export function lessonAverage(rows: GradebookRow[], assignmentId: string): number | null {
+  return meanOf(rows.map((r) => countedScore(r.cells[assignmentId])));
 }
 
 export type GradebookFilter = "everyone" | "not-started" | "late" | "stuck";
@@ -108,6 +136,25 @@ export const LATE_POLICY_WORDS: Record<LatePolicy, string> = {
   penalty: "Late work loses points per day",
   closed: "Closed at the due date",
 };
+
+/** The late-work rule in plain words, for the summary of an assigned lesson: "late answers lose 5 points a day". */
+export function lateRuleInWords(policy: LatePolicy, penaltyPercent: number): string {
+  if (policy === "closed") return "closes at the due date";
+  if (policy === "penalty" && penaltyPercent > 0) return `late answers lose ${penaltyPercent} ${penaltyPercent === 1 ? "point" : "points"} a day`;
+  return "late answers count in full";
+}
+
+/**
+ * The username rule, in one place: the pattern the roster checks (roster.server.ts, usernameProblem)
+ * and the words the roster form's hint and the error for a username that breaks it both say.
+ */
+export const USERNAME_MIN = 3;
+export const USERNAME_MAX = 40;
+export const USERNAME_PATTERN = new RegExp(`^[a-z0-9][a-z0-9._-]{${USERNAME_MIN - 2},${USERNAME_MAX - 2}}[a-z0-9]$`);
+export const USERNAME_CHARACTERS = "letters a–z, digits, dots, hyphens and underscores";
+export const USERNAME_ENDS = "starting and ending with a letter or digit";
+/** "3 to 40 letters a–z, digits, dots, hyphens and underscores, starting and ending with a letter or digit" */
+export const USERNAME_RULE = `${USERNAME_MIN} to ${USERNAME_MAX} ${USERNAME_CHARACTERS}, ${USERNAME_ENDS}`;
 
 export const RUBRIC = [
   { key: "claim", label: "Claim", levels: ["Missing or off the question", "Answers the question, but vaguely", "A clear, precise answer to the question"] },

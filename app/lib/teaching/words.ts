@@ -122,3 +122,8 @@ export function triesAsRead(
     };
   });
 }
+
+/** The roster check's button: "Add this student to the class", "Add these 3 students to the class". */
+export function addStudentsLabel(count: number): string {
+  return count === 1 ? "Add this student to the class" : `Add these ${count} students to the class`;
+}

@@ -1,0 +1,33 @@
+/**
+ * Unit tests of the teaching words pages show beside the rules they describe (app/lib/teaching/shared.ts
+ * and words.ts): the username rule and its pattern, the late-work rule in plain words, and counts.
+ */
+import { describe, expect, it } from "vitest";
+import { lateRuleInWords, USERNAME_PATTERN, USERNAME_RULE } from "../../app/lib/teaching/shared";
+import { addStudentsLabel } from "../../app/lib/teaching/words";
+
+describe("the username rule", () => {
+  it("says in words what the pattern accepts: 3 to 40 characters, letters, digits, dots, hyphens and underscores, a letter or digit at each end", () => {
+    expect(USERNAME_RULE).toBe("3 to 40 letters a–z, digits, dots, hyphens and underscores, starting and ending with a letter or digit");
+    for (const ok of ["abc", "amira.k", "tove-a", "ugo_b", "x9.y-z_1", "a".repeat(40)]) expect(USERNAME_PATTERN.test(ok), ok).toBe(true);
+    for (const bad of ["ab", "a".repeat(41), ".abc", "abc-", "_abc", "ab c", "Abc", "åsa", "ab@c"]) expect(USERNAME_PATTERN.test(bad), bad).toBe(false);
+  });
+});
+
+describe("the late-work rule in plain words", () => {
+  it("names each rule, with the points a day", () => {
+    expect(lateRuleInWords("penalty", 5)).toBe("late answers lose 5 points a day");
+    expect(lateRuleInWords("penalty", 1)).toBe("late answers lose 1 point a day");
+    expect(lateRuleInWords("closed", 0)).toBe("closes at the due date");
+    expect(lateRuleInWords("accept", 0)).toBe("late answers count in full");
+    // A penalty of 0 takes nothing off: late answers count in full.
+    expect(lateRuleInWords("penalty", 0)).toBe("late answers count in full");
+  });
+});
+
+describe("the roster check's button", () => {
+  it("counts one student in the singular and more in the plural", () => {
+    expect(addStudentsLabel(1)).toBe("Add this student to the class");
+    expect(addStudentsLabel(3)).toBe("Add these 3 students to the class");
+  });
+});
