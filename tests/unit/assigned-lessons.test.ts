@@ -39,8 +39,8 @@ describe("assigned lessons on /learn", () => {
   });
 
   it("states the late-work rule", () => {
-    expect(render([lesson({ latePolicy: "penalty", latePenaltyPercent: 5 })], "teacher")).toContain("late work loses 5 points a day");
-    expect(render([lesson({ latePolicy: "closed" })], "teacher")).toContain("closes then");
-    expect(render([lesson({ latePolicy: "accept" })], "teacher")).not.toMatch(/late work|closes/);
+    expect(render([lesson({ latePolicy: "penalty", latePenaltyPercent: 5 })], "teacher")).toContain("late answers lose 5 points a day");
+    expect(render([lesson({ latePolicy: "closed" })], "teacher")).toContain("closes at the due date");
+    expect(render([lesson({ latePolicy: "accept" })], "teacher")).not.toMatch(/late|closes/);
   });
 });

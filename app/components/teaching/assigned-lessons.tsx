@@ -2,6 +2,7 @@
 // (an accommodation simply shows as their due date), soonest first.
 import { Link } from "react-router";
 import type { AssignedLesson } from "~/lib/teaching/assignments.server";
+import { lateRuleInWords } from "~/lib/teaching/shared";
 
 // The course is self-paced: a lesson assigned from a later day can be opened now as any other; the
 // day says when it joins the list of work expected.
@@ -21,7 +22,7 @@ export function AssignedLessons({ lessons, done, by }: { lessons: AssignedLesson
             </span>
             <span className="text-[length:var(--text-step--1)] text-ink-soft">
               {l.opened ? "" : `assigned from ${l.opensText} · `}due {l.dueText}
-              {l.latePolicy === "closed" ? " · closes then" : l.latePolicy === "penalty" ? ` · late work loses ${l.latePenaltyPercent} points a day` : ""}
+              {l.latePolicy === "accept" ? "" : ` · ${lateRuleInWords(l.latePolicy, l.latePenaltyPercent)}`}
             </span>
           </li>
         ))}
