@@ -76,6 +76,20 @@ export async function recordPhoto(
   });
 }
 
+/**
+ * Removes one of the student's own photos: its row, then its file. False when the student has no
+ * photo with that id (another student's photo is never touched).
+ */
+export async function removePhoto({ db }: { db: Database }, studentId: string, id: string): Promise<boolean> {
+  const [removed] = await db
+    .delete(photos)
+    .where(and(eq(photos.id, id), eq(photos.studentId, studentId)))
+    .returning({ key: photos.storageKey });
+  if (!removed) return false;
+  await photoStorage().remove(removed.key);
+  return true;
+}
+
 export async function findPhoto({ db }: { db: Database }, id: string) {
   const [row] = await db.select().from(photos).where(and(eq(photos.id, id)));
   return row ?? null;

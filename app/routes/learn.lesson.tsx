@@ -23,7 +23,7 @@ import { lessonCodeUrl, registerLessonOnServer } from "~/lib/lesson-code.server"
 import { lessonComponent, loadLessonScript } from "~/lib/lesson-scope";
 import { compiledLesson, findLesson, listLessons } from "~/lib/lessons.server";
 import { closedForAnswers, closedMessage, lessonPolicies } from "~/lib/teaching/policy.server";
-import { photoStorage, readPhotoForm, recordPhoto } from "~/lib/photo-store.server";
+import { photoStorage, readPhotoForm, recordPhoto, removePhoto } from "~/lib/photo-store.server";
 import { implausibleReadings, type Mode } from "~/lib/science";
 
 const idSchema = z.string().min(1).max(80).regex(/^[a-z0-9-]+$/);
@@ -32,6 +32,7 @@ const intentSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("answer"), exerciseId: idSchema }),
   z.object({ intent: z.literal("predict"), predictionId: idSchema, choice: z.string().min(1, "Pick one of the options.").max(80) }),
   z.object({ intent: z.literal("save-readings"), readingsId: idSchema }),
+  z.object({ intent: z.literal("remove-photo"), photoId: idSchema, photo: z.string().uuid("That photo was not found.") }),
   z.object({
     intent: z.literal("written-answer"),
     answerId: idSchema,
@@ -136,7 +137,8 @@ async function lessonAction(request: Request, form: FormData | null, slugParam: 
 
   // A lesson closed at its due date takes nothing new: no readings, predictions, written answers or
   // photos (an answer to an exercise is refused by recordAttempt, in the statements it runs anyway).
-  if (form?.get("intent") !== "answer") {
+  // Removing one's own photo stays possible: a picture sent by mistake should not have to stay.
+  if (form?.get("intent") !== "answer" && form?.get("intent") !== "remove-photo") {
     const policy = (await lessonPolicies({ db }, user.id, [slug])).get(slug);
     if (closedForAnswers(policy)) return partRefused(form, closedMessage(policy!, reader), { status: 409 });
   }
@@ -168,6 +170,10 @@ async function lessonAction(request: Request, form: FormData | null, slugParam: 
     }
     case "save-readings":
       return saveReadingsAction(form, user.id, slug, input.readingsId);
+    case "remove-photo": {
+      if (!(await removePhoto({ db }, user.id, input.photo))) return data({ photoId: input.photoId, error: "That photo was not found." }, { status: 404 });
+      return { photoId: input.photoId, removed: true };
+    }
     case "written-answer": {
       const handIn = input.handIn === "1";
       const text = { claim: input.claim.trim(), evidence: input.evidence.trim(), reasoning: input.reasoning.trim() };

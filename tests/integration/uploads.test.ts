@@ -17,7 +17,7 @@ import * as lessonRoute from "~/routes/learn.lesson";
 import * as photoRoute from "~/routes/photos";
 import * as rosterRoute from "~/routes/teach.classes.$classId.roster";
 import { changedTables, snapshotter, type Snapshot } from "./db-snapshot";
-import { appUrl, get, runRoute, sessionCookieFor } from "./auth-helpers";
+import { appUrl, get, post, runRoute, sessionCookieFor } from "./auth-helpers";
 
 // An upload folder of this file's own (other test files upload at the same time), set before the app reads its settings.
 await vi.hoisted(async () => {
@@ -131,6 +131,27 @@ describe("set-up photos", () => {
     expect(png.storageKey).toMatch(/\.png$/);
     expect(await photoStorage().has(png.storageKey)).toBe(true);
     expect(storedFiles()).toHaveLength(filesBefore.length + 1);
+  });
+
+  it("removes a student's own photo, row and file; another student's photo or a made-up id removes nothing", async () => {
+    const [mine] = await db.select().from(photos).where(eq(photos.photoId, PHOTO_ID));
+    const remove = (cookie: string, photo: string) =>
+      runRoute(lessonRoute.action as never, post(`/learn/${LESSON}`, { intent: "remove-photo", photoId: PHOTO_ID, photo }, { cookie }), { slug: LESSON });
+
+    // Another student (Ben) cannot remove Amira's photo; an id that is no photo finds nothing.
+    const [rowsBefore, filesBefore] = [await snapshot(), storedFiles()];
+    expect((await remove(await sessionCookieFor("secondStudent"), mine.id)).status).toBe(404);
+    expect((await remove(student, "00000000-0000-4000-8000-000000000000")).status).toBe(404);
+    expect((await remove(student, "not-an-id")).status).toBe(400);
+    expect(changedTables(rowsBefore, await snapshot())).toEqual([]);
+    expect(storedFiles()).toEqual(filesBefore);
+
+    const removed = await remove(student, mine.id);
+    expect(removed.status).toBe(200);
+    expect(removed.body).toEqual({ photoId: PHOTO_ID, removed: true });
+    expect(await db.select().from(photos).where(eq(photos.id, mine.id))).toEqual([]);
+    expect(await photoStorage().has(mine.storageKey)).toBe(false);
+    expect(storedFiles()).toHaveLength(filesBefore.length - 1);
   });
 });
 

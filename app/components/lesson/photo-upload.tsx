@@ -30,18 +30,36 @@ export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id
         </fetcher.Form>
       )}
       <div aria-live="polite">
-        {mine?.error && <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert">{mine.error}</p>}
-        {mine?.saved && <p className="mt-2 font-bold text-ok">Photo saved.</p>}
+        {/* The last reply is said only once the box is idle, so an old refusal is gone while the next photo goes up. */}
+        {fetcher.state === "idle" && mine?.error && <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert">{mine.error}</p>}
+        {fetcher.state === "idle" && mine?.saved && <p className="mt-2 font-bold text-ok">Photo saved.</p>}
       </div>
       {photos.length > 0 && (
-        <ul className="mt-3 flex flex-wrap gap-3">
-          {photos.map((p) => (
-            <li key={p.id}>
-              <img src={`/photos/${p.id}`} alt="Your photo of the set-up" className="h-32 rounded border border-rule object-cover" />
+        <ul className="mt-3 flex flex-wrap gap-4">
+          {photos.map((p, i) => (
+            <li key={p.id} className="flex flex-col items-start gap-1">
+              <img src={`/photos/${p.id}`} alt={`Your photo of the set-up${photos.length > 1 ? `, ${i + 1} of ${photos.length}` : ""}`} className="h-32 rounded border border-rule object-cover" />
+              <RemovePhoto boxId={id} photo={p.id} label={photos.length > 1 ? `Remove photo ${i + 1}` : "Remove this photo"} />
             </li>
           ))}
         </ul>
       )}
     </section>
+  );
+}
+
+/** Removes one photo (its file too): a picture sent by mistake, or with a face in it, need not stay. */
+function RemovePhoto({ boxId, photo, label }: { boxId: string; photo: string; label: string }) {
+  const fetcher = useFetcher<{ error?: string }>();
+  return (
+    <fetcher.Form method="post">
+      <input type="hidden" name="intent" value="remove-photo" />
+      <input type="hidden" name="photoId" value={boxId} />
+      <input type="hidden" name="photo" value={photo} />
+      <SendButton className="btn btn-quiet text-[length:var(--text-step--1)]" busy={fetcher.state !== "idle"}>
+        {fetcher.state !== "idle" ? "Removing…" : label}
+      </SendButton>
+      {fetcher.state === "idle" && fetcher.data?.error ? <p className="text-danger" role="alert">{fetcher.data.error}</p> : null}
+    </fetcher.Form>
   );
 }
