@@ -2,6 +2,7 @@
 // account at the school, or add many from a CSV file: the file is checked first and every problem is
 // named by row and column; nothing is saved until the teacher confirms a file without problems, and
 // then all rows are saved in one transaction (or none). First passwords are shown once, to hand out.
+import { useEffect, useState } from "react";
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/teach.classes.$classId.roster";
@@ -167,6 +168,12 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
   const existing = result?.intent === "add-existing" ? result : undefined;
   const csv = result?.intent === "preview-csv" || result?.intent === "import-csv" ? result : undefined;
   const added = result?.intent === "added" ? result.added : undefined;
+  // First passwords gather here while the page is open: adding students one by one, or a failed add
+  // in between, keeps the ones already made in the list to hand out (they are not kept anywhere else).
+  const [handout, setHandout] = useState<Added>([]);
+  useEffect(() => {
+    if (added) setHandout((list) => [...list.filter((a) => !added.some((b) => b.username === a.username)), ...added]);
+  }, [added]);
 
   return (
     <div className="mx-auto max-w-6xl px-5 py-10">
@@ -175,7 +182,7 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
         {students.length} {students.length === 1 ? "student" : "students"} · your school has {seats.free} free {seats.free === 1 ? "seat" : "seats"} for {seats.schoolYear}
       </p>
       {result?.intent === "form" ? <Notice tone="problem">{result.error}</Notice> : null}
-      {added ? <AddedStudents added={added} code={klass.code} /> : null}
+      {handout.length > 0 ? <AddedStudents added={handout} code={klass.code} onDone={() => setHandout([])} /> : null}
 
       {students.length === 0 ? (
         <p className="mb-8">No students yet. Add them one by one or from a CSV file below.</p>
@@ -346,7 +353,7 @@ function RosterCheck({ result, busy }: { result: Extract<ActionResult, { intent:
   );
 }
 
-function AddedStudents({ added, code }: { added: Added; code: string }) {
+function AddedStudents({ added, code, onDone }: { added: Added; code: string; onDone: () => void }) {
   return (
     <section className="card mb-8 border-2 border-ok" aria-labelledby="added">
       <h2 id="added" className="mb-2 text-[length:var(--text-step-1)]">
@@ -354,7 +361,8 @@ function AddedStudents({ added, code }: { added: Added; code: string }) {
       </h2>
       <p className="mb-3">
         Hand each student their sign-in: the class code <strong className="font-mono">{code}</strong>, their username and this first password.{" "}
-        <strong>The passwords are shown only now</strong>; print or copy them before leaving the page. You can set a new one at any time.
+        <strong>The passwords are shown only while this page is open</strong>: students you add next join this list. Print or copy them before leaving
+        the page. You can set a new one at any time.
       </p>
       <div className="overflow-x-auto">
         <table className="w-full border-collapse text-left">
@@ -377,9 +385,14 @@ function AddedStudents({ added, code }: { added: Added; code: string }) {
           </tbody>
         </table>
       </div>
-      <button type="button" className="btn btn-quiet mt-3" onClick={() => window.print()}>
-        Print
-      </button>
+      <p className="mt-3 flex flex-wrap gap-3">
+        <button type="button" className="btn btn-quiet" onClick={() => window.print()}>
+          Print
+        </button>
+        <button type="button" className="btn btn-quiet" onClick={onDone}>
+          I have handed these out: clear the list
+        </button>
+      </p>
     </section>
   );
 }

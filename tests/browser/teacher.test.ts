@@ -92,6 +92,8 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     await page.getByLabel("Their username").fill(STUDENT);
     await page.getByRole("button", { name: "Add to this class" }).click();
     await page.getByText("Grace W. is now in this class.").waitFor();
+    // The first passwords stay in the list to hand out through the next action, until cleared.
+    await expect(page.getByRole("table", { name: "First passwords" }).innerText()).resolves.toMatch(new RegExp(usernames[2]));
 
     // 5. Lesson 2, due in five days at 5 pm in the class's time zone.
     await page.getByRole("link", { name: "Lessons assigned" }).click();
