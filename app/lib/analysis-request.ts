@@ -6,7 +6,8 @@
  * Units as in app/lib/science.ts: force in N, readings and deformations in cm.
  */
 import { z } from "zod";
-import type { AnalysisInput } from "./science";
+import { cellProblem, readCell } from "./readings-text";
+import { implausibleReadings, type AnalysisInput, type Mode, type ReadingPoint } from "./science";
 
 /** Most points one request may carry; more gets 413 (Payload Too Large). */
 export const MAX_POINTS = 1000;
@@ -27,6 +28,17 @@ const pointSchema = z
   .refine((p) => p.readingCm !== undefined || p.deformationCm !== undefined, {
     error: "each point needs readingCm or deformationCm",
   });
+
+/**
+ * Why a series cannot be analysed when every point that did not break has the same force (the
+ * spring scale read 3 N each time), or null: one force gives no line, only that force again.
+ */
+export function oneForceProblem(points: readonly { forceN: number; broke?: boolean }[]): string | null {
+  const unbroken = points.filter((p) => !p.broke && Number.isFinite(p.forceN));
+  if (unbroken.length < 2 || new Set(unbroken.map((p) => p.forceN)).size >= 2) return null;
+  const which = unbroken.length < points.length ? "every reading that did not break" : "every reading";
+  return `${which} has the same force (${Number(unbroken[0].forceN.toPrecision(6))} N): change the load between readings, so that there are at least two different forces.`;
+}
 
 /** zod schema of the `POST /api/analysis` body (mode defaults to "bend", resolutionCm to 0.1). */
 export const analysisRequestSchema = z
@@ -49,6 +61,8 @@ export const analysisRequestSchema = z
         message: "unloadedCm is needed when a point gives readingCm or returnReadingCm",
       });
     }
+    const oneForce = oneForceProblem(body.points);
+    if (oneForce !== null) ctx.addIssue({ code: "custom", path: ["points"], message: oneForce });
   });
 
 /** The body after validation, defaults filled in. */
@@ -94,4 +108,75 @@ export function parseAnalysisRequestText(text: string): AnalysisRequestParse {
     return { ok: false, status: 400, errors: ["the body is not valid JSON"] };
   }
   return parseAnalysisRequest(body);
+}
+
+/** The lesson's readings table as sent: the texts as typed, one entry per row in each column. */
+export interface ReadingsForm {
+  mode: Mode;
+  resolutionCm: number;
+  unloaded: string;
+  forces: string[];
+  readings: string[];
+  returns: string[];
+  broke: boolean[];
+}
+
+export type ReadingsFormCheck =
+  | { ok: true; data: AnalysisRequest & AnalysisInput & { points: ReadingPoint[]; unloadedCm: number } }
+  | { ok: false; errors: string[] };
+
+/**
+ * The lesson's readings table, checked in one round: every problem of every row at once — a cell
+ * that is missing, not a number or in another unit, a reading no lab can give (checked on the rows
+ * that could be read), one force throughout — sorted by row, then the same validation as
+ * POST /api/analysis. Rows left entirely empty are skipped; a comma is a decimal comma.
+ */
+export function checkReadingsForm(form: ReadingsForm): ReadingsFormCheck {
+  const found: { row: number; problem: string }[] = [];
+  const rows = form.forces
+    .map((f, i) => ({ f: f.trim(), r: (form.readings[i] ?? "").trim(), back: (form.returns[i] ?? "").trim(), broke: form.broke[i] === true, row: i + 1 }))
+    .filter((p) => p.f !== "" || p.r !== "" || p.back !== "");
+  const read = (row: number, typed: string, what: string, unit: "N" | "cm", missing: string | null) => {
+    if (typed === "") {
+      if (missing !== null) found.push({ row, problem: `Row ${row}: ${missing}` });
+      return undefined;
+    }
+    const cell = readCell(typed, unit, true);
+    if (cell.ok) return cell.value;
+    found.push({ row, problem: `Row ${row}: ${cellProblem(what, typed, unit, cell)}` });
+    return undefined;
+  };
+  const parsed: { row: number; point: ReadingPoint }[] = [];
+  for (const p of rows) {
+    const force = read(p.row, p.f, "force", "N", "the force is missing.");
+    const reading = read(p.row, p.r, "reading", "cm", "the loaded reading is missing.");
+    const back = read(p.row, p.back, "reading after unloading", "cm", null);
+    if (force === undefined || reading === undefined || (p.back !== "" && back === undefined)) continue;
+    parsed.push({ row: p.row, point: { forceN: force, readingCm: reading, ...(back !== undefined ? { returnReadingCm: back } : {}), ...(p.broke ? { broke: true } : {}) } });
+  }
+  const unloaded = form.unloaded.trim() === "" ? undefined : readCell(form.unloaded, "cm", true);
+  const unloadedCm = unloaded?.ok ? unloaded.value : undefined;
+  const general: string[] = [];
+  if (unloaded === undefined || !unloaded.ok) {
+    general.push(unloaded?.unit !== undefined ? cellProblem("unloaded reading", form.unloaded.trim(), "cm", unloaded).replace(/^t/, "T") : "The unloaded reading must be a number in cm.");
+  }
+  if (rows.length < 2) general.push("Enter at least two rows of readings.");
+  // The rows that could be read are checked now too, so nothing waits for a second round.
+  const body = { mode: form.mode, unloadedCm, resolutionCm: form.resolutionCm, points: parsed.map((p) => p.point) };
+  for (const i of implausibleReadings(body)) {
+    if (i.point === null) general.push(i.problem.replace(/^t/, "T"));
+    else found.push({ row: parsed[i.point].row, problem: `Row ${parsed[i.point].row}: ${i.problem}` });
+  }
+  // Only when every row could be read: a row left out might be the one with another force.
+  const oneForce = parsed.length === rows.length ? oneForceProblem(body.points) : null;
+  if (oneForce !== null) general.push(oneForce.replace(/^e/, "E"));
+  // Array.prototype.sort is stable: problems of one row keep their column order.
+  const errors = [...found.sort((a, b) => a.row - b.row).map((f) => f.problem), ...general];
+  if (errors.length > 0) return { ok: false, errors: [...new Set(errors)] };
+  const checked = parseAnalysisRequest(body);
+  if (!checked.ok) {
+    // "points[2].forceN: …" → "Row 3, forceN: …", the row as the student counts it.
+    return { ok: false, errors: checked.errors.map((e) => e.replace(/points\[(\d+)\]\.?/, (_m, i) => `Row ${parsed[Number(i)]?.row ?? Number(i) + 1}, `)) };
+  }
+  return { ok: true, data: { ...checked.data, points: body.points, unloadedCm: unloadedCm as number } };
 }

@@ -1,6 +1,14 @@
 // Reads a table of readings pasted or typed as text: one loading step per line,
-// "force, reading[, reading after unloading][, broke]". Columns may be separated by tabs, semicolons,
-// commas or spaces; with tabs or semicolons a decimal comma is read as a decimal point.
+// "force, reading[, reading after unloading][, broke]", and single cells as typed in a form.
+//
+// How a line is split (each line on its own):
+// - tabs or semicolons separate the columns, and a comma is a decimal comma: "1; 2,5";
+// - otherwise commas separate the columns ("1, 2.5", "1,2.5"), unless every comma sits between two
+//   digits and spaces separate the columns, when the commas are decimal commas: "1 2,5";
+// - a line whose commas could be read more than one way is refused, not guessed: "1, 2,5" (is it
+//   2.5, or 2 and 5?) and "1,2,5" (three columns, or 1 and 2.5, or 1.2 and 5?). A line with a
+//   decimal point uses points for decimals, so its commas separate columns.
+// A number may carry its column's unit ("3 N", "19.5 cm"); another unit ("19.5 mm") is named.
 import type { ReadingPoint } from "./science";
 
 export interface ReadingsTextResult {
@@ -12,6 +20,78 @@ export interface ReadingsTextResult {
 
 const BROKE_WORDS = new Set(["broke", "broken", "b", "yes", "x", "true"]);
 
+/** Units a student may write after a number, by how they are written in lower case. */
+const UNITS = new Map(Object.entries({ n: "N", newton: "N", newtons: "N", cm: "cm", mm: "mm", m: "m", g: "g", kg: "kg" }));
+
+/** One cell read as a number in its column's unit: the value, or why not (a unit of another column). */
+export type CellReading = { ok: true; value: number } | { ok: false; value?: number; unit?: string };
+
+/**
+ * One number as typed, with the column's unit allowed after it ("19.5 cm", "3N", "19,5 cm" when
+ * decimalComma). Not ok when empty or not a number, or when it carries another unit (then `unit`
+ * names that unit and `value` is the number).
+ */
+export function readCell(text: string, unit: "N" | "cm", decimalComma: boolean): CellReading {
+  let numberText = text.trim();
+  let given: string | undefined;
+  // The letters at the end, found by a scan rather than a regular expression that could backtrack on long text.
+  let start = numberText.length;
+  while (start > 0 && /[a-z]/i.test(numberText[start - 1])) start--;
+  const before = numberText.slice(0, start).trimEnd();
+  const written = UNITS.get(numberText.slice(start).toLowerCase());
+  if (written !== undefined && /[\d.]$/.test(before)) {
+    numberText = before;
+    given = written;
+  }
+  // Number("") is 0: an empty cell is no number.
+  if (numberText === "") return { ok: false };
+  const value = Number(decimalComma ? numberText.replace(/,/g, ".") : numberText);
+  if (!Number.isFinite(value)) return { ok: false };
+  if (given !== undefined && given !== unit) return { ok: false, value, unit: given };
+  return { ok: true, value };
+}
+
+/**
+ * What is wrong with a cell readCell refused, in a student's words: `what` names the column
+ * ("force", "reading", "reading after unloading"). Empty cells are the caller's to name.
+ */
+export function cellProblem(what: string, typed: string, unit: "N" | "cm", reading: CellReading): string {
+  if (reading.ok) return "";
+  if (reading.unit === undefined || reading.value === undefined) return `the ${what} “${typed}” is not a number.`;
+  const column = unit === "N" ? "forces are in N (newtons) here" : "readings are in cm here";
+  const inCm = reading.unit === "mm" ? reading.value / 10 : reading.unit === "m" ? reading.value * 100 : null;
+  const hint =
+    unit === "cm" && inCm !== null
+      ? `: write it in cm (${typed} is ${Number(inCm.toPrecision(6))} cm)`
+      : unit === "N" && (reading.unit === "g" || reading.unit === "kg")
+        ? ": read the spring scale in newtons (a 100 g mass weighs about 0.98 N)"
+        : "";
+  return `the ${what} “${typed}” is in ${reading.unit}, but ${column}${hint}.`;
+}
+
+/** The columns of one line, and whether its commas are decimal commas; null when the commas are ambiguous. */
+function splitColumns(line: string): { cells: string[]; decimalComma: boolean } | null {
+  if (/[\t;]/.test(line)) return { cells: line.split(/\s*[\t;]\s*/), decimalComma: true };
+  if (!line.includes(",")) return { cells: line.split(/\s+/), decimalComma: false };
+  const commas = (line.match(/,/g) ?? []).length;
+  const betweenDigits = (line.match(/(?<=\d),(?=\d)/g) ?? []).length;
+  const byCommas = { cells: line.split(/\s*,\s*|\s+/), decimalComma: false };
+  if (betweenDigits === 0 || line.includes(".")) return byCommas;
+  if (betweenDigits < commas) return null; // "1, 2,5"
+  if (/\s/.test(line)) return { cells: line.split(/\s+/), decimalComma: true }; // "1 2,5"
+  return commas === 1 ? byCommas : null; // "1,2" is two columns (one number is no line); "1,2,5" is not clear
+}
+
+/** "3 N" split by the spaces becomes "3", "N": a unit on its own belongs to the number before it. */
+function joinUnits(cells: string[]): string[] {
+  const joined: string[] = [];
+  for (const cell of cells) {
+    if (joined.length > 0 && UNITS.has(cell.toLowerCase())) joined[joined.length - 1] += ` ${cell}`;
+    else joined.push(cell);
+  }
+  return joined;
+}
+
 export function parseReadingsText(text: string, secondColumn: "reading" | "deformation"): ReadingsTextResult {
   const points: ReadingPoint[] = [];
   const lineOfPoint: number[] = [];
@@ -20,27 +100,40 @@ export function parseReadingsText(text: string, secondColumn: "reading" | "defor
   lines.forEach((raw, index) => {
     const line = raw.trim();
     if (line === "" || line.startsWith("#")) return;
-    const decimalComma = /[\t;]/.test(line);
-    const cells = (decimalComma ? line.split(/\s*[\t;]\s*/) : line.split(/\s*,\s*|\s+/)).filter((c) => c !== "");
-    const number = (cell: string | undefined) => (cell === undefined ? NaN : Number(decimalComma ? cell.replace(",", ".") : cell));
-    // A first line of column names is allowed.
-    if (points.length === 0 && problems.length === 0 && Number.isNaN(number(cells[0])) && /[a-z]/i.test(line)) return;
     const row = index + 1;
-    const force = number(cells[0]);
-    const second = number(cells[1]);
+    const split = splitColumns(line);
+    // A first line of column names is allowed.
+    const header = points.length === 0 && problems.length === 0 && /[a-z]/i.test(line) && !/^[-+.,]?\d/.test(line);
+    if (header) return;
+    if (split === null) {
+      problems.push(
+        `Line ${row}: “${line}” can be read more than one way, because its commas could be decimal commas or could separate the columns. Use a point for decimals (1, 2.5), or put a semicolon between the columns (1; 2,5).`,
+      );
+      return;
+    }
+    const cells = joinUnits(split.cells.filter((c) => c !== ""));
+    const cell = (typed: string | undefined, what: string, unit: "N" | "cm") => {
+      if (typed === undefined) return { value: undefined, problem: `Line ${row}: the ${what} is missing.` };
+      const reading = readCell(typed, unit, split.decimalComma);
+      return reading.ok ? { value: reading.value, problem: null } : { value: undefined, problem: `Line ${row}: ${cellProblem(what, typed, unit, reading)}` };
+    };
+    const force = cell(cells[0], "force", "N");
+    const second = cell(cells[1], secondColumn, "cm");
     let back: number | undefined;
     let broke = false;
+    const extras: string[] = [];
     for (const extra of cells.slice(2)) {
+      const read = readCell(extra, "cm", split.decimalComma);
       if (BROKE_WORDS.has(extra.toLowerCase())) broke = true;
-      else if (Number.isFinite(number(extra)) && back === undefined) back = number(extra);
-      else problems.push(`Line ${row}: “${extra}” is neither a reading nor “broke”.`);
+      else if (read.ok && back === undefined) back = read.value;
+      else if (!read.ok && read.unit !== undefined) extras.push(`Line ${row}: ${cellProblem("reading after unloading", extra, "cm", read)}`);
+      else extras.push(`Line ${row}: “${extra}” is neither a reading nor “broke”.`);
     }
-    if (!Number.isFinite(force)) problems.push(`Line ${row}: the force “${cells[0] ?? ""}” is not a number.`);
-    if (!Number.isFinite(second)) problems.push(`Line ${row}: the ${secondColumn} “${cells[1] ?? ""}” is not a number.`);
-    if (!Number.isFinite(force) || !Number.isFinite(second)) return;
+    for (const problem of [force.problem, second.problem, ...extras]) if (problem) problems.push(problem);
+    if (force.value === undefined || second.value === undefined) return;
     points.push({
-      forceN: force,
-      ...(secondColumn === "reading" ? { readingCm: second } : { deformationCm: second }),
+      forceN: force.value,
+      ...(secondColumn === "reading" ? { readingCm: second.value } : { deformationCm: second.value }),
       ...(back !== undefined ? { returnReadingCm: back } : {}),
       ...(broke ? { broke: true } : {}),
     });

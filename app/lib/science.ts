@@ -81,6 +81,61 @@ export function formatForStudent(value: number, unit = "", sig = 3): string {
   return unit ? `${number} ${unit}` : number;
 }
 
+/**
+ * Floating-point residue set to 0: a computed value within a billionth of the data's own scale
+ * (the largest force, say) of 0 is rounding left over from an exact answer (an intercept of
+ * 2.2 × 10^-16 N for readings on a perfect line), not something any reading can show.
+ */
+function snapToZero(x: number, scale: number): number {
+  return Math.abs(x) <= 1e-9 * scale ? 0 : x;
+}
+
+/** How many decimal places a step such as a ruler's resolution has: 0.1 → 1, 0.25 → 2, 1 → 0 (at most 10). */
+export function decimalsOf(step: number): number {
+  for (let places = 0; places < 10; places++) {
+    if (Math.abs(Number(step.toFixed(places)) - step) <= Math.abs(step) * 1e-9) return places;
+  }
+  return 10;
+}
+
+/**
+ * A reading or deformation written to the ruler's resolution, so the zero a student read stays:
+ * 38 read to 0.1 cm is "38.0" (lesson 1: "18.0 cm, not 18 cm"). A value with more decimals than
+ * the resolution keeps them (19.55 stays "19.55"); no unit.
+ */
+export function formatToResolution(value: number, resolutionCm: number): string {
+  if (!Number.isFinite(value)) return "—";
+  const places = Math.max(decimalsOf(resolutionCm), decimalsOf(Number(value.toPrecision(12))));
+  const text = value.toFixed(Math.min(places, 10));
+  return Number(text) === 0 ? (0).toFixed(Math.min(places, 10)) : text;
+}
+
+/**
+ * A fitted value with its standard error, for a student: "0.034 N (± 0.047)". The error is given
+ * to 2 significant figures and the value to the same decimal place (JCGM 100:2008, the GUM, §7.2.6:
+ * an uncertainty needs at most two significant digits). An error of 0 (readings exactly on the
+ * line) gives the value to 3 significant figures and "± 0" to the same places: "2.50 N/cm (± 0.00)".
+ * Null values are "—".
+ */
+export function formatWithUncertainty(value: number | null, se: number | null, unit: string): string {
+  if (value === null || !Number.isFinite(value)) return "—";
+  const withUnit = (number: string) => (unit ? `${number} ${unit}` : number);
+  if (se === null || !Number.isFinite(se)) return `${formatForStudent(value, unit)} (± —)`;
+  if (se === 0) {
+    const shown = formatForStudent(value);
+    const places = shown.includes("×") ? 0 : (shown.split(".")[1] ?? "").length;
+    return `${withUnit(shown)} (± ${(0).toFixed(places)})`;
+  }
+  const places = 1 - Math.floor(Math.log10(Math.abs(se)));
+  // Beyond 10 decimal places (or a negative error) fixed decimals stop being readable.
+  if (places > 10 || se < 0) return `${formatForStudent(value, unit)} (± ${formatForStudent(se, "", 2)})`;
+  const fixed = (n: number) => {
+    const text = n.toFixed(Math.max(0, places));
+    return Number(text) === 0 ? (0).toFixed(Math.max(0, places)) : text;
+  };
+  return `${withUnit(fixed(value))} (± ${fixed(se)})`;
+}
+
 /** A value the student gave (a force, a reading, a difference of readings) written as given, up to 6 figures: "5 N", "0.3 cm". */
 function formatGiven(value: number, unit: string): string {
   if (!Number.isFinite(value)) return "—";
@@ -207,19 +262,22 @@ export function fitThroughOrigin(points: readonly ForceDeformation[]): FitThroug
   let sxx = 0;
   let sxy = 0;
   let syy = 0;
+  let scale = 0;
   for (const p of points) {
     sxx += p.deformationCm * p.deformationCm;
     sxy += p.deformationCm * p.forceN;
     syy += p.forceN * p.forceN;
+    scale = Math.max(scale, Math.abs(p.forceN));
   }
   const empty: FitThroughOrigin = { n, slope: null, slopeSE: null, residualSD: null, r2: null };
   if (n === 0 || !(sxx > 0) || !Number.isFinite(sxx) || !Number.isFinite(sxy)) return empty;
 
   const slope = sxy / sxx;
-  // Residuals summed directly (two-pass) rather than Σy² − b·Σxy, which loses digits.
+  // Residuals summed directly (two-pass) rather than Σy² − b·Σxy, which loses digits; rounding
+  // residue counts as no miss, so readings on a perfect line give a standard error of exactly 0.
   let rss = 0;
   for (const p of points) {
-    const r = p.forceN - slope * p.deformationCm;
+    const r = snapToZero(p.forceN - slope * p.deformationCm, scale);
     rss += r * r;
   }
   const dof = n - 1;
@@ -253,9 +311,11 @@ export function fitWithIntercept(points: readonly ForceDeformation[]): FitWithIn
 
   let sumX = 0;
   let sumY = 0;
+  let scale = 0;
   for (const p of points) {
     sumX += p.deformationCm;
     sumY += p.forceN;
+    scale = Math.max(scale, Math.abs(p.forceN));
   }
   const meanX = sumX / n;
   const meanY = sumY / n;
@@ -273,10 +333,11 @@ export function fitWithIntercept(points: readonly ForceDeformation[]): FitWithIn
   if (!(sxx > 0) || !Number.isFinite(sxx) || !Number.isFinite(sxy)) return empty;
 
   const slope = sxy / sxx;
-  const intercept = meanY - slope * meanX;
+  // Rounding residue is no intercept: readings on a line through the origin give exactly 0 N.
+  const intercept = snapToZero(meanY - slope * meanX, scale);
   let rss = 0;
   for (const p of points) {
-    const r = p.forceN - intercept - slope * p.deformationCm;
+    const r = snapToZero(p.forceN - intercept - slope * p.deformationCm, scale);
     rss += r * r;
   }
   const dof = n - 2;
@@ -300,7 +361,7 @@ export function fitWithIntercept(points: readonly ForceDeformation[]): FitWithIn
  * - "proportional": a straight line through the origin fits;
  * - "linear-not-proportional": a straight line fits, but it misses the origin;
  * - "not-linear": no straight line fits the points;
- * - "no-increase": force does not grow with deformation (slope zero or negative);
+ * - "no-increase": force does not grow with deformation (slope zero or negative, or one force throughout);
  * - "too-few-points": fewer than 2 points with a deformation other than 0.
  */
 export type ProportionalityKind =
@@ -356,6 +417,14 @@ export function proportionalityVerdict(
     };
   }
 
+  if (new Set(usable.map((p) => p.forceN)).size < 2) {
+    return {
+      proportional: false,
+      kind: "no-increase",
+      reason: "Every reading has the same force, so there is nothing to compare: change the load between readings.",
+      ...none,
+    };
+  }
   const origin = fitThroughOrigin(usable);
   const free = fitWithIntercept(usable);
   if (origin.slope === null || !(origin.slope > 0)) {
@@ -433,25 +502,32 @@ export interface ElasticLimitResult {
   firstPermanentSetAtN: number | null;
   /** cm: that permanent set */
   firstPermanentSetCm: number | null;
+  /**
+   * Whether the readings went past the elastic limit (a permanent set, or a break). When false the
+   * piece sprang back after every load, so elasticLimitN is only the largest load tried: the
+   * limit is at least that much.
+   */
+  limitReached: boolean;
 }
 
 /**
  * Elastic limit in N from return readings, in the order the loads were applied: walk the steps;
  * a step whose permanent set is within one resolution (cm) counts as "came back"; stop at the
  * first step that did not come back, or at a break. Steps without a return reading are skipped.
+ * When neither happens the limit was not reached in the test: limitReached is false.
  */
 export function elasticLimit(steps: readonly ReturnCheck[], resolutionCm: number): ElasticLimitResult {
   let limit: number | null = null;
   for (const s of steps) {
-    if (s.broke) break;
+    if (s.broke) return { elasticLimitN: limit, firstPermanentSetAtN: null, firstPermanentSetCm: null, limitReached: true };
     if (s.permanentSetCm === null || !Number.isFinite(s.permanentSetCm) || !Number.isFinite(s.forceN)) continue;
     if (withinResolution(s.permanentSetCm, resolutionCm)) {
       limit = limit === null ? s.forceN : Math.max(limit, s.forceN);
     } else {
-      return { elasticLimitN: limit, firstPermanentSetAtN: s.forceN, firstPermanentSetCm: s.permanentSetCm };
+      return { elasticLimitN: limit, firstPermanentSetAtN: s.forceN, firstPermanentSetCm: s.permanentSetCm, limitReached: true };
     }
   }
-  return { elasticLimitN: limit, firstPermanentSetAtN: null, firstPermanentSetCm: null };
+  return { elasticLimitN: limit, firstPermanentSetAtN: null, firstPermanentSetCm: null, limitReached: false };
 }
 
 /** Breaking load in N: the force of the first step (in loading order) marked broke; null if none broke. */
@@ -782,6 +858,8 @@ export interface AnalysisResult {
   };
   proportional: boolean;
   elasticLimitN: number | null;
+  /** false when the piece sprang back after every load (and never broke): elasticLimitN is then a lower bound */
+  elasticLimitReached: boolean;
   breakingLoadN: number | null;
   notes: string[];
 }
@@ -865,12 +943,16 @@ export function analyseReadings(input: AnalysisInput): AnalysisResult {
     );
   }
 
-  // One point is not a series: with fewer than two, both fits stay empty (all null).
-  const series = fitPoints.length >= 2 ? fitPoints : [];
+  // One point is not a series: with fewer than two, both fits stay empty (all null). Nor is one
+  // force read several times: a "stiffness" from it would only restate that force.
+  const oneForce = fitPoints.length >= 2 && new Set(fitPoints.map((p) => p.forceN)).size < 2;
+  const series = fitPoints.length >= 2 && !oneForce ? fitPoints : [];
   const origin = fitThroughOrigin(series);
   const free = fitWithIntercept(series);
   if (fitPoints.length < 2) {
     notes.push("Fewer than two unbroken points have a deformation, so no line can be fitted. Add more loads.");
+  } else if (oneForce) {
+    // The verdict's reason below says so ("Every reading has the same force…").
   } else if (origin.slope === null) {
     notes.push("Every deformation is 0, so no stiffness can be found: the piece did not move at the ruler's resolution.");
   } else {
@@ -901,7 +983,9 @@ export function analyseReadings(input: AnalysisInput): AnalysisResult {
     notes.push(
       limit.elasticLimitN === null
         ? "The piece never came back within one ruler step, so the elastic limit is below the smallest load tested."
-        : `Elastic limit: the piece came back within one ruler step after every load up to ${formatGiven(limit.elasticLimitN, "N")}.`,
+        : limit.limitReached
+          ? `Elastic limit: the piece came back within one ruler step after every load up to ${formatGiven(limit.elasticLimitN, "N")}.`
+          : `The piece came back within one ruler step after every load, so the elastic limit was not reached: it is at least ${formatGiven(limit.elasticLimitN, "N")}.`,
     );
   }
 
@@ -920,6 +1004,7 @@ export function analyseReadings(input: AnalysisInput): AnalysisResult {
     },
     proportional: verdict.proportional,
     elasticLimitN: limit.elasticLimitN,
+    elasticLimitReached: limit.limitReached,
     breakingLoadN: breaking,
     notes,
   };

@@ -8,7 +8,7 @@ import { DATABASE_UNAVAILABLE_MESSAGE, db, isDatabaseUnavailable } from "~/db/cl
 import { assertSameOrigin, homePathFor, requireRole, requireUser } from "~/lib/auth.server";
 import { lessonComponents } from "~/components/lesson";
 import { LessonContext } from "~/components/lesson/lesson-context";
-import { parseAnalysisRequest } from "~/lib/analysis-request";
+import { checkReadingsForm } from "~/lib/analysis-request";
 import {
   findExercise,
   loadLessonState,
@@ -24,7 +24,7 @@ import { lessonComponent, loadLessonScript } from "~/lib/lesson-scope";
 import { compiledLesson, findLesson, listLessons } from "~/lib/lessons.server";
 import { closedForAnswers, closedMessage, lessonPolicies } from "~/lib/teaching/policy.server";
 import { photoStorage, readPhotoForm, recordPhoto, removePhoto } from "~/lib/photo-store.server";
-import { implausibleReadings, type Mode } from "~/lib/science";
+import type { Mode } from "~/lib/science";
 
 const idSchema = z.string().min(1).max(80).regex(/^[a-z0-9-]+$/);
 
@@ -200,65 +200,32 @@ async function lessonAction(request: Request, form: FormData | null, slugParam: 
   }
 }
 
-/** Rows left entirely empty are skipped; every other problem is named by row and column. */
+/**
+ * Rows left entirely empty are skipped; every other problem of every row is named by row and column
+ * in one answer (checkReadingsForm), so a student fixes them all in one go.
+ */
 async function saveReadingsAction(form: FormData, studentId: string, slug: string, readingsId: string) {
-  const column = (name: string) => form.getAll(name).map((v) => String(v).trim().replace(",", "."));
-  const forces = column("forceN");
-  const readings = column("readingCm");
-  const returns = column("returnReadingCm");
-  const broke = column("broke");
-  const number = (text: string) => (text === "" ? undefined : Number(text));
-  const points = forces
-    .map((f, i) => ({ f, r: readings[i] ?? "", back: returns[i] ?? "", broke: broke[i] === "1", row: i + 1 }))
-    .filter((p) => p.f !== "" || p.r !== "" || p.back !== "");
-  const errors: string[] = [];
-  for (const p of points) {
-    if (p.f === "") errors.push(`Row ${p.row}: the force is missing.`);
-    else if (!Number.isFinite(Number(p.f))) errors.push(`Row ${p.row}: the force “${p.f}” is not a number.`);
-    if (p.r === "") errors.push(`Row ${p.row}: the loaded reading is missing.`);
-    else if (!Number.isFinite(Number(p.r))) errors.push(`Row ${p.row}: the reading “${p.r}” is not a number.`);
-    if (p.back !== "" && !Number.isFinite(Number(p.back))) errors.push(`Row ${p.row}: the reading after unloading “${p.back}” is not a number.`);
-  }
-  const unloadedText = String(form.get("unloadedCm") ?? "").trim().replace(",", ".");
-  if (unloadedText === "" || !Number.isFinite(Number(unloadedText))) errors.push("The unloaded reading must be a number in cm.");
-  if (points.length < 2) errors.push("Enter at least two rows of readings.");
-  if (errors.length > 0) return data({ readingsId, errors }, { status: 400 });
-
+  const column = (name: string) => form.getAll(name).map((v) => String(v));
   const mode: Mode = form.get("mode") === "stretch" ? "stretch" : "bend";
-  const body = {
+  const checked = checkReadingsForm({
     mode,
-    unloadedCm: Number(unloadedText),
     resolutionCm: Number(form.get("resolutionCm") ?? 0.1) || 0.1,
-    points: points.map((p) => ({
-      forceN: Number(p.f),
-      readingCm: Number(p.r),
-      ...(p.back !== "" ? { returnReadingCm: number(p.back) } : {}),
-      ...(p.broke ? { broke: true } : {}),
-    })),
-  };
-  // Every reading no lab can give, each named by its row, before anything is saved.
-  const implausible = implausibleReadings(body);
-  if (implausible.length > 0) {
-    const named = implausible.map((i) => (i.point === null ? i.problem.replace(/^t/, "T") : `Row ${points[i.point].row}: ${i.problem}`));
-    return data({ readingsId, errors: named }, { status: 400 });
-  }
-  // The same validation as POST /api/analysis, so the saved set always analyses the same way.
-  const checked = parseAnalysisRequest(body);
-  if (!checked.ok) return data({ readingsId, errors: checked.errors.map(rowWords) }, { status: 400 });
+    unloaded: String(form.get("unloadedCm") ?? ""),
+    forces: column("forceN"),
+    readings: column("readingCm"),
+    returns: column("returnReadingCm"),
+    broke: column("broke").map((b) => b === "1"),
+  });
+  if (!checked.ok) return data({ readingsId, errors: checked.errors }, { status: 400 });
   await saveReadings({ db }, studentId, slug, {
     readingsId,
     mode,
     material: String(form.get("material") ?? "").trim().slice(0, 80),
-    unloadedCm: body.unloadedCm,
-    resolutionCm: body.resolutionCm,
-    points: body.points,
+    unloadedCm: checked.data.unloadedCm,
+    resolutionCm: checked.data.resolutionCm,
+    points: checked.data.points,
   });
   return { readingsId, saved: true };
-}
-
-/** "points[2].forceN: …" → "Row 3, forceN: …" for a student. */
-function rowWords(problem: string): string {
-  return problem.replace(/points\[(\d+)\]\.?/, (_m, i) => `Row ${Number(i) + 1}, `);
 }
 
 async function photoAction(request: Request, studentId: string, slug: string) {

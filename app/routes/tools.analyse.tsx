@@ -4,13 +4,13 @@ import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/tools.analyse";
 import { db } from "~/db/client.server";
-import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
+import { AnalysisReport } from "~/components/analysis-report";
 import { assertSameOrigin } from "~/lib/auth.server";
 import { clientAddress } from "~/lib/auth/throttle.server";
-import { parseAnalysisRequest } from "~/lib/analysis-request";
+import { oneForceProblem, parseAnalysisRequest } from "~/lib/analysis-request";
 import { hitRateLimit } from "~/lib/rate-limit.server";
-import { parseReadingsText } from "~/lib/readings-text";
-import { analyseReadings, formatForStudent, implausibleReadings, type AnalysisResult } from "~/lib/science";
+import { cellProblem, parseReadingsText, readCell } from "~/lib/readings-text";
+import { analyseReadings, implausibleReadings } from "~/lib/science";
 import { ANALYSIS_REQUESTS_PER_MINUTE } from "./api.analysis";
 import { SendButton } from "~/components/send-button";
 
@@ -41,9 +41,13 @@ export async function action({ request }: Route.ActionArgs) {
     return data({ values, problems: [`Too many analyses from here: try again in ${limit.retryAfter} seconds.`], analysis: null }, { status: 429 });
   }
   const { points, lines, problems } = parseReadingsText(values.readings, values.secondColumn);
-  const unloaded = values.unloadedCm.trim() === "" ? undefined : Number(values.unloadedCm.replace(",", "."));
+  // A line that could not be read may be the one with another force: "one force throughout" would mislead then.
+  const oneForceNotClaimed = problems.length > 0 ? `points: ${oneForceProblem(points)}` : null;
+  const unloadedText = values.unloadedCm.trim();
+  const unloadedCell = unloadedText === "" ? undefined : readCell(unloadedText, "cm", true);
+  const unloaded = unloadedCell === undefined ? undefined : unloadedCell.ok ? unloadedCell.value : Number.NaN;
   if (values.secondColumn === "reading" && unloaded === undefined) problems.push("Give the unloaded reading: deformations are worked out from it.");
-  if (unloaded !== undefined && !Number.isFinite(unloaded)) problems.push(`The unloaded reading “${values.unloadedCm}” is not a number.`);
+  if (unloadedCell !== undefined && !unloadedCell.ok) problems.push(cellProblem("unloaded reading", unloadedText, "cm", unloadedCell).replace(/^t/, "T"));
   const checked = parseAnalysisRequest({
     mode: values.mode,
     unloadedCm: unloaded,
@@ -57,7 +61,12 @@ export async function action({ request }: Route.ActionArgs) {
   }
   if (problems.length > 0 || !checked.ok) {
     const unloadedNamed = problems.some((p) => p.includes("unloaded reading"));
-    const fromChecks = checked.ok ? [] : checked.errors.map((e) => inFormWords(e, lines)).filter((p) => !(unloadedNamed && p.includes("unloaded reading")));
+    const fromChecks = checked.ok
+      ? []
+      : checked.errors
+          .filter((e) => e !== oneForceNotClaimed)
+          .map((e) => inFormWords(e, lines))
+          .filter((p) => !(unloadedNamed && p.includes("unloaded reading")));
     const all = [...new Set([...problems, ...fromChecks])];
     return data({ values, problems: all, analysis: null }, { status: 400 });
   }
@@ -81,9 +90,11 @@ function inFormWords(error: string, lines: number[]): string {
       : "The unloaded reading is not a number.";
   }
   if (error.startsWith("resolutionCm:")) return "“Ruler read to” needs a number above 0 in centimetres, such as 0.1.";
-  if (error.includes("at least")) return "Give at least two loading steps, one per line: the force, then the reading.";
-  if (error.includes("at most")) return "Paste at most 1000 loading steps.";
-  return error.replace(/^[\w.[\]]+: /, "");
+  if (error.startsWith("points: give at least")) return "Give at least two loading steps, one per line: the force, then the reading.";
+  if (error.startsWith("points: give at most")) return "Paste at most 1000 loading steps.";
+  // Problems already in plain words (one force throughout): without the field's name, as a sentence.
+  const words = error.replace(/^[\w.[\]]+: /, "");
+  return words.charAt(0).toUpperCase() + words.slice(1);
 }
 
 export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
@@ -146,96 +157,8 @@ export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
           </ul>
         </div>
       )}
-      {analysis && <AnalysisReport analysis={analysis} />}
+      {analysis && <AnalysisReport analysis={analysis} resolutionCm={Number(values.resolutionCm.replace(",", ".")) || 0.1} />}
     </div>
-  );
-}
-
-function AnalysisReport({ analysis }: { analysis: AnalysisResult }) {
-  const origin = analysis.fit.throughOrigin;
-  const free = analysis.fit.withIntercept;
-  const show = (v: number | null, unit = "", sig = 4) => (v === null ? "—" : formatForStudent(v, unit, sig));
-  // Readings are shown as measured (no padding zeros); worked-out values to 3 significant figures.
-  const plain = (v: number | null) => (v === null ? "—" : String(Number(v.toPrecision(6))));
-  // A fitted value is written to the decimal place of its uncertainty (given to 2 figures), so the
-  // intercept reads 0.034 N (± 0.047), not 0.03448 N.
-  const withUncertainty = (v: number | null, se: number | null, unit: string) => {
-    if (v === null || se === null || !Number.isFinite(se) || se <= 0 || se < Math.abs(v) * 1e-6) return `${show(v, unit)} (± ${show(se, "", 2)})`;
-    const places = Math.min(10, Math.max(0, 1 - Math.floor(Math.log10(se))));
-    const fixed = (n: number) => (Number(n.toFixed(places)) === 0 ? (0).toFixed(places) : n.toFixed(places));
-    return `${fixed(v)} ${unit} (± ${fixed(se)})`;
-  };
-  const hasReturns = analysis.points.some((p) => p.permanentSetCm !== null);
-  return (
-    <section aria-labelledby="results" className="font-ui" data-testid="analysis-report">
-      <div className="mb-4 flex flex-wrap items-center justify-between gap-3">
-        <h2 id="results" className="text-[length:var(--text-step-2)]">What the readings say</h2>
-        <PrintButton />
-      </div>
-      <div className="grid gap-6 md:grid-cols-2">
-        <div className="min-w-0">
-          <div className="mb-4 overflow-x-auto">
-            <table className="w-full border-collapse">
-              <caption className="mb-1 text-left font-bold">Each reading</caption>
-              <thead>
-                <tr>
-                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Force (N)</th>
-                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Deformation (cm)</th>
-                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Stiffness (N/cm)</th>
-                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Permanent set (cm)</th>
-                </tr>
-              </thead>
-              <tbody>
-                {analysis.points.map((p, i) => (
-                  <tr key={i}>
-                    <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.forceN)}</td>
-                    <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.deformationCm)}</td>
-                    <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.stiffnessNPerCm, "", 3)}</td>
-                    <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.permanentSetCm)}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
-          <dl className="grid gap-x-4 sm:grid-cols-[auto_1fr] sm:gap-y-1 [&>dd]:mb-2 sm:[&>dd]:mb-0">
-            <dt className="font-bold">Stiffness, line through the origin</dt>
-            <dd data-testid="slope-through-origin">{withUncertainty(origin.slope, origin.slopeSE, "N/cm")}</dd>
-            <dt className="font-bold">R² (through the origin)</dt>
-            <dd>{show(origin.r2, "", 5)}</dd>
-            <dt className="font-bold">Line with an intercept</dt>
-            <dd>slope {show(free.slope, "N/cm")}, intercept {withUncertainty(free.intercept, free.interceptSE, "N")}</dd>
-            <dt className="font-bold">R² (with intercept)</dt>
-            <dd>{show(free.r2, "", 5)}</dd>
-            <dt className="font-bold">Proportional?</dt>
-            <dd data-testid="proportional">{analysis.proportional ? "Yes" : "No"}</dd>
-            <dt className="font-bold">Elastic limit</dt>
-            <dd>{analysis.elasticLimitN !== null
-                ? show(analysis.elasticLimitN, "N")
-                : hasReturns
-                  ? "not found in these readings"
-                  : "needs readings taken after each unload"}</dd>
-            <dt className="font-bold">Breaking load</dt>
-            <dd>{analysis.breakingLoadN === null ? "did not break" : show(analysis.breakingLoadN, "N")}</dd>
-          </dl>
-          {analysis.notes.length > 0 && (
-            <ul className="mt-4 list-disc pl-5">
-              {analysis.notes.map((n) => (
-                <li key={n}>{n}</li>
-              ))}
-            </ul>
-          )}
-        </div>
-        <ForceChartFromAnalysis analysis={analysis} title="Force against deformation" />
-      </div>
-    </section>
-  );
-}
-
-function PrintButton() {
-  return (
-    <button type="button" className="btn btn-quiet print:hidden" onClick={() => window.print()}>
-      Print this analysis
-    </button>
   );
 }
 

@@ -82,7 +82,14 @@ describe("bad input", () => {
     ["a point with neither reading nor deformation", { points: [{ forceN: 1 }, { forceN: 2, deformationCm: 2 }] }, 400],
     ["a reading without the unloaded reading", { points: [{ forceN: 1, readingCm: 3 }, { forceN: 2, readingCm: 2 }] }, 400],
     ["too many points", { points: Array.from({ length: 1001 }, (_, i) => ({ forceN: i, deformationCm: i })) }, 413],
+    ["one force throughout", { unloadedCm: 25, points: [24.0, 23.9, 24.1].map((r) => ({ forceN: 3, readingCm: r })) }, 400],
   ];
+  it("one force throughout is named: the force has to change between readings", async () => {
+    const response = await post({ unloadedCm: 25, points: [24.0, 23.9, 24.1].map((r) => ({ forceN: 3, readingCm: r })) });
+    expect((await response.json()).errors).toEqual([
+      "points: every reading has the same force (3 N): change the load between readings, so that there are at least two different forces.",
+    ]);
+  });
   for (const [name, body, status] of cases) {
     it(`${name} → ${status} with a list of what is wrong`, async () => {
       const response = await post(body, { raw: typeof body === "string" });

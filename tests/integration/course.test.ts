@@ -171,6 +171,47 @@ describe("own readings sent from the lesson page", () => {
     const saved = await db.select().from(readingSets).where(and(eq(readingSets.studentId, amira), eq(readingSets.lessonSlug, "07-home-lab")));
     expect(saved.filter((r) => r.readingsId === "ruler-readings")).toEqual([]);
   });
+
+  const send = async (unloaded: string, rows: string[][]) => {
+    const cookie = await sessionCookieFor("student");
+    const fields = new URLSearchParams([
+      ["intent", "save-readings"],
+      ["readingsId", "ruler-readings"],
+      ["mode", "bend"],
+      ["resolutionCm", "0.1"],
+      ["material", "plastic ruler"],
+      ["unloadedCm", unloaded],
+      ...rows.flatMap(([f, r]) => [["forceN", f], ["readingCm", r], ["returnReadingCm", ""], ["broke", "0"]]),
+    ]);
+    const request = new Request(`${appUrl}/learn/07-home-lab`, {
+      method: "POST",
+      headers: { "content-type": "application/x-www-form-urlencoded", origin: appUrl, "sec-fetch-site": "same-origin", cookie },
+      body: fields,
+    });
+    return runRoute(lessonRoute.action as never, request, { slug: "07-home-lab" });
+  };
+
+  it("names the unreadable cells and the readings no lab can give in one answer", async () => {
+    // Invented: a unit of another column, a word, a negative force and a reading above the unloaded one.
+    const answer = await send("24.0", [["1", "23.7 mm"], ["2", "abc"], ["-2", "23.2"], ["4", "30"]]);
+    expect(answer.status).toBe(400);
+    expect((answer.body as { errors: string[] }).errors).toEqual([
+      "Row 1: the reading “23.7 mm” is in mm, but readings are in cm here: write it in cm (23.7 mm is 2.37 cm).",
+      "Row 2: the reading “abc” is not a number.",
+      "Row 3: the force cannot be below 0 N.",
+      "Row 4: the loaded reading 30 cm is above the unloaded reading 24 cm, but a bending piece moves down under a load. Check both readings.",
+    ]);
+  });
+
+  it("saves readings typed with their units, the units taken off", async () => {
+    const answer = await send("24,0 cm", [["1 N", "23.7 cm"], ["2 N", "23,3 cm"]]);
+    expect(answer.body).toEqual({ readingsId: "ruler-readings", saved: true });
+    const [saved] = await db
+      .select()
+      .from(readingSets)
+      .where(and(eq(readingSets.studentId, amira), eq(readingSets.lessonSlug, "07-home-lab"), eq(readingSets.readingsId, "ruler-readings")));
+    expect(saved).toMatchObject({ unloadedCm: 24, points: [{ forceN: 1, readingCm: 23.7 }, { forceN: 2, readingCm: 23.3 }] });
+  });
 });
 
 describe("progress", () => {

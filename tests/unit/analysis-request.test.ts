@@ -4,7 +4,14 @@
  */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { MAX_POINTS, analysisRequestSchema, parseAnalysisRequest, parseAnalysisRequestText } from "../../app/lib/analysis-request";
+import {
+  MAX_POINTS,
+  analysisRequestSchema,
+  checkReadingsForm,
+  parseAnalysisRequest,
+  parseAnalysisRequestText,
+  type ReadingsForm,
+} from "../../app/lib/analysis-request";
 import { analyseReadings } from "../../app/lib/science";
 
 const twoPoints = [
@@ -104,5 +111,94 @@ describe("analysisRequestSchema / parseAnalysisRequest", () => {
       }),
       { numRuns: 500, seed: 414 },
     );
+  });
+});
+
+describe("one force throughout is refused (invented readings: 3 N on every line)", () => {
+  const threeN = { unloadedCm: 25.0, points: [24.0, 23.9, 24.1].map((r) => ({ forceN: 3, readingCm: r })) };
+
+  it("400, naming the force and asking for at least two different forces", () => {
+    const r = parseAnalysisRequest(threeN);
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.status).toBe(400);
+      expect(r.errors).toContain(
+        "points: every reading has the same force (3 N): change the load between readings, so that there are at least two different forces.",
+      );
+    }
+  });
+
+  it("counts only the points that did not break; a single unbroken point is left to the analysis", () => {
+    const broke = parseAnalysisRequest({ points: [{ forceN: 3, deformationCm: 1 }, { forceN: 3, deformationCm: 1.1 }, { forceN: 5, deformationCm: 4, broke: true }] });
+    expect(broke.ok).toBe(false);
+    if (!broke.ok) expect(broke.errors.join(" ")).toMatch(/every reading that did not break has the same force \(3 N\)/);
+    expect(parseAnalysisRequest({ points: [{ forceN: 1, deformationCm: 0.5 }, { forceN: 2, deformationCm: 3, broke: true }] }).ok).toBe(true);
+    expect(parseAnalysisRequest({ points: [{ forceN: 0, deformationCm: 0 }, { forceN: 3, deformationCm: 1 }, { forceN: 3, deformationCm: 1.1 }] }).ok).toBe(true);
+  });
+});
+
+describe("checkReadingsForm (the lesson's readings table)", () => {
+  const form = (rows: [string, string, string?][], unloaded = "20.0"): ReadingsForm => ({
+    mode: "bend",
+    resolutionCm: 0.1,
+    unloaded,
+    forces: rows.map((r) => r[0]),
+    readings: rows.map((r) => r[1]),
+    returns: rows.map((r) => r[2] ?? ""),
+    broke: rows.map(() => false),
+  });
+
+  it("accepts the column's own unit and a decimal comma", () => {
+    const r = checkReadingsForm(form([["1 N", "19.5 cm"], ["2N", "19,0cm", "20,0 cm"], ["", ""]], "20.0 cm"));
+    expect(r.ok).toBe(true);
+    if (r.ok) {
+      expect(r.data.unloadedCm).toBe(20);
+      expect(r.data.points).toEqual([{ forceN: 1, readingCm: 19.5 }, { forceN: 2, readingCm: 19, returnReadingCm: 20 }]);
+    }
+  });
+
+  it("names a wrong unit and the column's unit", () => {
+    const r = checkReadingsForm(form([["3 kg", "19.5"], ["2", "19.5 mm"], ["3", "19", "0.2 m"]], "200 mm"));
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.errors).toEqual([
+        "Row 1: the force “3 kg” is in kg, but forces are in N (newtons) here: read the spring scale in newtons (a 100 g mass weighs about 0.98 N).",
+        "Row 2: the reading “19.5 mm” is in mm, but readings are in cm here: write it in cm (19.5 mm is 1.95 cm).",
+        "Row 3: the reading after unloading “0.2 m” is in m, but readings are in cm here: write it in cm (0.2 m is 20 cm).",
+        "The unloaded reading “200 mm” is in mm, but readings are in cm here: write it in cm (200 mm is 20 cm).",
+      ]);
+    }
+  });
+
+  it("reports every problem of every row in one round: unreadable cells and readings no lab can give together, by row", () => {
+    const r = checkReadingsForm(form([["1", "19.6"], ["-2", "19.2"], ["abc", "19.0"], ["4", ""], ["500", "18.4"], ["6", "25"]], "20.0"));
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.errors).toEqual([
+        "Row 2: the force cannot be below 0 N.",
+        "Row 3: the force “abc” is not a number.",
+        "Row 4: the loaded reading is missing.",
+        "Row 5: 500 N is more than a classroom spring scale reads (most go up to 10–50 N). Check the reading.",
+        "Row 6: the loaded reading 25 cm is above the unloaded reading 20 cm, but a bending piece moves down under a load. Check both readings.",
+      ]);
+    }
+  });
+
+  it("one force throughout is refused in the same words as POST /api/analysis", () => {
+    const r = checkReadingsForm(form([["3", "24.0"], ["3", "23.9"], ["3", "24.1"]], "25.0"));
+    expect(r).toEqual({
+      ok: false,
+      errors: ["Every reading has the same force (3 N): change the load between readings, so that there are at least two different forces."],
+    });
+    // A row that could not be read may be the one with another force: not claimed then.
+    expect(checkReadingsForm(form([["3", "24.0"], ["4 kg", "23.9"], ["3", "24.1"]], "25.0"))).toEqual({
+      ok: false,
+      errors: ["Row 2: the force “4 kg” is in kg, but forces are in N (newtons) here: read the spring scale in newtons (a 100 g mass weighs about 0.98 N)."],
+    });
+  });
+
+  it("an empty table and a missing unloaded reading", () => {
+    const r = checkReadingsForm(form([["", ""]], ""));
+    expect(r).toEqual({ ok: false, errors: ["The unloaded reading must be a number in cm.", "Enter at least two rows of readings."] });
   });
 });

@@ -111,6 +111,10 @@ function bodies(num: fc.Arbitrary<number>) {
     unloadedCm: num,
     resolutionCm: fc.double({ min: 1e-6, max: 10, noNaN: true }),
     points: fc.array(point, { minLength: 2, maxLength: 40 }),
+  }).filter((body) => {
+    // The schema refuses one force throughout (every unbroken point at the same force).
+    const unbroken = body.points.filter((p) => !p.broke);
+    return unbroken.length < 2 || new Set(unbroken.map((p) => p.forceN)).size >= 2;
   });
 }
 

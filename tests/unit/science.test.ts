@@ -17,6 +17,8 @@ import {
   fitThroughOrigin,
   fitWithIntercept,
   formatForStudent,
+  formatToResolution,
+  formatWithUncertainty,
   gluedStackStiffness,
   midspanDeflectionM,
   parallelStiffness,
@@ -300,7 +302,7 @@ describe("elastic limit and breaking load", () => {
   ];
 
   it("elastic limit = largest force that came back within one step, before the first permanent set", () => {
-    expect(elasticLimit(steps, 0.1)).toEqual({ elasticLimitN: 3, firstPermanentSetAtN: 4, firstPermanentSetCm: 0.3 });
+    expect(elasticLimit(steps, 0.1)).toEqual({ elasticLimitN: 3, firstPermanentSetAtN: 4, firstPermanentSetCm: 0.3, limitReached: true });
   });
 
   it("no permanent set at all: the largest force tested; no return readings: null", () => {
@@ -313,6 +315,7 @@ describe("elastic limit and breaking load", () => {
       elasticLimitN: null,
       firstPermanentSetAtN: 1,
       firstPermanentSetCm: 0.5,
+      limitReached: true,
     });
   });
 
@@ -640,5 +643,140 @@ describe("readings no lab can give (invented readings)", () => {
     expect(implausibleReadings({ mode: "bend", unloadedCm: 5000, resolutionCm: 0.1, points: [{ forceN: 2, readingCm: 20 }] })).toEqual([
       { point: null, problem: expect.stringMatching(/^the unloaded reading 5000 cm is more than any ruler/) },
     ]);
+  });
+});
+
+describe("rounding residue and precision shown to students", () => {
+  // Invented readings exactly on F = 2.5 N/cm × deformation (hand-worked: 0.4 cm per newton).
+  const perfect = {
+    mode: "bend" as const,
+    unloadedCm: 25.0,
+    resolutionCm: 0.1,
+    points: [
+      { forceN: 0, readingCm: 25.0 },
+      { forceN: 1, readingCm: 24.6 },
+      { forceN: 2, readingCm: 24.2 },
+      { forceN: 3, readingCm: 23.8 },
+    ],
+  };
+
+  it("readings on a perfect line: intercept and every standard error exactly 0, R² exactly 1", () => {
+    const result = analyseReadings(perfect);
+    expect(result.fit.throughOrigin.slope).toBeCloseTo(2.5, 12);
+    expect(result.fit.throughOrigin.slopeSE).toBe(0);
+    expect(result.fit.throughOrigin.r2).toBe(1);
+    expect(result.fit.withIntercept.intercept).toBe(0);
+    expect(result.fit.withIntercept.interceptSE).toBe(0);
+    expect(result.fit.withIntercept.slopeSE).toBe(0);
+    expect(result.notes.join(" ")).toMatch(/meets zero deformation at 0\.00 N\./);
+    expect(result.notes.join(" ")).not.toMatch(/10\^-1/);
+  });
+
+  it("weights of 100 g masses on a perfect line (the lesson table): intercept 0, not 4.44 × 10^-16", () => {
+    // Invented: 0.98 N per 100 g (g = 9.81 N/kg, rounded as a student would), 0.2 cm each.
+    const result = analyseReadings({
+      mode: "bend",
+      unloadedCm: 20.0,
+      resolutionCm: 0.1,
+      points: [0.98, 1.96, 2.94, 3.92].map((f, i) => ({ forceN: f, readingCm: [19.8, 19.6, 19.4, 19.2][i] })),
+    });
+    expect(result.fit.withIntercept.intercept).toBe(0);
+    expect(formatForStudent(result.fit.withIntercept.intercept!)).toBe("0.00");
+  });
+
+  it("real scatter is kept: an intercept of a few hundredths of a newton is not snapped", () => {
+    // hand-worked three-point example above: intercept 1/3
+    const f = fitWithIntercept([
+      { deformationCm: 1, forceN: 2 },
+      { deformationCm: 2, forceN: 3 },
+      { deformationCm: 3, forceN: 5 },
+    ]);
+    expect(f.intercept).toBeCloseTo(1 / 3, 12);
+    expect(f.interceptSE).toBeGreaterThan(0);
+  });
+
+  it("formatWithUncertainty: the error to 2 significant figures, the value to its decimal place; an error of 0 stays short", () => {
+    // JCGM 100:2008 (GUM) §7.2.6: an uncertainty is quoted to at most two significant digits.
+    expect(formatWithUncertainty(0.03448, 0.04712, "N")).toBe("0.034 N (± 0.047)");
+    expect(formatWithUncertainty(2.4987, 0.0213, "N/cm")).toBe("2.499 N/cm (± 0.021)");
+    expect(formatWithUncertainty(2.5, 0, "N/cm")).toBe("2.50 N/cm (± 0.00)");
+    expect(formatWithUncertainty(0, 0, "N")).toBe("0.00 N (± 0.00)");
+    expect(formatWithUncertainty(-0.0004, 0.013, "N")).toBe("0.000 N (± 0.013)");
+    expect(formatWithUncertainty(2.5, null, "N/cm")).toBe("2.50 N/cm (± —)");
+    expect(formatWithUncertainty(null, null, "N")).toBe("—");
+  });
+
+  it("formatToResolution: readings keep the ruler's decimals (lesson 1: 18.0 cm, not 18 cm)", () => {
+    // Common practice, no source: a reading is written to the smallest step it was read to.
+    expect(formatToResolution(38, 0.1)).toBe("38.0");
+    expect(formatToResolution(2, 0.1)).toBe("2.0");
+    expect(formatToResolution(0, 0.1)).toBe("0.0");
+    expect(formatToResolution(-0, 0.1)).toBe("0.0");
+    expect(formatToResolution(19.55, 0.1)).toBe("19.55");
+    expect(formatToResolution(20, 1)).toBe("20");
+    expect(formatToResolution(19.5, 0.25)).toBe("19.50");
+    expect(formatToResolution(0.30000000000000004, 0.1)).toBe("0.3");
+  });
+});
+
+describe("elastic limit not reached (invented readings)", () => {
+  it("came back after every load: the largest load, flagged as not reached", () => {
+    const r = elasticLimit([{ forceN: 1, permanentSetCm: 0 }, { forceN: 2, permanentSetCm: 0.1 }, { forceN: 3, permanentSetCm: 0 }], 0.1);
+    expect(r).toEqual({ elasticLimitN: 3, firstPermanentSetAtN: null, firstPermanentSetCm: null, limitReached: false });
+  });
+
+  it("a break counts as going past the limit", () => {
+    expect(elasticLimit([{ forceN: 1, permanentSetCm: 0 }, { forceN: 2, permanentSetCm: null, broke: true }], 0.1).limitReached).toBe(true);
+  });
+
+  it("analyseReadings says the limit was not reached and is at least the largest load", () => {
+    const result = analyseReadings({
+      mode: "bend",
+      unloadedCm: 20.0,
+      resolutionCm: 0.1,
+      points: [0.98, 1.96, 2.94, 3.92].map((f, i) => ({ forceN: f, readingCm: [19.8, 19.6, 19.4, 19.2][i], returnReadingCm: [20.0, 20.0, 19.9, 20.0][i] })),
+    });
+    expect(result.elasticLimitN).toBe(3.92);
+    expect(result.elasticLimitReached).toBe(false);
+    expect(result.notes.join(" ")).toMatch(/elastic limit was not reached: it is at least 3\.92 N/);
+  });
+
+  it("with a permanent set the limit was reached", () => {
+    const result = analyseReadings({
+      mode: "bend",
+      unloadedCm: 20.0,
+      resolutionCm: 0.1,
+      points: [
+        { forceN: 1, readingCm: 19.6, returnReadingCm: 20 },
+        { forceN: 2, readingCm: 19.2, returnReadingCm: 19.7 },
+      ],
+    });
+    expect(result.elasticLimitN).toBe(1);
+    expect(result.elasticLimitReached).toBe(true);
+  });
+});
+
+describe("one force throughout (invented readings: the spring scale read 3 N each time)", () => {
+  const sameForce = {
+    mode: "bend" as const,
+    unloadedCm: 25.0,
+    resolutionCm: 0.1,
+    points: [24.0, 23.9, 24.1].map((r) => ({ forceN: 3, readingCm: r })),
+  };
+
+  it("analyseReadings fits no line and says why, instead of a stiffness and 'the graph curves'", () => {
+    const result = analyseReadings(sameForce);
+    expect(result.fit.throughOrigin.slope).toBeNull();
+    expect(result.fit.withIntercept.slope).toBeNull();
+    expect(result.proportional).toBe(false);
+    const notes = result.notes.join(" ");
+    expect(notes).toMatch(/Every reading has the same force/);
+    expect(notes).not.toMatch(/Stiffness from the line|graph curves/);
+  });
+
+  it("proportionalityVerdict: no increase, in words", () => {
+    const v = proportionalityVerdict([1, 1.1, 0.9].map((d) => ({ forceN: 3, deformationCm: d })), 0.1);
+    expect(v.kind).toBe("no-increase");
+    expect(v.reason).toMatch(/same force/);
   });
 });

@@ -3,7 +3,7 @@
 import { useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import type { SavedReadings } from "~/lib/course.server";
-import { analyseReadings, formatForStudent, type Mode } from "~/lib/science";
+import { analyseReadings, formatForStudent, formatToResolution, type Mode } from "~/lib/science";
 import { ForceChartFromAnalysis } from "./force-chart";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
@@ -17,12 +17,17 @@ interface Row {
 
 const emptyRow = (): Row => ({ forceN: "", readingCm: "", returnReadingCm: "", broke: false });
 const text = (n: number | undefined) => (n === undefined || n === null ? "" : String(n));
+/** A saved reading as the student read it: to the ruler's resolution, so 38.0 stays 38.0 (not 38). */
+export const readingText = (n: number | null | undefined, resolutionCm: number) =>
+  n === undefined || n === null ? "" : formatToResolution(n, resolutionCm);
 
-function rowsFrom(saved: SavedReadings | undefined): Row[] {
+/** The table's rows from the saved readings (forces as given, readings to the resolution), at least 6. */
+export function rowsFrom(saved: SavedReadings | undefined): Row[] {
+  const resolution = saved?.resolutionCm ?? 0.1;
   const rows = (saved?.points ?? []).map((p) => ({
     forceN: text(p.forceN),
-    readingCm: text(p.readingCm),
-    returnReadingCm: text(p.returnReadingCm),
+    readingCm: readingText(p.readingCm, resolution),
+    returnReadingCm: readingText(p.returnReadingCm, resolution),
     broke: Boolean(p.broke),
   }));
   while (rows.length < 6) rows.push(emptyRow());
@@ -50,8 +55,10 @@ export function ReadingsEntry({
   const saved = state.readings[id];
   const fetcher = useFetcher<{ readingsId?: string; errors?: string[]; saved?: boolean }>();
   const [rows, setRows] = useState<Row[]>(() => rowsFrom(saved));
-  const [unloaded, setUnloaded] = useState(text(saved?.unloadedCm ?? undefined));
+  const [unloaded, setUnloaded] = useState(readingText(saved?.unloadedCm, saved?.resolutionCm ?? resolutionCm));
   const [material, setMaterial] = useState(saved?.material ?? "");
+  // Typed since the last save: the analysis below is then about the saved readings, not the table.
+  const [edited, setEdited] = useState(false);
   // "Add a row" takes the keyboard to the new row's force, instead of leaving it on a button the new
   // row has pushed down.
   const table = useRef<HTMLTableSectionElement>(null);
@@ -60,7 +67,14 @@ export function ReadingsEntry({
     if (addedRow !== null) table.current?.querySelectorAll<HTMLInputElement>('input[name="forceN"]')[addedRow]?.focus();
   }, [addedRow]);
   const errors = fetcher.data?.readingsId === id ? fetcher.data.errors : undefined;
-  const update = (i: number, patch: Partial<Row>) => setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
+  const savedNow = fetcher.data?.readingsId === id && fetcher.data.saved === true;
+  useEffect(() => {
+    if (savedNow) setEdited(false);
+  }, [savedNow, fetcher.data]);
+  const update = (i: number, patch: Partial<Row>) => {
+    setEdited(true);
+    setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
+  };
   const analysis = saved
     ? analyseReadings({ mode: saved.mode, unloadedCm: saved.unloadedCm ?? undefined, resolutionCm: saved.resolutionCm, points: saved.points })
     : null;
@@ -82,11 +96,17 @@ export function ReadingsEntry({
         <div className="mb-3 grid gap-3 sm:grid-cols-2">
           <label className="block">
             <span className="mb-1 block font-bold">What you tested</span>
-            <input name="material" className="field" maxLength={80} value={material} onChange={(e) => setMaterial(e.target.value)} disabled={!canAnswer} placeholder={`e.g. ${example}`} />
+            <input name="material" className="field" maxLength={80} value={material} onChange={(e) => {
+                setEdited(true);
+                setMaterial(e.target.value);
+              }} disabled={!canAnswer} placeholder={`e.g. ${example}`} />
           </label>
           <label className="block">
             <span className="mb-1 block font-bold">{mode === "bend" ? "Unloaded reading (cm)" : "Unloaded length (cm)"}</span>
-            <input name="unloadedCm" className="field" inputMode="decimal" value={unloaded} onChange={(e) => setUnloaded(e.target.value)} disabled={!canAnswer} required />
+            <input name="unloadedCm" className="field" inputMode="decimal" value={unloaded} onChange={(e) => {
+                setEdited(true);
+                setUnloaded(e.target.value);
+              }} disabled={!canAnswer} required />
           </label>
         </div>
         <div className="overflow-x-auto">
@@ -149,17 +169,26 @@ export function ReadingsEntry({
         )}
         {fetcher.data?.saved && fetcher.data.readingsId === id && <p className="mt-3 text-ok font-bold">Saved.</p>}
       </div>
-      {analysis && <ReadingsAnalysis analysis={analysis} title={title} />}
+      {analysis && <ReadingsAnalysis analysis={analysis} title={title} stale={edited || (errors !== undefined && errors.length > 0)} />}
     </section>
   );
 }
 
-function ReadingsAnalysis({ analysis, title }: { analysis: ReturnType<typeof analyseReadings>; title: string }) {
+/**
+ * The analysis of the saved readings. `stale`: the table has unsaved changes or a save just failed,
+ * so the heading says these numbers come from the last saved readings, not the ones on screen.
+ */
+export function ReadingsAnalysis({ analysis, title, stale = false }: { analysis: ReturnType<typeof analyseReadings>; title: string; stale?: boolean }) {
   const origin = analysis.fit.throughOrigin;
   const free = analysis.fit.withIntercept;
   return (
     <div className="mt-5" data-testid="readings-analysis">
-      <h4 className="mb-2 font-bold">What your readings say</h4>
+      <h4 className="mb-2 font-bold">{stale ? "From your last saved readings" : "What your readings say"}</h4>
+      {stale && (
+        <p className="mb-2 text-ink-soft" data-testid="readings-analysis-stale">
+          These results are worked out from the readings you last saved, not from the numbers in the table above. Save to update them.
+        </p>
+      )}
       <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1">
         <dt>Stiffness (best line through the origin)</dt>
         <dd data-testid="stiffness-through-origin">{origin.slope !== null ? `${formatForStudent(origin.slope)} N/cm` : "—"}</dd>
@@ -176,7 +205,11 @@ function ReadingsAnalysis({ analysis, title }: { analysis: ReturnType<typeof ana
         {analysis.elasticLimitN !== null && (
           <>
             <dt>Elastic limit</dt>
-            <dd>{formatForStudent(analysis.elasticLimitN)} N</dd>
+            <dd data-testid="elastic-limit">
+              {analysis.elasticLimitReached
+                ? `${formatForStudent(analysis.elasticLimitN)} N`
+                : `at least ${formatForStudent(analysis.elasticLimitN)} N (it sprang back after every load)`}
+            </dd>
           </>
         )}
         {analysis.breakingLoadN !== null && (
