@@ -124,7 +124,14 @@ describe("a lesson in the browser", () => {
     const answer = page.locator("#answer-cer-stiffness");
     await answer.getByLabel("Claim", { exact: true }).fill("The stick's stiffness is about the same at every load.");
     await answer.getByLabel("Evidence", { exact: true }).fill("Force ÷ deformation gives about 2.5 N/cm for each reading up to 6 N.");
-    await answer.getByLabel("Reasoning", { exact: true }).fill("If the ratio stays the same, force and deformation grow together.");
+    // Near the 4,000-character limit the field counts what is left; a paste past it says the part is full.
+    const reasoning = answer.getByLabel("Reasoning", { exact: true });
+    await reasoning.fill("x".repeat(3990));
+    await answer.getByText("10 of 4,000 characters left.").waitFor();
+    await reasoning.fill("x".repeat(5000));
+    await answer.getByText(/This part is full/).waitFor();
+    await reasoning.fill("If the ratio stays the same, force and deformation grow together.");
+    await expect(answer.getByTestId("characters-left").count()).resolves.toBe(0);
     await answer.getByRole("button", { name: "Hand in" }).click();
     await answer.getByText(/Handed in/).waitFor();
 

@@ -32,7 +32,11 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
         className="field"
         defaultValue={saved?.[name] ?? ""}
         disabled={!canAnswer}
-        onInput={(e) => setLengths((l) => ({ ...l, [name]: e.currentTarget.value.length }))}
+        onInput={(e) => {
+          // Read now: the event's currentTarget is gone by the time React runs the state update.
+          const length = e.currentTarget.value.length;
+          setLengths((l) => ({ ...l, [name]: length }));
+        }}
         aria-describedby={`${id}-${name}-help ${id}-${name}-count`}
         aria-invalid={Boolean(mine?.errors?.[name])}
       />
