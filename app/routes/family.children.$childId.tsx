@@ -6,7 +6,8 @@ import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/family.children.$childId";
 import { Field, Notice } from "~/components/auth-forms";
-import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
+import { ReadingsAnalysis } from "~/components/lesson/readings-entry";
+import { formatForStudent, formatToResolution, type AnalysisResult } from "~/lib/science";
 import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { db } from "~/db/client.server";
@@ -165,7 +166,7 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
             ) : null}
             {l.readings.map((r) =>
               r.analysis ? (
-                <ForceChartFromAnalysis key={r.id} analysis={r.analysis} title={`${child.displayName}'s own readings${r.material ? `: ${r.material}` : ""}`} />
+                <OwnReadings key={r.id} analysis={r.analysis} resolutionCm={r.resolutionCm} childName={child.displayName} material={r.material} />
               ) : (
                 <p key={r.id} className="mb-3 text-ink-soft">
                   Own readings{r.material ? ` (${r.material})` : ""}: {r.points} rows saved, not enough to draw yet.
@@ -234,3 +235,36 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
 }
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.child.displayName ?? "Child"} — Bendwise` }];
+
+/** The child's own readings as the parent reads them: each reading worked out, then what they say (as the child sees it). */
+function OwnReadings({ analysis, resolutionCm, childName, material }: { analysis: AnalysisResult; resolutionCm: number; childName: string; material: string }) {
+  const title = `${childName}'s own readings${material ? `: ${material}` : ""}`;
+  return (
+    <section className="mb-4" aria-label={title} data-testid="own-readings">
+      <div className="overflow-x-auto">
+        <table className="border-collapse text-left text-[length:var(--text-step--1)]">
+          <caption className="mb-1 text-left font-bold">{title}</caption>
+          <thead>
+            <tr className="border-b-2 border-rule">
+              <th scope="col" className="px-2 py-1 text-right">Force (N)</th>
+              <th scope="col" className="px-2 py-1 text-right">Deformation (cm)</th>
+              <th scope="col" className="px-2 py-1 text-right">Stiffness (N/cm)</th>
+              <th scope="col" className="px-2 py-1 text-right">Permanent set (cm)</th>
+            </tr>
+          </thead>
+          <tbody>
+            {analysis.points.map((p, i) => (
+              <tr key={i} className="border-b border-rule">
+                <td className="px-2 py-1 text-right tabular-nums">{String(Number(p.forceN.toPrecision(6)))}</td>
+                <td className="px-2 py-1 text-right tabular-nums">{p.deformationCm === null ? "—" : formatToResolution(p.deformationCm, resolutionCm)}</td>
+                <td className="px-2 py-1 text-right tabular-nums">{p.stiffnessNPerCm === null ? "—" : formatForStudent(p.stiffnessNPerCm)}</td>
+                <td className="px-2 py-1 text-right tabular-nums">{p.permanentSetCm === null ? "—" : formatToResolution(p.permanentSetCm, resolutionCm)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <ReadingsAnalysis analysis={analysis} title={title} whose={`${childName}'s`} />
+    </section>
+  );
+}

@@ -89,6 +89,12 @@ describe("the lesson's readings analysis", () => {
     expect(byTestId(stale, "readings-analysis-stale")).toMatch(/worked out from the readings you last saved/);
   });
 
+  it("names whose readings they are for a parent", () => {
+    const html = text(renderToStaticMarkup(createElement(ReadingsAnalysis, { analysis: analyseReadings(lessonTable), title: "Juno's own readings", whose: "Juno's" })));
+    expect(html.replace(/&#x27;/g, "'")).toContain("What Juno's readings say");
+    expect(html).not.toMatch(/\byour\b/i);
+  });
+
   it("saved readings show the ruler's decimals: 38.0 stays 38.0", () => {
     const rows = rowsFrom({
       readingsId: "r",

@@ -178,12 +178,23 @@ export function ReadingsEntry({
  * The analysis of the saved readings. `stale`: the table has unsaved changes or a save just failed,
  * so the heading says these numbers come from the last saved readings, not the ones on screen.
  */
-export function ReadingsAnalysis({ analysis, title, stale = false }: { analysis: ReturnType<typeof analyseReadings>; title: string; stale?: boolean }) {
+export function ReadingsAnalysis({
+  analysis,
+  title,
+  stale = false,
+  whose = "your",
+}: {
+  analysis: ReturnType<typeof analyseReadings>;
+  title: string;
+  stale?: boolean;
+  /** whose readings, for the heading: "your" for the student, "Juno's" for the parent */
+  whose?: string;
+}) {
   const origin = analysis.fit.throughOrigin;
   const free = analysis.fit.withIntercept;
   return (
     <div className="mt-5" data-testid="readings-analysis">
-      <h4 className="mb-2 font-bold">{stale ? "From your last saved readings" : "What your readings say"}</h4>
+      <h4 className="mb-2 font-bold">{stale ? `From ${whose} last saved readings` : `What ${whose} readings say`}</h4>
       {stale && (
         <p className="mb-2 text-ink-soft" data-testid="readings-analysis-stale">
           These results are worked out from the readings you last saved, not from the numbers in the table above. Save to update them.
@@ -201,7 +212,7 @@ export function ReadingsAnalysis({ analysis, title, stale = false }: { analysis:
             : "—"}
         </dd>
         <dt>Proportional?</dt>
-        <dd>{analysis.proportional ? "Yes, within your reading resolution" : "No"}</dd>
+        <dd>{analysis.proportional ? "Yes, within the ruler's resolution" : "No"}</dd>
         {analysis.elasticLimitN !== null && (
           <>
             <dt>Elastic limit</dt>

@@ -45,7 +45,7 @@ export interface ChildLesson {
     scores: RubricScores | null;
     comment: string | null;
   }[];
-  readings: { id: string; material: string; mode: string; points: number; analysis: AnalysisResult | null }[];
+  readings: { id: string; material: string; mode: string; resolutionCm: number; points: number; analysis: AnalysisResult | null }[];
   photos: { id: string; photoId: string; at: string }[];
 }
 
@@ -103,7 +103,7 @@ export async function childReport({ db }: { db: Database }, childId: string, kla
           } catch {
             // A half-filled table has nothing to draw yet.
           }
-          return { id: r.readingsId, material: r.material, mode: r.mode, points: points.length, analysis };
+          return { id: r.readingsId, material: r.material, mode: r.mode, resolutionCm: r.resolutionCm, points: points.length, analysis };
         }),
       photos: work.photos.filter((ph) => ph.lessonSlug === p.slug).map((ph) => ({ id: ph.id, photoId: ph.photoId, at: formatMoment(ph.createdAt, tz) })),
     };
