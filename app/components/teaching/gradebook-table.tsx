@@ -15,7 +15,9 @@ export function GradebookTable({ classId, book, rows }: { classId: string; book:
             {book.lessons.map((l) => (
               <th key={l.assignmentId} scope="col" className="min-w-36 px-3 py-2">
                 <Link to={`/teach/classes/${classId}/lessons/${l.slug}`}>{l.number ? `L${l.number}: ` : ""}{l.title}</Link>
-                <span className="block font-normal text-ink-soft">due {l.dueText}</span>
+                <span className="block font-normal text-ink-soft">
+                  {l.opened ? "" : `assigned from ${l.opensText} · `}due {l.dueText}
+                </span>
               </th>
             ))}
             <th scope="col" className="px-3 py-2">Lessons done</th>
