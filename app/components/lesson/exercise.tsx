@@ -40,7 +40,9 @@ export function Exercise({ id }: { id: string }) {
           {exercise.title}
         </h3>
         <p className="text-[length:var(--text-step--1)] text-ink-soft" data-testid="exercise-status">
-          {exercise.status === "open"
+          {exercise.status === "open" && !canAnswer && !asAdult
+            ? "Closed at the due date"
+            : exercise.status === "open"
             ? triesLeft === 1
               ? `Last try (of ${exercise.attemptsAllowed})`
               : `${triesLeft} of ${exercise.attemptsAllowed} tries left`
