@@ -3,14 +3,14 @@
 import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
 import { formatForStudent, formatToResolution, formatWithUncertainty, type AnalysisResult } from "~/lib/science";
 
+/** A force or load as it was given, up to 6 figures: "0.98", "3". */
+const plain = (v: number | null) => (v === null ? "—" : String(Number(v.toPrecision(6))));
+
 /** `resolutionCm`: what the ruler was read to; deformations and permanent sets are shown to it (2.0, not 2). */
 export function AnalysisReport({ analysis, resolutionCm }: { analysis: AnalysisResult; resolutionCm: number }) {
   const origin = analysis.fit.throughOrigin;
   const free = analysis.fit.withIntercept;
   const show = (v: number | null, unit = "", sig = 4) => (v === null ? "—" : formatForStudent(v, unit, sig));
-  // Forces are shown as given; deformations to the ruler's resolution; worked-out values to 3 significant figures.
-  const plain = (v: number | null) => (v === null ? "—" : String(Number(v.toPrecision(6))));
-  const cm = (v: number | null) => (v === null ? "—" : formatToResolution(v, resolutionCm));
   const hasReturns = analysis.points.some((p) => p.permanentSetCm !== null);
   const limit = analysis.elasticLimitN;
   return (
@@ -21,29 +21,7 @@ export function AnalysisReport({ analysis, resolutionCm }: { analysis: AnalysisR
       </div>
       <div className="grid gap-6 md:grid-cols-2">
         <div className="min-w-0">
-          <div className="mb-4 overflow-x-auto">
-            <table className="w-full border-collapse">
-              <caption className="mb-1 text-left font-bold">Each reading</caption>
-              <thead>
-                <tr>
-                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Force (N)</th>
-                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Deformation (cm)</th>
-                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Stiffness (N/cm)</th>
-                  <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Permanent set (cm)</th>
-                </tr>
-              </thead>
-              <tbody>
-                {analysis.points.map((p, i) => (
-                  <tr key={i}>
-                    <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.forceN)}</td>
-                    <td className="border-b border-rule px-2 text-right tabular-nums">{cm(p.deformationCm)}</td>
-                    <td className="border-b border-rule px-2 text-right tabular-nums">{show(p.stiffnessNPerCm, "", 3)}</td>
-                    <td className="border-b border-rule px-2 text-right tabular-nums">{cm(p.permanentSetCm)}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
+          <EachReadingTable analysis={analysis} resolutionCm={resolutionCm} caption="Each reading" />
           <dl className="grid gap-x-4 sm:grid-cols-[auto_1fr] sm:gap-y-1 [&>dd]:mb-2 sm:[&>dd]:mb-0">
             <dt className="font-bold">Stiffness, line through the origin</dt>
             <dd data-testid="slope-through-origin">{formatWithUncertainty(origin.slope, origin.slopeSE, "N/cm")}</dd>
@@ -94,5 +72,35 @@ function PrintButton() {
     <button type="button" className="btn btn-quiet print:hidden" onClick={() => window.print()}>
       Print this analysis
     </button>
+  );
+}
+
+/** Each reading worked out (force as given, deformation and permanent set to the ruler's resolution, stiffness to 3 figures). */
+export function EachReadingTable({ analysis, resolutionCm, caption }: { analysis: AnalysisResult; resolutionCm: number; caption: string }) {
+  const cm = (v: number | null) => (v === null ? "—" : formatToResolution(v, resolutionCm));
+  return (
+    <div className="mb-4 overflow-x-auto">
+      <table className="w-full border-collapse">
+        <caption className="mb-1 text-left font-bold">{caption}</caption>
+        <thead>
+          <tr>
+            <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Force (N)</th>
+            <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Deformation (cm)</th>
+            <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Stiffness (N/cm)</th>
+            <th scope="col" className="border-b-2 border-ink-soft px-2 text-right">Permanent set (cm)</th>
+          </tr>
+        </thead>
+        <tbody>
+          {analysis.points.map((p, i) => (
+            <tr key={i}>
+              <td className="border-b border-rule px-2 text-right tabular-nums">{plain(p.forceN)}</td>
+              <td className="border-b border-rule px-2 text-right tabular-nums">{cm(p.deformationCm)}</td>
+              <td className="border-b border-rule px-2 text-right tabular-nums">{p.stiffnessNPerCm === null ? "—" : formatForStudent(p.stiffnessNPerCm, "", 3)}</td>
+              <td className="border-b border-rule px-2 text-right tabular-nums">{cm(p.permanentSetCm)}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
   );
 }

@@ -7,7 +7,8 @@ import { z } from "zod";
 import type { Route } from "./+types/family.children.$childId";
 import { Field, Notice } from "~/components/auth-forms";
 import { ReadingsAnalysis } from "~/components/lesson/readings-entry";
-import { formatForStudent, formatToResolution, type AnalysisResult } from "~/lib/science";
+import { EachReadingTable } from "~/components/analysis-report";
+import type { AnalysisResult } from "~/lib/science";
 import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { db } from "~/db/client.server";
@@ -241,29 +242,7 @@ function OwnReadings({ analysis, resolutionCm, childName, material }: { analysis
   const title = `${childName}'s own readings${material ? `: ${material}` : ""}`;
   return (
     <section className="mb-4" aria-label={title} data-testid="own-readings">
-      <div className="overflow-x-auto">
-        <table className="border-collapse text-left text-[length:var(--text-step--1)]">
-          <caption className="mb-1 text-left font-bold">{title}</caption>
-          <thead>
-            <tr className="border-b-2 border-rule">
-              <th scope="col" className="px-2 py-1 text-right">Force (N)</th>
-              <th scope="col" className="px-2 py-1 text-right">Deformation (cm)</th>
-              <th scope="col" className="px-2 py-1 text-right">Stiffness (N/cm)</th>
-              <th scope="col" className="px-2 py-1 text-right">Permanent set (cm)</th>
-            </tr>
-          </thead>
-          <tbody>
-            {analysis.points.map((p, i) => (
-              <tr key={i} className="border-b border-rule">
-                <td className="px-2 py-1 text-right tabular-nums">{String(Number(p.forceN.toPrecision(6)))}</td>
-                <td className="px-2 py-1 text-right tabular-nums">{p.deformationCm === null ? "—" : formatToResolution(p.deformationCm, resolutionCm)}</td>
-                <td className="px-2 py-1 text-right tabular-nums">{p.stiffnessNPerCm === null ? "—" : formatForStudent(p.stiffnessNPerCm)}</td>
-                <td className="px-2 py-1 text-right tabular-nums">{p.permanentSetCm === null ? "—" : formatToResolution(p.permanentSetCm, resolutionCm)}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </div>
+      <EachReadingTable analysis={analysis} resolutionCm={resolutionCm} caption={title} />
       <ReadingsAnalysis analysis={analysis} title={title} whose={`${childName}'s`} />
     </section>
   );
