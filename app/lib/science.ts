@@ -172,7 +172,9 @@ export function implausibleReadings(input: {
   points: { forceN: number; readingCm?: number }[];
 }): { point: number | null; problem: string }[] {
   const problems: { point: number | null; problem: string }[] = [];
-  const cm = (value: number) => `${Number(value.toPrecision(6))} cm`;
+  // Readings as the student wrote them, to the ruler's resolution: "30.0 cm", not "30 cm".
+  const cm = (value: number) =>
+    `${Math.abs(value) <= MOST_READING_CM ? formatToResolution(value, input.resolutionCm) : Number(value.toPrecision(6))} cm`;
   const { unloadedCm, mode } = input;
   if (unloadedCm !== undefined && Math.abs(unloadedCm) > MOST_READING_CM) {
     problems.push({ point: null, problem: `the unloaded reading ${cm(unloadedCm)} is more than any ruler in this lab reads. Check the decimal point.` });

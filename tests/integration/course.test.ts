@@ -164,7 +164,7 @@ describe("own readings sent from the lesson page", () => {
     const answer = await runRoute(lessonRoute.action as never, request, { slug: "07-home-lab" });
     expect(answer.status).toBe(400);
     expect((answer.body as { errors: string[] }).errors).toEqual([
-      "Row 2: the loaded reading 30 cm is above the unloaded reading 24 cm, but a bending piece moves down under a load. Check both readings.",
+      "Row 2: the loaded reading 30.0 cm is above the unloaded reading 24.0 cm, but a bending piece moves down under a load. Check both readings.",
       "Row 3: a reading of 100000 cm is more than any ruler in this lab reads. Check the decimal point.",
       "Row 4: the force cannot be below 0 N.",
     ]);
@@ -199,7 +199,7 @@ describe("own readings sent from the lesson page", () => {
       "Row 1: the reading “23.7 mm” is in mm, but readings are in cm here: write it in cm (23.7 mm is 2.37 cm).",
       "Row 2: the reading “abc” is not a number.",
       "Row 3: the force cannot be below 0 N.",
-      "Row 4: the loaded reading 30 cm is above the unloaded reading 24 cm, but a bending piece moves down under a load. Check both readings.",
+      "Row 4: the loaded reading 30.0 cm is above the unloaded reading 24.0 cm, but a bending piece moves down under a load. Check both readings.",
     ]);
   });
 

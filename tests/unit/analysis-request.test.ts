@@ -179,7 +179,7 @@ describe("checkReadingsForm (the lesson's readings table)", () => {
         "Row 3: the force “abc” is not a number.",
         "Row 4: the loaded reading is missing.",
         "Row 5: 500 N is more than a classroom spring scale reads (most go up to 10–50 N). Check the reading.",
-        "Row 6: the loaded reading 25 cm is above the unloaded reading 20 cm, but a bending piece moves down under a load. Check both readings.",
+        "Row 6: the loaded reading 25.0 cm is above the unloaded reading 20.0 cm, but a bending piece moves down under a load. Check both readings.",
       ]);
     }
   });

@@ -628,7 +628,7 @@ describe("readings no lab can give (invented readings)", () => {
       ],
     });
     expect(problems.map((p) => p.point)).toEqual([1, 2, 3, 4]);
-    expect(problems[0].problem).toMatch(/loaded reading 30 cm is above the unloaded reading 24 cm, but a bending piece moves down/);
+    expect(problems[0].problem).toMatch(/loaded reading 30.0 cm is above the unloaded reading 24.0 cm, but a bending piece moves down/);
     expect(problems[1].problem).toMatch(/100000 cm is more than any ruler/);
     expect(problems[2].problem).toMatch(/cannot be below 0 N/);
     expect(problems[3].problem).toMatch(/500 N is more than a classroom spring scale reads/);
@@ -638,7 +638,7 @@ describe("readings no lab can give (invented readings)", () => {
     expect(implausibleReadings({ mode: "bend", unloadedCm: 24, resolutionCm: 0.1, points: [{ forceN: 0.5, readingCm: 24.1 }] })).toEqual([]);
     expect(implausibleReadings({ mode: "stretch", unloadedCm: 10, resolutionCm: 0.1, points: [{ forceN: 2, readingCm: 12.5 }] })).toEqual([]);
     expect(implausibleReadings({ mode: "stretch", unloadedCm: 10, resolutionCm: 0.1, points: [{ forceN: 2, readingCm: 8 }] })[0].problem).toMatch(
-      /shorter than the unloaded length 10 cm, but a stretched piece gets longer/,
+      /shorter than the unloaded length 10.0 cm, but a stretched piece gets longer/,
     );
     expect(implausibleReadings({ mode: "bend", unloadedCm: 5000, resolutionCm: 0.1, points: [{ forceN: 2, readingCm: 20 }] })).toEqual([
       { point: null, problem: expect.stringMatching(/^the unloaded reading 5000 cm is more than any ruler/) },
