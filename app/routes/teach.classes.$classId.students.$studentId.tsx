@@ -8,7 +8,7 @@ import { db } from "~/db/client.server";
 import { assertSameOrigin } from "~/lib/auth.server";
 import { choiceLabelReader } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
-import { analyseReadings } from "~/lib/science";
+import { analyseReadings, formatToResolution } from "~/lib/science";
 import { classAccommodations, setAccommodation } from "~/lib/teaching/assignments.server";
 import { classHeading } from "~/lib/teaching/classes.server";
 import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
@@ -19,7 +19,7 @@ import { findClassStudent, moveStudent, moveTargets, removeFromClass, setStudent
 import { loadStudentWork } from "~/lib/teaching/student-work.server";
 import { DAY_MS, formatDue, formatMoment } from "~/lib/teaching/time";
 import { triesAsRead } from "~/lib/teaching/words";
-import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
+import { ReadingsAnalysis } from "~/components/lesson/readings-entry";
 import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
@@ -94,6 +94,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
             material: r.material,
             mode: r.mode,
             unloadedCm: r.unloadedCm,
+            resolutionCm: r.resolutionCm,
             points,
             analysis: analyseReadings({ mode: r.mode, unloadedCm: r.unloadedCm ?? undefined, resolutionCm: r.resolutionCm, points }),
           };
@@ -263,7 +264,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
           {lesson.readings.map((r) => (
             <div key={r.id} className="mb-4">
               <h3 className="mb-1 font-bold">
-                Their readings{r.material ? `: ${r.material}` : ""} ({r.mode === "bend" ? "bending" : "stretching"}, unloaded {r.unloadedCm ?? "—"} cm)
+                Their readings{r.material ? `: ${r.material}` : ""} ({r.mode === "bend" ? "bending" : "stretching"}, unloaded {r.unloadedCm === null ? "—" : formatToResolution(r.unloadedCm, r.resolutionCm)} cm)
               </h3>
               <div className="overflow-x-auto">
                 <table className="mb-2 border-collapse text-left text-[length:var(--text-step--1)]">
@@ -279,14 +280,14 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
                     {r.points.map((p, i) => (
                       <tr key={i} className="border-b border-rule">
                         <td className="py-1 pr-4">{p.forceN}</td>
-                        <td className="py-1 pr-4">{p.readingCm ?? "—"}{p.broke ? " (broke)" : ""}</td>
-                        <td className="py-1 pr-4">{p.returnReadingCm ?? "—"}</td>
+                        <td className="py-1 pr-4">{p.readingCm === undefined ? "—" : formatToResolution(p.readingCm, r.resolutionCm)}{p.broke ? " (broke)" : ""}</td>
+                        <td className="py-1 pr-4">{p.returnReadingCm === undefined ? "—" : formatToResolution(p.returnReadingCm, r.resolutionCm)}</td>
                       </tr>
                     ))}
                   </tbody>
                 </table>
               </div>
-              <ForceChartFromAnalysis analysis={r.analysis} title={`${student.displayName}'s readings${r.material ? ` (${r.material})` : ""}`} />
+              <ReadingsAnalysis analysis={r.analysis} title={`${student.displayName}'s readings${r.material ? ` (${r.material})` : ""}`} whose={`${student.displayName}'s`} />
             </div>
           ))}
 
