@@ -146,6 +146,13 @@ describe("a lesson in the browser", () => {
     // A child learning at home: no other browser test uses their lesson 2 (grace.w is the teacher test's).
     await openAsStudent(page, demoSignIns.child);
     await page.goto(`/learn/${LESSON}`);
+    // Enter on a prediction's option chooses it and does not commit it (a prediction cannot be changed).
+    await page.getByLabel("Go up").focus();
+    await page.keyboard.press("Space");
+    await page.keyboard.press("Enter");
+    await page.waitForTimeout(300);
+    await expect(page.getByRole("button", { name: /Commit my prediction/ }).count()).resolves.toBe(1);
+    await expect(page.getByText("Your prediction:").count()).resolves.toBe(0);
     const box = exercise(page, "stiffness-one-reading");
     await box.getByLabel(/Your answer/).fill("99 N/cm");
     await box.getByRole("button", { name: "Check my answer" }).focus();

@@ -29,7 +29,16 @@ export function Prediction({ id, question, options, children }: {
     );
   }
   return (
-    <fetcher.Form method="post" id={`prediction-${id}`} className="card my-6 font-ui">
+    <fetcher.Form
+      method="post"
+      id={`prediction-${id}`}
+      className="card my-6 font-ui"
+      // A prediction cannot be changed once committed, so Enter on an option only chooses it; the
+      // button commits (a browser would otherwise send the form on Enter in a radio button).
+      onKeyDown={(e) => {
+        if (e.key === "Enter" && e.target instanceof HTMLInputElement && e.target.type === "radio") e.preventDefault();
+      }}
+    >
       <input type="hidden" name="intent" value="predict" />
       <input type="hidden" name="predictionId" value={id} />
       <fieldset>
