@@ -473,10 +473,14 @@ export function proportionalityVerdict(
       offset !== null && !originOnLine
         ? `it crosses zero force at a deformation of ${formatForStudent(offset, "cm", 2)}, more than one ruler step (${res}) from 0`
         : `a line forced through the origin misses a reading by ${formatForStudent(missOrigin, "cm", 2)}, more than one ruler step (${res})`;
+    // A verdict decided by less than half a ruler step says so: one reading taken again could turn it.
+    const closeCall = withinResolution(missOrigin, 1.5 * resolutionCm)
+      ? ` It is a close call: the line through the origin misses by less than one and a half ruler steps, so taking the farthest reading again with care may change this verdict.`
+      : "";
     return {
       proportional: false,
       kind: "linear-not-proportional",
-      reason: `The readings lie on a straight line, but the line misses the origin: ${why}. Force and deformation rise steadily together, yet double the force does not give double the deformation — linear, not proportional.`,
+      reason: `The readings lie on a straight line, but the line misses the origin: ${why}. Force and deformation rise steadily together, yet double the force does not give double the deformation — linear, not proportional.${closeCall}`,
       ...result,
     };
   }

@@ -239,6 +239,19 @@ describe("proportionality verdict (our written rule, see proportionalityVerdict)
     expect(proportionalityVerdict(pts, 0.2).kind).toBe("proportional");
   });
 
+  it("a verdict decided by less than half a ruler step says it is a close call (invented readings)", () => {
+    // 0–6 N against readings 25.0, 24.6, 24.3, 23.9, 23.4, 23.0, 22.5 cm. By hand: ΣFx = 36.5 and
+    // Σx² = 14.67, so k = 2.488 N/cm; 3 N on that line is 1.206 cm, 0.106 cm from the 1.1 cm read,
+    // just over one 0.1 cm step.
+    const deformations = [0, 0.4, 0.7, 1.1, 1.6, 2.0, 2.5];
+    const v = proportionalityVerdict(deformations.map((d, f) => ({ forceN: f, deformationCm: d })), 0.1);
+    expect(v.kind).toBe("linear-not-proportional");
+    expect(v.largestMissThroughOriginCm).toBeCloseTo(3 / (36.5 / 14.67) - 1.1, 9);
+    expect(v.reason).toMatch(/close call/);
+    // The band with 0.5 cm of slack is no close call.
+    expect(proportionalityVerdict([1, 2, 3, 4, 5].map((f) => ({ forceN: f, deformationCm: f / 2 + 0.5 })), 0.1).reason).not.toMatch(/close call/);
+  });
+
   it("a piece that yields (invented): not linear", () => {
     // Free line by hand: x̄ = 1.9, Sxx = 25.75 − 5·1.9² = 7.7, Sxy = 37 − 5·1.9·3 = 8.5, so
     // slope b1 = 8.5/7.7 = 1.104 N/cm, intercept b0 = 3 − 1.9·b1 = 0.903 N. The farthest reading
