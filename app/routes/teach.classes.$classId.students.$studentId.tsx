@@ -1,7 +1,7 @@
 // /teach/classes/:classId/students/:studentId: one student's work, lesson by lesson (every attempt,
 // their own readings with charts, written answers with the review form, photos of set-ups), and what
 // the teacher can do for them: more tries or time (applied quietly), a new password, another class.
-import { Form, Link, data, useNavigation } from "react-router";
+import { Form, Link, data, useNavigation, type ShouldRevalidateFunctionArgs } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/teach.classes.$classId.students.$studentId";
 import { db } from "~/db/client.server";
@@ -174,6 +174,16 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 type Answer = { intent: string; error?: string; done?: string; password?: string; movedTo?: string; removed?: boolean };
+
+/**
+ * After a move or a removal the student is no longer in this class, so this page's loader would answer
+ * 404: the page keeps what it shows and says where they went instead of loading again.
+ */
+export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
+  const answer = actionResult as Answer | undefined;
+  if (answer?.movedTo || answer?.removed) return false;
+  return defaultShouldRevalidate;
+}
 
 export default function StudentPage({ loaderData, actionData }: Route.ComponentProps) {
   const { klass, student, row, lessonCount, lessons, accommodations, scopes, targets } = loaderData;

@@ -241,6 +241,10 @@ describe("a student's page: new password, another class, out of the class", () =
     expect((await act({ intent: "move", toClassId: ids.mapleE.id })).status).toBe(400);
     const moved = await act({ intent: "move", toClassId: ids.mapleB.id });
     expect(moved.status).toBe(200);
+    // The page does not load the old class's address again (the student is not there any more: 404).
+    const revalidate = (actionResult: unknown) => studentPage.shouldRevalidate({ actionResult, defaultShouldRevalidate: true } as never);
+    expect(revalidate(moved.body)).toBe(false);
+    expect(revalidate({ intent: "password", done: "x" })).toBe(true);
     const inClasses = await db.select({ classId: enrollments.classId }).from(enrollments).where(eq(enrollments.studentId, student.id));
     expect(inClasses.map((e) => e.classId)).toEqual([ids.mapleB.id]);
     // Same school year: the seat is kept, not taken twice.
@@ -248,6 +252,7 @@ describe("a student's page: new password, another class, out of the class", () =
 
     const out = await runRoute(studentPage.action as never, post(`/teach/classes/${ids.mapleB.id}/students/${student.id}`, { intent: "remove" }, { cookie: cookies.teacher }), { classId: ids.mapleB.id, studentId: student.id });
     expect((out.body as { done: string }).done).toMatch(/seat is free/);
+    expect(revalidate(out.body)).toBe(false);
     expect(await db.select().from(enrollments).where(eq(enrollments.studentId, student.id))).toHaveLength(0);
     expect(await db.select().from(users).where(eq(users.id, student.id))).toHaveLength(1);
   });
