@@ -355,9 +355,14 @@ describe("exports", () => {
     expect(result.status).toBe(200);
     expect(result.headers.get("content-disposition")).toMatch(/^attachment; filename="tries-grade-7-physical-science-b-lesson-2-deformation-from-readings\.csv"$/);
     const rows = Papa.parse<string[]>(result.body as string, { skipEmptyLines: true }).data;
-    expect(rows[0].slice(0, 4)).toEqual(["Student", "Username", "Student number", "Attempt"]);
+    expect(rows[0].slice(0, 4)).toEqual(["Student", "Username", "Student number", "Try"]);
+    // The same words as the exercise's page: tries counted as it counts them, a slip named in words.
     const maya = rows.filter((r) => r[1] === "maya.d");
-    expect(maya.map((r) => [r[3], r[9], r[11]])).toEqual([["1", "no", "loaded-reading-as-deformation"], ["2", "no", "unit-factor-10"], ["3", "no", ""]]);
+    expect(maya.map((r) => [r[3], r[9], r[10], r[11]])).toEqual([
+      ["Try 1", "no", "Gave the loaded ruler reading instead of the deformation", "loaded-reading-as-deformation"],
+      ["Try 2", "no", "Off by a factor of 10 (the decimal point or a unit)", "unit-factor-10"],
+      ["Not counted", "no", "Could not be read (no try used)", ""],
+    ]);
     const other = await runRoute(attemptsCsvRoute.loader as never, get(`/teach/classes/${classId}/lessons/${LESSON}/exercises/${required[0]}/csv`, { cookie: cookies.secondTeacher }), { classId, slug: LESSON, exerciseId: required[0] });
     expect(other.status).toBe(404);
     const noExercise = await runRoute(attemptsCsvRoute.loader as never, get(`/x`, { cookie: cookies.teacher }), { classId, slug: LESSON, exerciseId: "nope" });

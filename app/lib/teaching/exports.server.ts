@@ -7,7 +7,8 @@ import type { ClassAttempt } from "./analysis.server";
 import type { Gradebook } from "./gradebook.server";
 import { countedScore, lessonAverage } from "./shared";
 import { formatMoment } from "./time";
-import { outcomeWords, readableAnswer } from "./words";
+import { NO_TRY_OUTCOMES } from "~/lib/answer-checker";
+import { outcomeWords, readableAnswer, wrongAnswerGroup } from "./words";
 
 const BOM = "\uFEFF";
 
@@ -70,30 +71,38 @@ export function gradebookCsv(book: Gradebook): string {
   return toCsv(fields, book.rows.length > 0 ? [...rows, classRow] : rows);
 }
 
-/** Every attempt at one exercise of lesson `slug` by the class's students, in the class's time zone. */
+/**
+ * Every attempt at one exercise of lesson `slug` by the class's students, in the class's time zone,
+ * in the words of the exercise's page: "Try 2" or "Not counted" (an answer that could not be read uses
+ * no try), and what was wrong as the page says it (the slip's words when one was recognised).
+ */
 export function attemptsCsv(slug: string, attempts: ClassAttempt[], timeZone: string): string {
   const labelsOf = choiceLabelReader();
   const tries = new Map<string, number>();
   const rows = attempts.map((a) => {
-    const n = (tries.get(a.studentId) ?? 0) + 1;
-    tries.set(a.studentId, n);
+    let label = "Not counted";
+    if (!NO_TRY_OUTCOMES.has(a.outcome)) {
+      const n = (tries.get(a.studentId) ?? 0) + 1;
+      tries.set(a.studentId, n);
+      label = `Try ${n}`;
+    }
     return [
       a.displayName,
       a.username ?? "",
       a.studentNumber ?? "",
-      n,
+      label,
       formatMoment(a.createdAt, timeZone),
       a.createdAt.toISOString(),
       readableAnswer(a.rawAnswer, labelsOf(a.studentId, slug, a.exerciseId)),
       a.parsedValue,
       a.parsedUnit ?? "",
       a.correct ? "yes" : "no",
-      outcomeWords(a.outcome),
+      a.correct ? outcomeWords(a.outcome) : wrongAnswerGroup(a.slipCode, a.outcome).label,
       a.slipCode ?? "",
     ];
   });
   return toCsv(
-    ["Student", "Username", "Student number", "Attempt", `Time (${timeZone})`, "Time (UTC, ISO 8601)", "Answer", "Value read", "Unit read", "Right", "Outcome", "Slip code"],
+    ["Student", "Username", "Student number", "Try", `Time (${timeZone})`, "Time (UTC, ISO 8601)", "Answer", "Value read", "Unit read", "Right", "Outcome", "Slip code"],
     rows,
   );
 }
