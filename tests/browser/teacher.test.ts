@@ -177,6 +177,28 @@ describe("a teacher's class from nothing to a live gradebook", () => {
     await teacher.context.close();
   }, 120_000);
 
+  it("fits a phone screen for the school's administrator: wide tables scroll inside their box, not the page", async () => {
+    const { page, context, consoleErrors } = await openPage(browser, { viewport: { width: 375, height: 740 } });
+    await page.goto("/sign-in");
+    await signInAsAdult(page, demoSignIns.schoolAdmin.email, demoSignIns.schoolAdmin.password);
+    await page.waitForURL(/\/school/);
+    for (const path of ["/school", "/school/seats", "/school/teachers", "/school/students", "/school/classes"]) {
+      await page.goto(path);
+      const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+      expect(overflow, path).toBeLessThanOrEqual(0);
+    }
+    // A class's name breaks between words, not inside them.
+    const name = page.locator("tr[data-class] th").first();
+    const lines = await name.evaluate((cell) => {
+      const range = document.createRange();
+      range.selectNodeContents(cell);
+      return new Set([...range.getClientRects()].map((r) => Math.round(r.top))).size;
+    });
+    expect(lines).toBeLessThanOrEqual(2);
+    expect(consoleErrors).toEqual([]);
+    await context.close();
+  });
+
   it("fits a phone screen: the gradebook scrolls inside its own box, not the page", async () => {
     const { page, context, consoleErrors } = await openPage(browser, { viewport: { width: 375, height: 740 } });
     await page.goto("/sign-in");

@@ -12,7 +12,8 @@ export function SchoolTeachingSection({ school }: { school: SchoolTeaching }) {
         <p className="mb-6 text-ink-soft">No classes yet. Teachers make them on their teaching page.</p>
       ) : (
         <div className="mb-8 overflow-x-auto rounded-lg border border-rule bg-card">
-          <table className="w-full border-collapse text-left text-[length:var(--text-step--1)]">
+          {/* Wide enough that a class's name breaks between words; a phone scrolls the table in its box. */}
+          <table className="w-full min-w-[46rem] border-collapse text-left text-[length:var(--text-step--1)]">
             <caption className="sr-only">Every class of the school with its progress</caption>
             <thead>
               <tr className="border-b-2 border-rule">
@@ -30,9 +31,9 @@ export function SchoolTeachingSection({ school }: { school: SchoolTeaching }) {
             <tbody>
               {school.classes.map((c) => (
                 <tr key={c.id} className="border-b border-rule" data-class={c.name}>
-                  <th scope="row" className="max-w-[16rem] px-3 py-2 [overflow-wrap:anywhere]">{c.name}</th>
+                  <th scope="row" className="min-w-[10rem] max-w-[16rem] px-3 py-2 [overflow-wrap:anywhere]">{c.name}</th>
                   <td className="px-3 py-2">{c.teacherName}</td>
-                  <td className="px-3 py-2">{c.schoolYear}</td>
+                  <td className="whitespace-nowrap px-3 py-2">{c.schoolYear}</td>
                   <td className="px-3 py-2">{c.summary.students}</td>
                   <td className="px-3 py-2">{c.summary.lessons}</td>
                   <td className="px-3 py-2">{pct(c.summary.completePercent)}</td>
