@@ -31,7 +31,11 @@ const whole = (max: number, what: string) =>
   z.coerce.number({ error: `Give the ${what} as a whole number.` }).int(`Give the ${what} as a whole number.`).min(0, `The ${what} cannot be below 0.`).max(max, `At most ${max} ${what}.`);
 
 const intentSchema = z.discriminatedUnion("intent", [
-  z.object({ intent: z.literal("password"), password: z.string().max(256).default("") }),
+  z.object({
+    intent: z.literal("password"),
+    // A guard against pasted essays; the password rules themselves (setStudentPassword) say the real limits.
+    password: z.string().max(256, "That is longer than we keep (256 characters). Please shorten it, or leave the field empty for one made up for you.").default(""),
+  }),
   z.object({ intent: z.literal("move"), toClassId: z.uuid("Choose a class.") }),
   z.object({ intent: z.literal("remove") }),
   z.object({
@@ -362,7 +366,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
           {about("password")}
           <Form method="post" preventScrollReset>
             <input type="hidden" name="intent" value="password" />
-            <TextField label="New password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" />
+            <TextField label="New password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" maxLength={256} />
             <SendButton className="btn" busy={busy}>Set a new password</SendButton>
           </Form>
         </section>
