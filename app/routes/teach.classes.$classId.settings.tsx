@@ -82,16 +82,25 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
         <section className="card" aria-labelledby="code">
           <h2 id="code" className="mb-3 text-[length:var(--text-step-1)]">Sign-in code</h2>
           {message("renew-code")}
-          <p className="mb-2">
-            Students sign in with <strong className="font-mono">{klass.code}</strong>, their username and their password. Spaces and capitals do not matter.
-          </p>
-          <p className="mb-4 text-ink-soft">
-            If the code has been shared outside the class, make a new one. The old code stops working at once; students who are signed in stay signed in.
-          </p>
-          <Form method="post" preventScrollReset onSubmit={(e) => confirmOr(e, "Make a new code? The old code stops working at once; tell your students the new one.")}>
-            <input type="hidden" name="intent" value="renew-code" />
-            <SendButton className="btn btn-quiet" busy={busy || klass.archived}>Make a new code</SendButton>
-          </Form>
+          {klass.archived ? (
+            <p className="mb-2" data-testid="archived-code">
+              While the class is archived, its code <strong className="font-mono">{klass.code}</strong> signs nobody in. Restore the class (below) to use it again.
+            </p>
+          ) : (
+            <>
+              <p className="mb-2">
+                Students sign in with <strong className="font-mono">{klass.code}</strong>, their username and their password. Spaces, hyphens and capitals do not
+                matter.
+              </p>
+              <p className="mb-4 text-ink-soft">
+                If the code has been shared outside the class, make a new one. The old code stops working at once; students who are signed in stay signed in.
+              </p>
+              <Form method="post" preventScrollReset onSubmit={(e) => confirmOr(e, "Make a new code? The old code stops working at once; tell your students the new one.")}>
+                <input type="hidden" name="intent" value="renew-code" />
+                <SendButton className="btn btn-quiet" busy={busy}>Make a new code</SendButton>
+              </Form>
+            </>
+          )}
         </section>
 
         <section className="card" aria-labelledby="zone">
@@ -110,7 +119,7 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
           {message("restore")}
           {klass.archived ? (
             <>
-              <p className="mb-4">This class is archived: it is not in your list and its code signs nobody in. Restore it to use it again.</p>
+              <p className="mb-4">This class is archived: it is listed under "Archived classes" on your classes page, and its code signs nobody in. Restore it to use it again.</p>
               <Form method="post" preventScrollReset>
                 <input type="hidden" name="intent" value="restore" />
                 <SendButton className="btn" busy={busy}>Restore the class</SendButton>
