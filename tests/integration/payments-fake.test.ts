@@ -253,7 +253,7 @@ describe("invoices with a purchase-order number", () => {
     expect(draft.status).toBe("draft");
     const finalized = await stripe.invoices.finalizeInvoice(draft.id);
     expect(finalized.status).toBe("open");
-    expect(finalized.number).toMatch(/^BWTEST-\d{4}$/);
+    expect(finalized.number).toMatch(/^BWTEST-[0-9A-Z]{5}-\d{4}$/);
     expect(finalized.amount_due).toBe(25 * 900);
     expect(finalized.custom_fields).toEqual([{ name: "Purchase order", value: "PO-7781" }]);
     expect(finalized.hosted_invoice_url).toBe(`${fake.url}/invoice/${draft.id}`);

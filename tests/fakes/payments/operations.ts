@@ -338,7 +338,7 @@ export class FakeOperations {
     if (invoice.status !== "draft") throw new ApiError(400, `This invoice is already finalized (status ${invoice.status}).`, "invoice_not_editable");
     this.state.invoiceCounter += 1;
     invoice.status = "open";
-    invoice.number = `BWTEST-${String(this.state.invoiceCounter).padStart(4, "0")}`;
+    invoice.number = `BWTEST-${this.state.invoicePrefix}-${String(this.state.invoiceCounter).padStart(4, "0")}`;
     invoice.hosted_invoice_url = `${this.selfUrl()}/invoice/${invoice.id}`;
     invoice.status_transitions.finalized_at = unixNow();
     invoice.effective_at = unixNow();

@@ -120,6 +120,11 @@ export interface FakeState {
   /** POST responses by Idempotency-Key, so a retried request gets the first answer. */
   idempotent: Map<string, { status: number; body: unknown }>;
   invoiceCounter: number;
+  /**
+   * Begins every invoice number of this run of the fake (from its start time), so numbers stay unique
+   * across restarts as a provider's do: the fake keeps no state on disk, and its counter starts at 1 again.
+   */
+  invoicePrefix: string;
 }
 
 export function emptyState(): FakeState {
@@ -133,6 +138,7 @@ export function emptyState(): FakeState {
     events: [],
     idempotent: new Map(),
     invoiceCounter: 0,
+    invoicePrefix: Date.now().toString(36).toUpperCase().slice(-5),
   };
 }
 
