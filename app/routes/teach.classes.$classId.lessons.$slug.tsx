@@ -78,7 +78,7 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
                 <th scope="col" className="w-24 px-3 py-2">Tried</th>
                 <th scope="col" className="w-32 px-3 py-2">Right at the first try</th>
                 <th scope="col" className="w-28 px-3 py-2">Tries on average</th>
-                <th scope="col" className="px-3 py-2">Most common wrong answer</th>
+                <th scope="col" className="px-3 py-2">Most common kind of wrong answer</th>
               </tr>
             </thead>
             <tbody>
@@ -93,7 +93,9 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
                   </td>
                   <td className="px-3 py-2">{item.rightFirstTryPercent === null ? "—" : `${item.rightFirstTryPercent}% (${item.rightFirstTry})`}</td>
                   <td className="px-3 py-2">{item.averageAttempts ?? "—"}</td>
-                  <td className="px-3 py-2">{item.wrongGroups[0] ? `${item.wrongGroups[0].label} (${item.wrongGroups[0].attempts}×)` : "—"}</td>
+                  <td className="px-3 py-2">{item.wrongGroups[0]
+                      ? `${item.wrongGroups[0].label} (${item.wrongGroups[0].attempts}×)${item.wrongGroups[0].examples[0] ? `, e.g. “${item.wrongGroups[0].examples[0].answer}”` : ""}`
+                      : "—"}</td>
                 </tr>
               ))}
             </tbody>
