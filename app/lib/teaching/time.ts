@@ -127,12 +127,34 @@ export function daysLate(at: Date | string, due: Date | string): number {
  * ("Argentina/Buenos Aires"), so a teacher can type the first letters of a city. UTC stands alone first.
  */
 export function timeZoneMenu(): { value: string; label: string; group?: string }[] {
-  return timeZoneChoices().map((zone) => {
+  const menu = timeZoneChoices().map((zone) => {
     const slash = zone.indexOf("/");
     if (slash < 0) return { value: zone, label: zone };
-    return { value: zone, label: zone.slice(slash + 1).replaceAll("_", " "), group: zone.slice(0, slash) };
+    const place = zone.slice(slash + 1).replaceAll("_", " ");
+    return { value: zone, label: PLACE_NAMES_NOW[place] ?? place, group: zone.slice(0, slash) };
   });
+  // Within each region, alphabetical by the name shown (Kolkata among the K's, not where Calcutta was).
+  const regionOrder = new Map(menu.map((z, i): [string, number] => [z.group ?? "", i]).reverse());
+  return menu.sort((a, b) => regionOrder.get(a.group ?? "")! - regionOrder.get(b.group ?? "")! || (a.group ? a.label.localeCompare(b.label) : 0));
 }
+
+/**
+ * Places whose zone the runtime still lists under an old spelling or name ("Asia/Calcutta"): the menu
+ * shows today's name, and the value stays the zone the runtime knows (IANA keeps both as links).
+ */
+const PLACE_NAMES_NOW: Record<string, string> = {
+  Calcutta: "Kolkata",
+  Asmera: "Asmara",
+  Godthab: "Nuuk",
+  Katmandu: "Kathmandu",
+  Saigon: "Ho Chi Minh",
+  Rangoon: "Yangon",
+  Kiev: "Kyiv",
+  Faeroe: "Faroe",
+  Truk: "Chuuk",
+  Ponape: "Pohnpei",
+  Enderbury: "Kanton",
+};
 
 /** The time zones offered when making a class (the runtime's list, or a short fallback). */
 export function timeZoneChoices(): string[] {
