@@ -1,7 +1,7 @@
 // The analysis of /tools/analyse as a report: each reading, both fitted lines, the verdict, the
 // elastic limit and breaking load, the notes and the chart.
 import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
-import { formatForStudent, formatToResolution, formatWithUncertainty, type AnalysisResult } from "~/lib/science";
+import { elasticLimitWords, formatForStudent, formatToResolution, formatWithUncertainty, type AnalysisResult } from "~/lib/science";
 
 /** A force or load as it was given, up to 6 figures: "0.98", "3". */
 const plain = (v: number | null) => (v === null ? "—" : String(Number(v.toPrecision(6))));
@@ -43,9 +43,7 @@ export function AnalysisReport({ analysis, resolutionCm }: { analysis: AnalysisR
             <dt className="font-bold">Elastic limit</dt>
             <dd data-testid="elastic-limit">
               {limit !== null
-                ? analysis.elasticLimitReached
-                  ? `${plain(limit)} N`
-                  : `at least ${plain(limit)} N (it sprang back after every load)`
+                ? elasticLimitWords(plain(limit), analysis.elasticLimitReached)
                 : hasReturns
                   ? "not found in these readings"
                   : "needs readings taken after each unload"}

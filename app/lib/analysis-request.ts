@@ -6,7 +6,7 @@
  * Units as in app/lib/science.ts: force in N, readings and deformations in cm.
  */
 import { z } from "zod";
-import { cellProblem, readCell } from "./readings-text";
+import { asSentence, cellProblem, readCell } from "./readings-text";
 import { implausibleReadings, type AnalysisInput, type Mode, type ReadingPoint } from "./science";
 
 /** Most points one request may carry; more gets 413 (Payload Too Large). */
@@ -158,18 +158,18 @@ export function checkReadingsForm(form: ReadingsForm): ReadingsFormCheck {
   const unloadedCm = unloaded?.ok ? unloaded.value : undefined;
   const general: string[] = [];
   if (unloaded === undefined || !unloaded.ok) {
-    general.push(unloaded?.unit !== undefined ? cellProblem("unloaded reading", form.unloaded.trim(), "cm", unloaded).replace(/^t/, "T") : "The unloaded reading must be a number in cm.");
+    general.push(unloaded?.unit !== undefined ? asSentence(cellProblem("unloaded reading", form.unloaded.trim(), "cm", unloaded)) : "The unloaded reading must be a number in cm.");
   }
   if (rows.length < 2) general.push("Enter at least two rows of readings.");
   // The rows that could be read are checked now too, so nothing waits for a second round.
   const body = { mode: form.mode, unloadedCm, resolutionCm: form.resolutionCm, points: parsed.map((p) => p.point) };
   for (const i of implausibleReadings(body)) {
-    if (i.point === null) general.push(i.problem.replace(/^t/, "T"));
+    if (i.point === null) general.push(asSentence(i.problem));
     else found.push({ row: parsed[i.point].row, problem: `Row ${parsed[i.point].row}: ${i.problem}` });
   }
   // Only when every row could be read: a row left out might be the one with another force.
   const oneForce = parsed.length === rows.length ? oneForceProblem(body.points) : null;
-  if (oneForce !== null) general.push(oneForce.replace(/^e/, "E"));
+  if (oneForce !== null) general.push(asSentence(oneForce));
   // Array.prototype.sort is stable: problems of one row keep their column order.
   const errors = [...found.sort((a, b) => a.row - b.row).map((f) => f.problem), ...general];
   if (errors.length > 0) return { ok: false, errors: [...new Set(errors)] };

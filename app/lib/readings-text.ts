@@ -69,6 +69,11 @@ export function cellProblem(what: string, typed: string, unit: "N" | "cm", readi
   return `the ${what} “${typed}” is in ${reading.unit}, but ${column}${hint}.`;
 }
 
+/** A problem worded as part of a sentence ("the force …"), begun as a sentence of its own ("The force …"). */
+export function asSentence(problem: string): string {
+  return problem.charAt(0).toUpperCase() + problem.slice(1);
+}
+
 /** The columns of one line, and whether its commas are decimal commas; null when the commas are ambiguous. */
 function splitColumns(line: string): { cells: string[]; decimalComma: boolean } | null {
   if (/[\t;]/.test(line)) return { cells: line.split(/\s*[\t;]\s*/), decimalComma: true };

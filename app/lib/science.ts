@@ -536,6 +536,14 @@ export function elasticLimit(steps: readonly ReturnCheck[], resolutionCm: number
   return { elasticLimitN: limit, firstPermanentSetAtN: null, firstPermanentSetCm: null, limitReached: false };
 }
 
+/**
+ * The elastic limit in words, `force` already written ("3.92"): the load itself when the readings went
+ * past it, or a lower bound when the piece sprang back after every load.
+ */
+export function elasticLimitWords(force: string, reached: boolean): string {
+  return reached ? `${force} N` : `at least ${force} N (it sprang back after every load)`;
+}
+
 /** Breaking load in N: the force of the first step (in loading order) marked broke; null if none broke. */
 export function breakingLoadN(steps: readonly { forceN: number; broke?: boolean }[]): number | null {
   const first = steps.find((s) => s.broke === true);

@@ -9,7 +9,7 @@ import { assertSameOrigin } from "~/lib/auth.server";
 import { clientAddress } from "~/lib/auth/throttle.server";
 import { oneForceProblem, parseAnalysisRequest } from "~/lib/analysis-request";
 import { hitRateLimit } from "~/lib/rate-limit.server";
-import { cellProblem, parseReadingsText, readCell } from "~/lib/readings-text";
+import { asSentence, cellProblem, parseReadingsText, readCell } from "~/lib/readings-text";
 import { analyseReadings, implausibleReadings } from "~/lib/science";
 import { ANALYSIS_REQUESTS_PER_MINUTE } from "./api.analysis";
 import { SendButton } from "~/components/send-button";
@@ -47,7 +47,7 @@ export async function action({ request }: Route.ActionArgs) {
   const unloadedCell = unloadedText === "" ? undefined : readCell(unloadedText, "cm", true);
   const unloaded = unloadedCell === undefined ? undefined : unloadedCell.ok ? unloadedCell.value : Number.NaN;
   if (values.secondColumn === "reading" && unloaded === undefined) problems.push("Give the unloaded reading: deformations are worked out from it.");
-  if (unloadedCell !== undefined && !unloadedCell.ok) problems.push(cellProblem("unloaded reading", unloadedText, "cm", unloadedCell).replace(/^t/, "T"));
+  if (unloadedCell !== undefined && !unloadedCell.ok) problems.push(asSentence(cellProblem("unloaded reading", unloadedText, "cm", unloadedCell)));
   const checked = parseAnalysisRequest({
     mode: values.mode,
     unloadedCm: unloaded,
@@ -56,7 +56,7 @@ export async function action({ request }: Route.ActionArgs) {
   });
   if (checked.ok) {
     for (const i of implausibleReadings(checked.data)) {
-      problems.push(i.point === null ? i.problem.replace(/^t/, "T") : `Line ${lines[i.point] ?? i.point + 1}: ${i.problem}`);
+      problems.push(i.point === null ? asSentence(i.problem) : `Line ${lines[i.point] ?? i.point + 1}: ${i.problem}`);
     }
   }
   if (problems.length > 0 || !checked.ok) {

@@ -3,7 +3,7 @@
 import { useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import type { SavedReadings } from "~/lib/course.server";
-import { analyseReadings, formatForStudent, formatToResolution, type Mode } from "~/lib/science";
+import { analyseReadings, elasticLimitWords, formatForStudent, formatToResolution, type Mode } from "~/lib/science";
 import { ForceChartFromAnalysis } from "./force-chart";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
@@ -217,9 +217,7 @@ export function ReadingsAnalysis({
           <>
             <dt>Elastic limit</dt>
             <dd data-testid="elastic-limit">
-              {analysis.elasticLimitReached
-                ? `${formatForStudent(analysis.elasticLimitN)} N`
-                : `at least ${formatForStudent(analysis.elasticLimitN)} N (it sprang back after every load)`}
+              {elasticLimitWords(formatForStudent(analysis.elasticLimitN), analysis.elasticLimitReached)}
             </dd>
           </>
         )}
