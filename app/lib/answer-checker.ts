@@ -157,6 +157,8 @@ export interface CheckResult {
   slip?: { code: string; hint: string };
   /** feedback for the student, in plain words */
   message: string;
+  /** tables only: the empty cells (0-based, in reading order) the message names as wrong or unreadable */
+  wrongCells?: number[];
 }
 
 /** The tolerance used when an exercise gives none: 1 % relative (common practice, no source). */
@@ -292,16 +294,34 @@ const FORGIVEN_CASE: Readonly<Record<string, string>> = {
   pa: "Pa", PA: "Pa", kpa: "kPa", KPa: "kPa", KPA: "kPa", Mpa: "MPa", MPA: "MPa", mpa: "MPa", gpa: "GPa", Gpa: "GPa", GPA: "GPa",
 };
 
+/**
+ * Lengths whose power may be typed as a plain digit after the symbol: "cm2" is cm², "m3" is m³
+ * (a phone keyboard has no ² key). Only these symbols, as typed, and only the powers 2 to 4: "N2"
+ * or "cm5" stay unreadable rather than becoming a quantity nobody meant (common practice, no source).
+ */
+const LENGTH_SYMBOLS = new Set(["m", "cm", "mm", "km"]);
+
+/**
+ * A force and a length typed together with no sign between them: "Nm", "Ncm", "Nmm", "kNm" are
+ * N·m, N·cm, N·mm and kN·m (a phone keyboard has no "·"). Case decides, as symbols are
+ * case-sensitive (NIST SP 811 §6.1): "nm" would be a nanometre, which is not in the course
+ * vocabulary, so it stays unreadable and is never read as N·m; "NM" is nothing; "mN" (the prefix
+ * before its symbol) stays a millinewton. No symbol of the vocabulary is spelt like one of these,
+ * so no other typed unit changes meaning. A stiffness typed "Nm" for "N/m" is read as what it
+ * says, N·m, and the student is told that measures a force times a length.
+ */
+const JOINED_PRODUCT = /^(k?N)(m|cm|mm)$/;
+
 type UnitRead = { ok: true; unit: string } | { ok: false; reason: string };
 
 /**
  * A typed unit in canonical form for js-quantities: "N / cm", "N per cm", "newtons per
- * centimetre" → "N/cm"; "N·cm" → "N*cm"; "m⁴" → "m^4". One "/" at most.
+ * centimetre" → "N/cm"; "N·cm", "Ncm" → "N*cm"; "m⁴", "m4" → "m^4". One "/" at most.
  */
 function readUnit(raw: string): UnitRead {
   let s = raw.trim();
   if (s === "") return { ok: true, unit: "" };
-  s = s.replace(/([A-Za-z])\.$/, "$1"); // a sentence's full stop: "2.5 cm."
+  s = s.replace(/([A-Za-z0-9])\.$/, "$1"); // a sentence's full stop: "2.5 cm." or "6.25 cm2."
   s = s.replace(/[⁺⁻]?[⁰¹²³⁴⁵⁶⁷⁸⁹]+/g, (sup) => `^${fromSuperscript(sup)}`);
   s = s.replace(/\s+per\s+/gi, "/").replace(/[·⋅∙•×*]/g, "*");
   s = s.replace(/\s*([/*^])\s*/g, "$1").replace(/\s+/g, "*");
@@ -311,11 +331,19 @@ function readUnit(raw: string): UnitRead {
   for (const side of parts) {
     const factors: string[] = [];
     for (const token of side.split("*")) {
-      const m = /^([A-Za-z]+)(?:\^(-?[1-4]))?$/.exec(token);
+      const m = /^([A-Za-z]+)(?:\^(-?[1-4])|([2-4]))?$/.exec(token);
       if (!m) return { ok: false, reason: `“${token || raw.trim()}” is not a unit we know` };
-      const symbol = UNIT_SYMBOLS.has(m[1]) ? m[1] : FORGIVEN_CASE[m[1]] ?? UNIT_NAMES[m[1].toLowerCase()];
-      if (symbol === undefined) return { ok: false, reason: `“${m[1]}” is not a unit we know` };
-      factors.push(m[2] ? `${symbol}^${m[2]}` : symbol);
+      const [, letters, caretPower, digitPower] = m;
+      const joined = JOINED_PRODUCT.exec(letters);
+      if (joined && !caretPower && !digitPower) {
+        factors.push(joined[1], joined[2]);
+        continue;
+      }
+      const symbol = UNIT_SYMBOLS.has(letters) ? letters : FORGIVEN_CASE[letters] ?? UNIT_NAMES[letters.toLowerCase()];
+      if (symbol === undefined) return { ok: false, reason: `“${letters}” is not a unit we know` };
+      if (digitPower && !LENGTH_SYMBOLS.has(letters)) return { ok: false, reason: `“${token}” is not a unit we know` };
+      const power = caretPower ?? digitPower;
+      factors.push(power ? `${symbol}^${power}` : symbol);
     }
     sides.push(factors.join("*"));
   }
@@ -628,6 +656,7 @@ export function validateExpectedAnswer(expected: ExpectedAnswer): string[] {
 }
 
 const HOW_TO_WRITE = "Write a number and its unit, for example 2.5 cm, 0.45 N/cm or 6.53 × 10^4 N/m.";
+const COULD_NOT_READ = "We could not read that answer";
 
 /** Format a unit for a student: "N*cm" → "N·cm". */
 const showUnit = (unit: string) => unit.replace(/\*/g, "·");
@@ -643,26 +672,64 @@ export function checkAnswer(typed: string, expected: ExpectedAnswer): CheckResul
   try {
     return checkAnswerUnsafe(typed, expected);
   } catch {
-    return { outcome: "unreadable", parsed: null, message: `We could not read that answer. ${HOW_TO_WRITE}` };
+    return { outcome: "unreadable", parsed: null, message: `${COULD_NOT_READ}. ${HOW_TO_WRITE}` };
   }
 }
 
+/** The shape of a table to complete (TableTemplate in exercises.ts): the `null` cells are typed in. */
+export interface TableShape {
+  columns: readonly string[];
+  rows: readonly (readonly (string | null)[])[];
+}
+
 /**
- * Check a table of answers, one typed cell per expected row. A cell that cannot be read makes the
- * whole table "unreadable" (no try used, as for a single answer), naming each such row; otherwise
- * every wrong row is named with its own feedback, and the outcome (and slip) is the first wrong row's.
+ * A name for each empty cell of a table, in reading order, for feedback: the row, as "Row 2", or its
+ * label when its first cell is words rather than a quantity ("Spring A", "Mean of the three
+ * readings"); with the column after it when the row has more than one empty cell ("Row 2, x²").
+ * When there is no table, or it does not have `count` empty cells, the cells are counted instead
+ * ("Cell 4"), so a message never names a row the table does not have.
  */
-export function checkTableAnswers(typedCells: readonly string[], expectedCells: readonly ExpectedAnswer[]): CheckResult {
-  const rows = expectedCells.map((expected, i) => ({ row: i + 1, result: checkAnswer(typedCells[i] ?? "", expected) }));
-  const unreadable = rows.filter(({ result }) => NO_TRY_OUTCOMES.has(result.outcome));
+export function tableCellNames(table: TableShape | undefined, count?: number): string[] {
+  const names: string[] = [];
+  table?.rows.forEach((row, r) => {
+    const first = row[0];
+    const label = typeof first === "string" && first.trim() !== "" && !parseAnswer(first).ok ? first.trim() : null;
+    const rowName = label ?? `Row ${r + 1}`;
+    const empty = row.filter((cell) => cell === null).length;
+    row.forEach((cell, c) => {
+      if (cell === null) names.push(empty > 1 ? `${rowName}, ${table.columns[c] ?? `column ${c + 1}`}` : rowName);
+    });
+  });
+  const wanted = count ?? names.length;
+  if (table && names.length === wanted) return names;
+  return Array.from({ length: wanted }, (_, i) => `Cell ${i + 1}`);
+}
+
+/**
+ * Check a table of answers, one typed cell per expected cell, each named from the table's template
+ * (tableCellNames). A cell that cannot be read makes the whole table "unreadable" (no try used, as
+ * for a single answer), naming each such cell; otherwise every wrong cell is named with its own
+ * feedback, and the outcome (and slip) is the first wrong cell's. `wrongCells` lists the cells named.
+ */
+export function checkTableAnswers(typedCells: readonly string[], expectedCells: readonly ExpectedAnswer[], table?: TableShape): CheckResult & { wrongCells: number[] } {
+  const names = tableCellNames(table, expectedCells.length);
+  const cells = expectedCells.map((expected, i) => ({ index: i, name: names[i], result: checkAnswer(typedCells[i] ?? "", expected) }));
+  const unreadable = cells.filter(({ result }) => NO_TRY_OUTCOMES.has(result.outcome));
   if (unreadable.length > 0) {
-    const named = unreadable.map(({ row, result }) => result.message.replace(/^We could not read that answer/, `Row ${row} could not be read`).replace(` ${HOW_TO_WRITE}`, ""));
+    const named = unreadable.map(({ name, result }) => {
+      const message = result.message.replace(` ${HOW_TO_WRITE}`, "");
+      return message.startsWith(COULD_NOT_READ) ? message.replace(COULD_NOT_READ, `${name} could not be read`) : `${name}: ${message}`;
+    });
     const outcome = unreadable.some(({ result }) => result.outcome === "not-checkable") ? "not-checkable" : "unreadable";
-    return { outcome, parsed: null, message: `${named.join(" ")} ${HOW_TO_WRITE}` };
+    return { outcome, parsed: null, message: `${named.join(" ")} ${HOW_TO_WRITE}`, wrongCells: unreadable.map(({ index }) => index) };
   }
-  const wrong = rows.filter(({ result }) => result.outcome !== "correct");
-  if (wrong.length === 0) return { outcome: "correct", parsed: null, message: "Every cell is right." };
-  return { ...wrong[0].result, message: wrong.map(({ row, result }) => `Row ${row}: ${result.message}`).join(" ") };
+  const wrong = cells.filter(({ result }) => result.outcome !== "correct");
+  if (wrong.length === 0) return { outcome: "correct", parsed: null, message: "Every cell is right.", wrongCells: [] };
+  return {
+    ...wrong[0].result,
+    message: wrong.map(({ name, result }) => `${name}: ${result.message}`).join(" "),
+    wrongCells: wrong.map(({ index }) => index),
+  };
 }
 
 function checkAnswerUnsafe(typed: string, expected: ExpectedAnswer): CheckResult {
@@ -680,7 +747,7 @@ function checkAnswerUnsafe(typed: string, expected: ExpectedAnswer): CheckResult
 
   const read = parseAnswer(typed);
   if (!read.ok) {
-    return { outcome: "unreadable", parsed: null, message: `We could not read that answer: ${read.reason}. ${HOW_TO_WRITE}` };
+    return { outcome: "unreadable", parsed: null, message: `${COULD_NOT_READ}: ${read.reason}. ${HOW_TO_WRITE}` };
   }
   const answer = read.answer;
   const parsed = { value: answer.value, unit: answer.unit };
@@ -698,14 +765,20 @@ function checkAnswerUnsafe(typed: string, expected: ExpectedAnswer): CheckResult
   } else if (expectedUnit === "" || !sameKind(answer.unit, expectedUnit)) {
     const slip = findSlip(answer, expected, expectedUnit, tolerance);
     if (slip) return { outcome: "incorrect", parsed, slip, message: `That does not match. ${slip.hint}` };
+    if (expectedUnit === "") {
+      // A ratio with a unit after it is not read at all (no try used), whether its number is right or not:
+      // the student learns that the quantity has no unit, and sends the number alone.
+      return {
+        outcome: "unreadable",
+        parsed: null,
+        message: `This quantity has no unit: it is a plain number (a ratio), so “${showUnit(answer.unit)}” does not belong after it. Write the number alone. No try was used.`,
+      };
+    }
     const numberRight = withinTolerance(answer.value, expected.value, tolerance);
     return {
       outcome: "unit-wrong-kind",
       parsed,
-      message:
-        expectedUnit === ""
-          ? `This answer is a plain number (a ratio) with no unit, but ${showUnit(answer.unit)} measures ${describeKind(answer.unit)}.`
-          : `${showUnit(answer.unit)} measures ${describeKind(answer.unit)}, but this answer is ${describeKind(expectedUnit)}.${numberRight ? " The number itself looks right." : ""} Check which quantity the question asks for.`,
+      message: `${showUnit(answer.unit)} measures ${describeKind(answer.unit)}, but this answer is ${describeKind(expectedUnit)}.${numberRight ? " The number itself looks right." : ""} Check which quantity the question asks for.`,
     };
   } else {
     valueInExpected = convertUnits(answer.value, answer.unit, expectedUnit);
@@ -720,7 +793,7 @@ function checkAnswerUnsafe(typed: string, expected: ExpectedAnswer): CheckResult
     return {
       outcome: "unit-missing",
       parsed,
-      message: `The number is right, but it needs its unit after it: this answer is ${describeKind(expectedUnit)}.`,
+      message: `The number is right, but the unit is missing: write the unit after the number (this answer is ${describeKind(expectedUnit)}).`,
     };
   }
 

@@ -178,7 +178,7 @@ export function judge(instance: ExerciseInstance, definition: ExerciseDefinition
   }
   if (definition.kind === "table") {
     const cells = submission.kind === "cells" ? submission.cells : [];
-    return { raw: JSON.stringify(cells), result: checkTableAnswers(cells, instance.cells ?? []) };
+    return { raw: JSON.stringify(cells), result: checkTableAnswers(cells, instance.cells ?? [], instance.table) };
   }
   const answer = submission.kind === "text" ? submission.answer : "";
   if (!instance.expected) {

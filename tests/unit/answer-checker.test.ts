@@ -9,6 +9,7 @@ import {
   SLIP_HINTS,
   checkAnswer,
   checkTableAnswers,
+  tableCellNames,
   convertUnits,
   countSignificantFigures,
   describeKind,
@@ -138,10 +139,37 @@ describe("reading units", () => {
     ["3 KG", 3, "kg"], // wrong case, but no other unit in the course could be meant
     ["3 x", 3, null], // "3 times" as stiff
     ["3 times", 3, null],
+    // A phone keyboard has no ² or · key: a digit straight after a length is its power, and a force
+    // and a length typed together ("Nm") are their product.
+    ["6.25 cm2", 6.25, "cm^2"],
+    ["0.04 m2", 0.04, "m^2"],
+    ["12 mm2", 12, "mm^2"],
+    ["8 cm3", 8, "cm^3"],
+    ["2 m4", 2, "m^4"],
+    ["3 N/m2", 3, "N/m^2"],
+    ["6.5 Ncm", 6.5, "N*cm"],
+    ["6.5Ncm", 6.5, "N*cm"],
+    ["0.065 Nm", 0.065, "N*m"],
+    ["65 Nmm", 65, "N*mm"],
+    ["2 kNm", 2, "kN*m"],
+    ["2 mN", 2, "mN"], // a millinewton stays a millinewton
   ])("%j → %d %s", (typed, value, unit) => {
     const r = read(typed);
     expect((r as { value: number }).value).toBeCloseTo(value, 12);
     expect((r as { unit: string | null }).unit).toBe(unit);
+  });
+
+  it("reads the typed power and product as the right amount", () => {
+    expect(checkAnswer("6.25 cm2", { value: 6.25, unit: "cm^2" }).outcome).toBe("correct");
+    expect(checkAnswer("625 mm2", { value: 6.25, unit: "cm^2" }).outcome).toBe("correct");
+    expect(checkAnswer("0.065 Nm", { value: 6.5, unit: "N*cm" }).outcome).toBe("correct");
+    expect(checkAnswer("6.5 Ncm", { value: 6.5, unit: "N*cm" }).outcome).toBe("correct");
+  });
+
+  // Case decides: "nm" (a nanometre, not in the course) must not become "Nm", nor a force
+  // squared come from "N2", nor "cm5" a power we do not use.
+  it.each(["2 nm", "2 NM", "2 N2", "2 cm5", "2 cm22", "2 Ncmm"])("%j stays unreadable", (typed) => {
+    expect(parseAnswer(typed).ok).toBe(false);
   });
 
   it.each(["2.5 zz", "2.5 Mm", "2.5 mPa", "2.5 furlongs", "5 N/cm/cm", "5 /cm", "5 N/", "2.5 µm"])(
@@ -265,7 +293,28 @@ describe("checkAnswer outcomes", () => {
     expect(r.message).toMatch(/a force/);
     expect(r.message).toMatch(/a length/);
     expect(r.message).toMatch(/number itself looks right/);
-    expect(checkAnswer("3 N", { value: 3, unit: "" }).outcome).toBe("unit-wrong-kind");
+  });
+
+  it("a plain number typed with a unit uses no try and says the quantity has no unit", () => {
+    // Invented: a safety factor of 3.63 (a ratio of two forces).
+    const factor: ExpectedAnswer = { value: 3.63, unit: "" };
+    for (const typed of ["3.63 N", "3.63 cm", "5 N/cm"]) {
+      const r = checkAnswer(typed, factor);
+      expect(r.outcome, typed).toBe("unreadable");
+      expect(r.message, typed).toMatch(/has no unit/);
+      expect(r.message, typed).toMatch(/no try was used/i);
+    }
+    expect(checkAnswer("3.63", factor).outcome).toBe("correct");
+    expect(checkAnswer("3.63 times", factor).outcome).toBe("correct");
+  });
+
+  it("a bare number for a quantity with a unit uses a try, and says plainly when the number is right", () => {
+    const right = checkAnswer("2.5", { value: 2.5, unit: "cm" });
+    expect(right.outcome).toBe("unit-missing");
+    expect(right.message).toMatch(/^The number is right, but the unit is missing/);
+    const wrong = checkAnswer("3", { value: 2.5, unit: "cm" });
+    expect(wrong.outcome).toBe("incorrect");
+    expect(wrong.message).not.toMatch(/number is right/);
   });
 
   it("tolerances: default 1 % relative, absolute, either, both", () => {
@@ -426,24 +475,67 @@ describe("conversion exercises (unitRequired)", () => {
 });
 
 describe("a table of answers (invented numbers)", () => {
+  // One empty cell in each of three rows, as in lesson 2's table.
+  const oneColumn = { columns: ["Force", "Loaded reading", "Deformation"], rows: [["1 N", "20.0 cm", null], ["2 N", "19.5 cm", null], ["3 N", "19.0 cm", null]] };
   const rows: ExpectedAnswer[] = [
     { value: 0.5, unit: "cm" },
     { value: 1.0, unit: "cm" },
     { value: 1.5, unit: "cm" },
   ];
   it("is right when every row is", () => {
-    expect(checkTableAnswers(["0.5 cm", "10 mm", "1.5 cm"], rows)).toMatchObject({ outcome: "correct", message: "Every cell is right." });
+    expect(checkTableAnswers(["0.5 cm", "10 mm", "1.5 cm"], rows, oneColumn)).toMatchObject({ outcome: "correct", message: "Every cell is right.", wrongCells: [] });
   });
-  it("names every wrong row, with the first wrong row's outcome and slip", () => {
-    const result = checkTableAnswers(["5 cm", "1.0 cm", "-1.5 cm"], rows);
+  it("names every wrong row, with the first wrong row's outcome and slip, and says which cells", () => {
+    const result = checkTableAnswers(["5 cm", "1.0 cm", "-1.5 cm"], rows, oneColumn);
     expect(result.outcome).toBe("incorrect");
     expect(result.slip?.code).toBe("unit-factor-10");
     expect(result.message).toMatch(/^Row 1: .*factor of 10.* Row 3: .*order of your subtraction/);
+    expect(result.wrongCells).toEqual([0, 2]);
   });
   it("is unreadable (no try used) when a cell cannot be read, naming each such row once and how to write an answer once", () => {
-    const result = checkTableAnswers(["0.5 cm", "two", ""], rows);
+    const result = checkTableAnswers(["0.5 cm", "two", ""], rows, oneColumn);
     expect(result.outcome).toBe("unreadable");
     expect(result.message).toMatch(/^Row 2 could not be read.* Row 3 could not be read/);
     expect(result.message.match(/Write a number and its unit/g)).toHaveLength(1);
+    expect(result.wrongCells).toEqual([1, 2]);
+  });
+
+  // Two empty cells in each of three rows, as in lesson 3's sums: F × x (N·cm) and x² (cm²).
+  const twoColumns = { columns: ["Force F", "Deformation x", "F × x", "x²"], rows: [["2 N", "0.8 cm", null, null], ["4 N", "1.6 cm", null, null], ["6 N", "2.4 cm", null, null]] };
+  const sums: ExpectedAnswer[] = [
+    { value: 1.6, unit: "N*cm" }, { value: 0.64, unit: "cm^2" },
+    { value: 6.4, unit: "N*cm" }, { value: 2.56, unit: "cm^2" },
+    { value: 14.4, unit: "N*cm" }, { value: 5.76, unit: "cm^2" },
+  ];
+  it("names a cell by its row and column when a row has two empty cells: never a row the table does not have", () => {
+    const result = checkTableAnswers(["1.6 N·cm", "0.64 cm²", "6.4 N·cm", "2.56 cm2", "14.4 Ncm", "57.6 cm²"], sums, twoColumns);
+    expect(result.outcome).toBe("incorrect");
+    expect(result.slip?.code).toBe("unit-factor-10");
+    expect(result.message).toMatch(/^Row 3, x²: That does not match\./);
+    expect(result.message).not.toMatch(/Row [4-6]/);
+    expect(result.wrongCells).toEqual([5]);
+
+    const twoWrong = checkTableAnswers(["1.6 N·cm", "0.64 cm²", "6.4", "2.56 N", "14.4 Ncm", "5.76 cm²"], sums, twoColumns);
+    expect(twoWrong.outcome).toBe("unit-missing");
+    expect(twoWrong.message).toMatch(/^Row 2, F × x: The number is right, but the unit is missing.* Row 2, x²: /);
+    expect(twoWrong.wrongCells).toEqual([2, 3]);
+
+    const unread = checkTableAnswers(["1.6 N·cm", "0.64 cm²", "6.4 N·cm", "2.56 cm²", "14.4 N·cm", "lots"], sums, twoColumns);
+    expect(unread.outcome).toBe("unreadable");
+    expect(unread.message).toMatch(/^Row 3, x² could not be read/);
+    expect(unread.wrongCells).toEqual([5]);
+  });
+
+  it("names a row by its label when its first cell is a word, not a number", () => {
+    const labelled = { columns: ["Quantity", "Value"], rows: [["Mean of the three readings", null], ["Spread (largest − smallest)", null]] };
+    expect(tableCellNames(labelled)).toEqual(["Mean of the three readings", "Spread (largest − smallest)"]);
+    const result = checkTableAnswers(["20.1 cm", "3 cm"], [{ value: 20.1, unit: "cm" }, { value: 0.2, unit: "cm" }], labelled);
+    expect(result.message).toMatch(/^Spread \(largest − smallest\): That does not match/);
+  });
+
+  it("falls back to counting cells when the template does not fit the expected cells", () => {
+    expect(tableCellNames(undefined, 2)).toEqual(["Cell 1", "Cell 2"]);
+    expect(tableCellNames(oneColumn, 2)).toEqual(["Cell 1", "Cell 2"]);
+    expect(checkTableAnswers(["1 cm", "1 cm", "2 cm"], rows).message).toMatch(/^Cell 1: .* Cell 3: /);
   });
 });
