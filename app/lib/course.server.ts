@@ -14,8 +14,9 @@ import {
 } from "~/db/schema.server";
 import { checkAnswer, checkTableAnswers, NO_TRY_OUTCOMES, type CheckResult } from "./answer-checker";
 import {
-  DEFAULT_ATTEMPTS,
+  ownAttempts,
   promptOf,
+  type AttemptsOf,
   type ExerciseDefinition,
   type ExerciseInstance,
   type ExercisePrompt,
@@ -117,13 +118,15 @@ function generatorContext(definition: ExerciseDefinition, readings: SavedReading
 }
 
 /**
- * How many tries a student has at an exercise: the exercise's own number (DEFAULT_ATTEMPTS unless its
- * definition says `attempts`), plus the extra tries of the student's accommodation for this lesson.
- * The policy (student × lesson) comes from policyRowsJson/lessonPolicies, loaded alongside the
- * other rows, so this stays a pure function and the lesson page's query count stays fixed.
+ * How many tries a student has at an exercise: the exercise's own number (ownAttempts in exercises.ts:
+ * DEFAULT_ATTEMPTS unless its definition says `attempts`, and for a choice at most one fewer than its
+ * options), plus the extra tries of the student's accommodation for this lesson. The lesson page, the
+ * answer check, the course path and the gradebook all count with this one function. The policy
+ * (student × lesson) comes from policyRowsJson/lessonPolicies, loaded alongside the other rows, so
+ * this stays a pure function and the lesson page's query count stays fixed.
  */
-export function attemptsAllowed(policy?: Pick<LessonPolicy, "extraAttempts"> | null, exercise?: { id: string; attempts?: number }): number {
-  return (exercise?.attempts ?? DEFAULT_ATTEMPTS) + Math.max(0, policy?.extraAttempts ?? 0);
+export function attemptsAllowed(policy?: Pick<LessonPolicy, "extraAttempts"> | null, exercise?: AttemptsOf): number {
+  return ownAttempts(exercise) + Math.max(0, policy?.extraAttempts ?? 0);
 }
 
 /** What the student's page says about the lesson's assignment: the due date is their own (with any extra days). */

@@ -3,7 +3,7 @@
 // and the worked solution never leave the server until the student has used every attempt.
 import type { ExpectedAnswer } from "./answer-checker";
 import type { AnalysisResult, Mode } from "./science";
-import type { SeededRandom } from "./seeded-random";
+import { seededRandom, type SeededRandom } from "./seeded-random";
 
 /**
  * The kinds of exercise:
@@ -66,6 +66,8 @@ export interface ExerciseDefinition {
   title: string;
   /** counts toward finishing the lesson (default true) */
   required?: boolean;
+  /** how many tries a student has (default DEFAULT_ATTEMPTS); a choice allows at most one fewer than its options */
+  attempts?: number;
   /** own-data exercises: the readings set they read (the id of a <ReadingsEntry />) */
   readingsId?: string;
   generate(random: SeededRandom, context: GeneratorContext): ExerciseInstance;
@@ -79,6 +81,38 @@ export interface LessonExercises {
 }
 
 export const DEFAULT_ATTEMPTS = 3;
+
+/** What ownAttempts needs of an exercise (tests may give a bare `{ id, attempts }`). */
+export type AttemptsOf = Pick<ExerciseDefinition, "id"> & Partial<Pick<ExerciseDefinition, "attempts" | "kind" | "generate">>;
+
+const optionCounts = new WeakMap<object, number>();
+
+/**
+ * How many options a choice exercise offers. The options' labels may carry a student's numbers, but
+ * not their number (tests/unit/exercises-tries.test.ts checks every lesson over many seeds), so one
+ * instance made with a fixed seed tells, once per definition.
+ */
+function optionCount(exercise: AttemptsOf): number | null {
+  if (exercise.kind !== "choice" || !exercise.generate) return null;
+  let count = optionCounts.get(exercise);
+  if (count === undefined) {
+    count = exercise.generate(seededRandom("count the options"), { ownData: null }).choices?.length ?? 0;
+    optionCounts.set(exercise, count);
+  }
+  return count;
+}
+
+/**
+ * The tries an exercise allows before any accommodation: its own `attempts` (DEFAULT_ATTEMPTS when it
+ * gives none), and for a choice at most one fewer than its options, never fewer than 1, so that
+ * trying every option in turn cannot end "right" (two options: one try). Every place that counts
+ * tries goes through attemptsAllowed in course.server.ts, which adds the accommodation's extra tries.
+ */
+export function ownAttempts(exercise?: AttemptsOf): number {
+  const own = exercise?.attempts ?? DEFAULT_ATTEMPTS;
+  const options = exercise ? optionCount(exercise) : null;
+  return options === null ? own : Math.max(1, Math.min(own, options - 1));
+}
 
 /** Only the part of an instance a student may see. */
 export function promptOf(instance: ExerciseInstance): ExercisePrompt {
