@@ -1,13 +1,24 @@
 // The analysis of /tools/analyse as a report: each reading, both fitted lines, the verdict, the
 // elastic limit and breaking load, the notes and the chart.
 import { ForceChartFromAnalysis } from "~/components/lesson/force-chart";
-import { elasticLimitWords, formatForStudent, formatToResolution, formatWithUncertainty, type AnalysisResult } from "~/lib/science";
+import { cautionWords, elasticLimitWords, formatForStudent, formatToResolution, formatWithUncertainty, type AnalysisResult, type ReadingCaution } from "~/lib/science";
 
 /** A force or load as it was given, up to 6 figures: "0.98", "3". */
 const plain = (v: number | null) => (v === null ? "—" : String(Number(v.toPrecision(6))));
 
-/** `resolutionCm`: what the ruler was read to; deformations and permanent sets are shown to it (2.0, not 2). */
-export function AnalysisReport({ analysis, resolutionCm }: { analysis: AnalysisResult; resolutionCm: number }) {
+/**
+ * `resolutionCm`: what the ruler was read to; deformations and permanent sets are shown to it (2.0, not 2).
+ * `placeOf`: a point (by its index, null for the unloaded reading) named in the page's words, for the cautions.
+ */
+export function AnalysisReport({
+  analysis,
+  resolutionCm,
+  placeOf = readingPlace,
+}: {
+  analysis: AnalysisResult;
+  resolutionCm: number;
+  placeOf?: (point: number | null) => string;
+}) {
   const origin = analysis.fit.throughOrigin;
   const free = analysis.fit.withIntercept;
   const show = (v: number | null, unit = "", sig = 4) => (v === null ? "—" : formatForStudent(v, unit, sig));
@@ -19,6 +30,7 @@ export function AnalysisReport({ analysis, resolutionCm }: { analysis: AnalysisR
         <h2 id="results" className="text-[length:var(--text-step-2)]">What the readings say</h2>
         <PrintButton />
       </div>
+      <ReadingCautions cautions={analysis.cautions} placeOf={placeOf} resolutionCm={resolutionCm} />
       <div className="grid gap-6 md:grid-cols-2">
         <div className="min-w-0">
           <EachReadingTable analysis={analysis} resolutionCm={resolutionCm} caption="Each reading" />
@@ -62,6 +74,36 @@ export function AnalysisReport({ analysis, resolutionCm }: { analysis: AnalysisR
         <ForceChartFromAnalysis analysis={analysis} title="Force against deformation" />
       </div>
     </section>
+  );
+}
+
+/** A point named plainly when the page has no words of its own: "Reading 4", "The unloaded reading". */
+export const readingPlace = (point: number | null) => (point === null ? "The unloaded reading" : `Reading ${point + 1}`);
+
+/**
+ * Readings worth a second look (a slipped decimal point, a force that goes back down): a caution above
+ * the results, which still use those readings.
+ */
+export function ReadingCautions({
+  cautions,
+  placeOf,
+  resolutionCm,
+}: {
+  cautions: readonly ReadingCaution[];
+  placeOf: (point: number | null) => string;
+  resolutionCm: number;
+}) {
+  if (cautions.length === 0) return null;
+  return (
+    <div className="mb-4 rounded border-l-4 border-caution bg-caution-wash p-3 text-ink" data-testid="reading-cautions">
+      <p className="font-bold text-caution">Worth a second look (the results below still use these readings):</p>
+      <ul className="list-disc pl-5">
+        {cautions.map((c) => {
+          const words = cautionWords(c, placeOf(c.point), resolutionCm);
+          return <li key={words}>{words}</li>;
+        })}
+      </ul>
+    </div>
   );
 }
 

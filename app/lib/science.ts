@@ -20,6 +20,7 @@
  *   8. weight from mass, reading uncertainty carried into stiffness
  *   9. design check
  *  10. analyseReadings — the `POST /api/analysis` contract
+ *  11. cautions: a reading that looks mistyped, a force that goes back down
  */
 
 // ───────────────────────────── 1. constants and small helpers ─────────────────────────────
@@ -876,6 +877,8 @@ export interface AnalysisResult {
   elasticLimitReached: boolean;
   breakingLoadN: number | null;
   notes: string[];
+  /** readings worth a second look (see readingCautions); the analysis above still uses them */
+  cautions: ReadingCaution[];
 }
 
 /**
@@ -1021,5 +1024,97 @@ export function analyseReadings(input: AnalysisInput): AnalysisResult {
     elasticLimitReached: limit.limitReached,
     breakingLoadN: breaking,
     notes,
+    cautions: readingCautions({ mode, unloadedCm: unloaded ?? undefined, resolutionCm: resolution, points: raw }, points),
   };
+}
+
+// ─────────────── 11. cautions: a reading that looks mistyped, a force that goes back down ───────────────
+
+/**
+ * A reading worth a second look. The analysis still uses it: a caution asks, it does not refuse.
+ * - "far-from-others": the reading (or deformation, as given) lies far from the line through all the
+ *   other readings, as a slipped decimal point or digit does (3.69 typed for 36.9); `point` is null for
+ *   the unloaded reading.
+ * - "force-went-down": the force is lower than on the step before; the steps are loading steps, in the
+ *   order the loads were added (the elastic limit and the break are read in that order), and a reading
+ *   taken with the load off belongs beside its load as the reading after unloading. Only the first
+ *   such step is named.
+ * `message` names the point as the API does ("points[3]"); pages word it with cautionWords.
+ */
+export type ReadingCaution =
+  | { kind: "far-from-others"; point: number | null; valueCm: number; message: string }
+  | { kind: "force-went-down"; point: number; fromN: number; toN: number; message: string };
+
+/** Ruler steps a reading must miss by before it is called far from the others (see readingCautions). */
+export const FAR_READING_RULER_STEPS = 10;
+
+/**
+ * The caution in words, `place` naming the point in the page's words ("Row 4", "Line 5", "The
+ * unloaded reading"): "Row 4 (3.69 cm) is far from the other readings: was it typed right?"
+ */
+export function cautionWords(caution: ReadingCaution, place: string, resolutionCm: number): string {
+  if (caution.kind === "far-from-others") {
+    const value = Math.abs(caution.valueCm) <= MOST_READING_CM ? formatToResolution(caution.valueCm, resolutionCm) : formatGiven(caution.valueCm, "").trim();
+    return `${place} (${value} cm) is far from the other readings: was it typed right?`;
+  }
+  return `${place}: the force goes down, from ${formatGiven(caution.fromN, "N")} to ${formatGiven(caution.toN, "N")}. The readings are read as loading steps in the order the loads were added (the elastic limit and the break too), so list them from the smallest load up; a reading taken with the load off goes beside its load, as the reading after unloading.`;
+}
+
+/**
+ * Readings worth a second look (see ReadingCaution), in the order of the points. `analysed` are the
+ * points as analyseReadings worked them out (deformations in cm).
+ *
+ * THE RULE for a reading far from the others (our own, common practice, no source; written down so a
+ * teacher can check it): the unloaded reading counts as a reading of 0 cm deformation at 0 N. Leave
+ * one reading out and draw the least-squares straight line of deformation against force through all
+ * the others (unbroken ones only; at least three others, with at least two different forces). The
+ * reading is far from the others when that line misses it by more than BOTH
+ *   (a) 10 ruler steps (1 cm for a ruler read to 0.1 cm), so ordinary scatter of a mark or two never
+ *       counts; and
+ *   (b) twice the whole distance the other readings cover (their largest deformation less their
+ *       smallest), so a series that curves past its elastic limit, whose last readings run ahead of
+ *       the line, is not called mistyped.
+ * A slipped decimal point (3.69 for 36.9) or a slipped tens digit (26.9 for 36.9) moves a reading by
+ * many times what a whole run of loading steps moves it, so it passes both. A slip smaller than that
+ * cannot be told from a real reading, and is not flagged.
+ */
+export function readingCautions(input: AnalysisInput, analysed: readonly AnalysedPoint[]): ReadingCaution[] {
+  const cautions: ReadingCaution[] = [];
+  const resolution = Number.isFinite(input.resolutionCm) && input.resolutionCm > 0 ? input.resolutionCm : 0.1;
+  const raw = Array.isArray(input.points) ? input.points : [];
+  const unloadedTyped = typeof input.unloadedCm === "number" && Number.isFinite(input.unloadedCm) && raw.some((p) => p.readingCm !== undefined);
+
+  type Step = { point: number | null; forceN: number; deformationCm: number; valueCm: number };
+  const steps: Step[] = [{ point: null, forceN: 0, deformationCm: 0, valueCm: input.unloadedCm ?? 0 }];
+  analysed.forEach((p, i) => {
+    if (raw[i]?.broke === true || p.deformationCm === null || !Number.isFinite(p.forceN)) return;
+    steps.push({ point: i, forceN: p.forceN, deformationCm: p.deformationCm, valueCm: raw[i].readingCm ?? p.deformationCm });
+  });
+  if (steps.length >= 4) {
+    steps.forEach((candidate, c) => {
+      if (candidate.point === null && !unloadedTyped) return;
+      const others = steps.filter((_, j) => j !== c);
+      if (others.length < 3) return;
+      // Deformation against force: the force goes in as x, the deformation as y (roles swapped on purpose).
+      const line = fitWithIntercept(others.map((o) => ({ forceN: o.deformationCm, deformationCm: o.forceN })));
+      if (line.slope === null || line.intercept === null) return;
+      const miss = Math.abs(candidate.deformationCm - (line.intercept + line.slope * candidate.forceN));
+      const ds = others.map((o) => o.deformationCm);
+      const span = Math.max(...ds) - Math.min(...ds);
+      if (Number.isFinite(miss) && miss > Math.max(FAR_READING_RULER_STEPS * resolution, 2 * span)) {
+        const caution = { kind: "far-from-others" as const, point: candidate.point, valueCm: candidate.valueCm, message: "" };
+        caution.message = cautionWords(caution, candidate.point === null ? "unloadedCm" : `points[${candidate.point}]`, resolution);
+        cautions.push(caution);
+      }
+    });
+  }
+
+  const down = raw.findIndex((p, i) => i > 0 && Number.isFinite(p.forceN) && Number.isFinite(raw[i - 1].forceN) && p.forceN < raw[i - 1].forceN);
+  if (down > 0) {
+    const caution = { kind: "force-went-down" as const, point: down, fromN: raw[down - 1].forceN, toN: raw[down].forceN, message: "" };
+    caution.message = cautionWords(caution, `points[${down}]`, resolution);
+    cautions.push(caution);
+  }
+  // The unloaded reading first, then by point.
+  return cautions.sort((a, b) => (a.point ?? -1) - (b.point ?? -1));
 }
