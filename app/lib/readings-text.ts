@@ -23,8 +23,19 @@ const BROKE_WORDS = new Set(["broke", "broken", "b", "yes", "x", "true"]);
 /** Units a student may write after a number, by how they are written in lower case. */
 const UNITS = new Map(Object.entries({ n: "N", newton: "N", newtons: "N", cm: "cm", mm: "mm", m: "m", g: "g", kg: "kg" }));
 
-/** One cell read as a number in its column's unit: the value, or why not (a unit of another column). */
-export type CellReading = { ok: true; value: number } | { ok: false; value?: number; unit?: string };
+/** One cell read as a number in its column's unit: the value, or why not (a unit of another column, too long). */
+export type CellReading = { ok: true; value: number } | { ok: false; value?: number; unit?: string; tooLong?: true };
+
+/**
+ * Most characters a number may have: 20 is far more than any reading needs ("0.000001", "123.45"), and
+ * fewer than a pasted run of digits; longer text is called too long, not "not a number".
+ */
+export const MOST_NUMBER_CHARS = 20;
+
+/** Typed text quoted back in a problem, cut to its first `most` characters and "…" so a long paste is not echoed whole. */
+export function echo(typed: string, most = MOST_NUMBER_CHARS): string {
+  return typed.length > most ? `${typed.slice(0, most)}…` : typed;
+}
 
 /**
  * One number as typed, with the column's unit allowed after it ("19.5 cm", "3N", "19,5 cm" when
@@ -45,6 +56,8 @@ export function readCell(text: string, unit: "N" | "cm", decimalComma: boolean):
   }
   // Number("") is 0: an empty cell is no number.
   if (numberText === "") return { ok: false };
+  // Digits and signs only, but too many: a number too long to be a reading (other long text is no number).
+  if (numberText.length > MOST_NUMBER_CHARS) return /^[-+\d.,e\s]+$/i.test(numberText) ? { ok: false, tooLong: true } : { ok: false };
   const value = Number(decimalComma ? numberText.replace(/,/g, ".") : numberText);
   if (!Number.isFinite(value)) return { ok: false };
   if (given !== undefined && given !== unit) return { ok: false, value, unit: given };
@@ -57,7 +70,8 @@ export function readCell(text: string, unit: "N" | "cm", decimalComma: boolean):
  */
 export function cellProblem(what: string, typed: string, unit: "N" | "cm", reading: CellReading): string {
   if (reading.ok) return "";
-  if (reading.unit === undefined || reading.value === undefined) return `the ${what} “${typed}” is not a number.`;
+  if (reading.tooLong) return `the ${what} “${echo(typed)}” is too long: write a number of at most ${MOST_NUMBER_CHARS} characters.`;
+  if (reading.unit === undefined || reading.value === undefined) return `the ${what} “${echo(typed)}” is not a number.`;
   const column = unit === "N" ? "forces are in N (newtons) here" : "readings are in cm here";
   const inCm = reading.unit === "mm" ? reading.value / 10 : reading.unit === "m" ? reading.value * 100 : null;
   const hint =
@@ -66,7 +80,7 @@ export function cellProblem(what: string, typed: string, unit: "N" | "cm", readi
       : unit === "N" && (reading.unit === "g" || reading.unit === "kg")
         ? ": read the spring scale in newtons (a 100 g mass weighs about 0.98 N)"
         : "";
-  return `the ${what} “${typed}” is in ${reading.unit}, but ${column}${hint}.`;
+  return `the ${what} “${echo(typed)}” is in ${reading.unit}, but ${column}${hint}.`;
 }
 
 /** A problem worded as part of a sentence ("the force …"), begun as a sentence of its own ("The force …"). */
@@ -112,7 +126,7 @@ export function parseReadingsText(text: string, secondColumn: "reading" | "defor
     if (header) return;
     if (split === null) {
       problems.push(
-        `Line ${row}: “${line}” can be read more than one way, because its commas could be decimal commas or could separate the columns. Use a point for decimals (1, 2.5), or put a semicolon between the columns (1; 2,5).`,
+        `Line ${row}: “${echo(line, 40)}” can be read more than one way, because its commas could be decimal commas or could separate the columns. Use a point for decimals (1, 2.5), or put a semicolon between the columns (1; 2,5).`,
       );
       return;
     }
@@ -132,7 +146,8 @@ export function parseReadingsText(text: string, secondColumn: "reading" | "defor
       if (BROKE_WORDS.has(extra.toLowerCase())) broke = true;
       else if (read.ok && back === undefined) back = read.value;
       else if (!read.ok && read.unit !== undefined) extras.push(`Line ${row}: ${cellProblem("reading after unloading", extra, "cm", read)}`);
-      else extras.push(`Line ${row}: “${extra}” is neither a reading nor “broke”.`);
+      else if (!read.ok && read.tooLong) extras.push(`Line ${row}: ${cellProblem("reading after unloading", extra, "cm", read)}`);
+      else extras.push(`Line ${row}: “${echo(extra)}” is neither a reading nor “broke”.`);
     }
     for (const problem of [force.problem, second.problem, ...extras]) if (problem) problems.push(problem);
     if (force.value === undefined || second.value === undefined) return;

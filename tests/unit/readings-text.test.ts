@@ -110,3 +110,25 @@ describe("units", () => {
     expect(readCell("1e5", "cm", false)).toEqual({ ok: true, value: 100000 });
   });
 });
+
+describe("long text is cut, not echoed whole", () => {
+  const digits = "7".repeat(5000);
+
+  it("a 5000-digit number is too long, quoted by its first 20 characters and “…”", () => {
+    const r = read(`1, 20.6\n2, ${digits}\n3, 19.6`);
+    expect(r.problems).toEqual([`Line 2: the reading “${"7".repeat(20)}…” is too long: write a number of at most 20 characters.`]);
+    expect(r.points.map((p) => p.forceN)).toEqual([1, 3]);
+  });
+
+  it("readCell: more than 20 characters is too long; 20 are read", () => {
+    expect(readCell(digits, "cm", false)).toEqual({ ok: false, tooLong: true });
+    expect(readCell("0.000000000000000001", "cm", false)).toEqual({ ok: true, value: 1e-18 });
+  });
+
+  it("a long line that cannot be split, and a long extra column, are quoted cut too", () => {
+    const r = read(`1, 2,5 ${"x".repeat(300)}\n2, 20.1, 20.6, ${"y".repeat(300)}`);
+    expect(r.problems[0]).toMatch(/^Line 1: “1, 2,5 x{33}…” can be read more than one way/);
+    expect(r.problems[1]).toBe(`Line 2: “${"y".repeat(20)}…” is neither a reading nor “broke”.`);
+    expect(r.problems.join(" ").length).toBeLessThan(600);
+  });
+});
