@@ -2,6 +2,7 @@
 // lesson's score and due date, every try at each exercise, written answers (with the parent's review,
 // as a teacher would give it), their own readings drawn as charts, and photos of their set-ups.
 // The parent can set a new password here, and go on to delete the account.
+import { useEffect } from "react";
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/family.children.$childId";
@@ -13,6 +14,7 @@ import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-rea
 import { ReviewForm } from "~/components/teaching/review-form";
 import { db } from "~/db/client.server";
 import { assertSameOrigin, requireRole, resetChildPassword } from "~/lib/auth.server";
+import { clearChildDrafts } from "~/lib/family/child-draft";
 import { findChild, householdClass, householdsOf } from "~/lib/family/household.server";
 import { childReport } from "~/lib/family/progress.server";
 import { reviewAction } from "~/lib/teaching/review-action.server";
@@ -62,6 +64,10 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
   const { child, household, made, lessons } = loaderData;
   const busy = useNavigation().state !== "idle";
   const answer = actionData as { intent?: string; error?: string; done?: string } | undefined;
+  // The account is made: what "Add a child" kept in this tab has done its work.
+  useEffect(() => {
+    if (made) clearChildDrafts();
+  }, [made]);
   const complete = lessons.filter((l) => l.complete).length;
   const worked = lessons.filter((l) => l.started || l.exercises.length > 0 || l.answers.length > 0 || l.readings.length > 0);
   return (

@@ -1,11 +1,14 @@
 // /family/children/new: a parent makes a child's account — a display name, a username, a password and
 // a grade band, nothing else. It takes one of the family's seats for this school year; with none free
-// the page says so, keeps what was typed and links to buying a seat.
+// the page says so and links to buying a seat; the name, username and grade band stay in the tab
+// (sessionStorage, never the password) and are filled in again when the parent comes back.
+import { useEffect, useRef, useState } from "react";
 import { Form, Link, data, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/family.children.new";
 import { Field, Notice } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
 import { assertSameOrigin, requireRole } from "~/lib/auth.server";
+import { readChildDraft, saveChildDraft } from "~/lib/family/child-draft";
 import { addChild, newChildSchema } from "~/lib/family/children.server";
 import { householdsOf } from "~/lib/family/household.server";
 import { schoolYearOf } from "~/lib/school-year";
@@ -56,6 +59,32 @@ export default function NewChild({ loaderData, actionData }: Route.ComponentProp
   const values = result?.values ?? { displayName: "", username: "", gradeBand: "6-8" };
   const errors = result?.errors ?? {};
   const noSeat = ledger.free === 0;
+  const draftKey = household.code ?? household.name;
+  const formRef = useRef<HTMLFormElement>(null);
+  const [restored, setRestored] = useState(false);
+  const typed = (): Values => {
+    const fields = new FormData(formRef.current ?? undefined);
+    return { displayName: String(fields.get("displayName") ?? ""), username: String(fields.get("username") ?? ""), gradeBand: String(fields.get("gradeBand") ?? "") };
+  };
+  // Coming back (Back, or "Add a child" after buying a seat): fill in what this tab kept.
+  useEffect(() => {
+    const form = formRef.current;
+    const draft = readChildDraft(draftKey);
+    if (!form || !draft || result) return;
+    const set = (name: string, value: string) => {
+      const input = form.elements.namedItem(name);
+      if (input instanceof HTMLInputElement && input.value === "") input.value = value;
+    };
+    set("displayName", draft.displayName);
+    set("username", draft.username);
+    const band = form.querySelector<HTMLInputElement>(`input[name="gradeBand"][value="${CSS.escape(draft.gradeBand)}"]`);
+    if (band) band.checked = true;
+    setRestored(draft.displayName !== "" || draft.username !== "");
+  }, []); // once, when the page opens
+  // Whatever the server answered, keep the fields it sent back for a trip to buy a seat.
+  useEffect(() => {
+    if (result) saveChildDraft(draftKey, typed());
+  }, [result, draftKey]);
   return (
     <div className="mx-auto max-w-2xl px-5 py-10">
       <p className="mb-1">
@@ -70,21 +99,28 @@ export default function NewChild({ loaderData, actionData }: Route.ComponentProp
         <Notice tone="problem">
           <p>{result.seatProblem}</p>
           <p className="mt-2">
-            <Link to="/family/seats">Buy a seat</Link>. What you typed stays here; come back and press “Make the account” again.
+            <Link to="/family/seats">Buy a seat</Link>. This browser tab keeps your child's name, username and grade band meanwhile (not the
+            password): come back through “Add a child”, type a password again and press “Make the account”.
           </p>
         </Notice>
       ) : noSeat ? (
         <Notice tone="info">
           {ledger.bought === 0 ? `Your family has no seats for ${schoolYear} yet.` : `All ${ledger.bought} of your seats for ${schoolYear} are in use.`} Each
-          child needs a seat: <Link to="/family/seats">buy one first</Link>.
+          child needs a seat: <Link to="/family/seats">buy one first</Link>. This browser tab keeps the name, username and grade band you type here
+          (not the password) until you come back.
         </Notice>
       ) : (
         <p className="mb-4" data-testid="free-seats">
           {ledger.free} free {ledger.free === 1 ? "seat" : "seats"} for {schoolYear}; this child takes one.
         </p>
       )}
-      {Object.keys(errors).length > 0 ? <Notice tone="problem">Please fix what is marked below; the rest is kept (except the password).</Notice> : null}
-      <Form method="post" noValidate className="card">
+      {restored ? (
+        <Notice tone="info">
+          <span data-testid="draft-restored">We filled in the name and username you typed before; choose the password again.</span>
+        </Notice>
+      ) : null}
+      {Object.keys(errors).length > 0 ? <Notice tone="problem">Please fix what is marked below; everything else you typed is still there.</Notice> : null}
+      <Form method="post" noValidate className="card" ref={formRef} onChange={() => saveChildDraft(draftKey, typed())}>
         <Field label="Your child's name" hint="What Bendwise calls them, e.g. a first name." name="displayName" autoComplete="off" required defaultValue={values.displayName} error={errors.displayName} />
         <Field
           label="Username"

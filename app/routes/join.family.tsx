@@ -80,7 +80,7 @@ export default function JoinFamily({ loaderData, actionData }: Route.ComponentPr
       ) : null}
       {result && "problem" in result && result.problem ? <Notice tone="problem">{result.problem}</Notice> : null}
       {Object.keys(errors).length > 0 ? (
-        <Notice tone="problem">Please fix what is marked below; everything you typed is still there (except the password).</Notice>
+        <Notice tone="problem">Please fix what is marked below; everything you typed is still there.</Notice>
       ) : null}
       <Form method="post" noValidate className="card">
         <Field label="Your name" name="displayName" autoComplete="name" required defaultValue={values.displayName} error={errors.displayName} />

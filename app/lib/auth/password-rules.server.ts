@@ -23,7 +23,7 @@ export function newPasswordSchema(context: { email?: string | null; username?: s
       message: `Use at least ${MIN_PASSWORD_LENGTH} characters. A few ordinary words in a row make a good one.`,
     })
     .refine((p) => characters(p) <= MAX_PASSWORD_LENGTH, {
-      message: `That is longer than we keep (${MAX_PASSWORD_LENGTH} characters). Please shorten it.`,
+      message: `A password can be at most ${MAX_PASSWORD_LENGTH} characters long.`,
     })
     .refine((p) => !COMMON.has(p.normalize("NFKC").toLowerCase()) && !/^(.)\1+$/u.test(p), {
       message: "That password is one of the first anyone would guess. Pick something less common.",
