@@ -24,7 +24,7 @@ const pointSchema = z
     deformationCm: finite("deformationCm").optional(),
     returnReadingCm: finite("returnReadingCm").optional(),
     broke: z.boolean({ error: "broke must be true or false" }).optional(),
-  })
+  }, { error: 'each point must be an object such as {"forceN": 1, "readingCm": 19.6}' })
   .refine((p) => p.readingCm !== undefined || p.deformationCm !== undefined, {
     error: "each point needs readingCm or deformationCm",
   });
@@ -50,7 +50,7 @@ export const analysisRequestSchema = z
       .array(pointSchema, { error: "points must be a list" })
       .min(MIN_POINTS, { error: `give at least ${MIN_POINTS} points` })
       .max(MAX_POINTS, { error: `give at most ${MAX_POINTS} points` }),
-  })
+  }, { error: 'the body must be a JSON object with a list of points, such as {"points": [{"forceN": 1, "deformationCm": 0.4}, …]}' })
   .superRefine((body, ctx) => {
     // A reading (loaded or return) means nothing without the unloaded reading to subtract.
     const needsUnloaded = body.points.some((p) => p.readingCm !== undefined || p.returnReadingCm !== undefined);

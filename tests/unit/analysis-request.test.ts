@@ -45,8 +45,9 @@ describe("analysisRequestSchema / parseAnalysisRequest", () => {
   });
 
   const bad: [string, unknown, RegExp][] = [
-    ["not an object", "points", /expected object/],
-    ["null", null, /expected object/],
+    ["not an object", "points", /^the body must be a JSON object with a list of points/],
+    ["null", null, /^the body must be a JSON object with a list of points/],
+    ["a point that is not an object", { points: [3, twoPoints[1]] }, /^points\[0\]: each point must be an object such as/],
     ["one point", { points: [twoPoints[0]] }, /^points: give at least 2 points/],
     ["no points", {}, /^points: points must be a list/],
     ["negative force", { points: [{ forceN: -1, deformationCm: 1 }, twoPoints[1]] }, /^points\[0\]\.forceN: forceN must be 0 or more/],
@@ -67,6 +68,16 @@ describe("analysisRequestSchema / parseAnalysisRequest", () => {
       expect(r.status).toBe(400);
       expect(r.errors.some((e) => message.test(e))).toBe(true);
     }
+  });
+
+  it("every problem is in our own words, never zod's defaults (fuzzed bodies)", () => {
+    fc.assert(
+      fc.property(fc.oneof(fc.anything(), fc.record({ mode: fc.anything(), unloadedCm: fc.anything(), resolutionCm: fc.anything(), points: fc.array(fc.anything(), { maxLength: 4 }) }, { requiredKeys: [] })), (body) => {
+        const r = parseAnalysisRequest(body);
+        if (!r.ok) for (const e of r.errors) expect(e).not.toMatch(/Invalid input|Too (big|small)|expected \w+, received|Unrecognized/);
+      }),
+      { numRuns: 1000, seed: 415 },
+    );
   });
 
   it("lists every problem, not just the first", () => {
