@@ -1,6 +1,9 @@
 // A written claim–evidence–reasoning answer: saved as a draft, then handed in; the teacher's comment shows here.
-import { useState } from "react";
-import { useFetcher } from "react-router";
+// Nothing typed is lost: a draft saves itself a moment after the typing stops, and before the page is
+// left (a link, a reload, the tab closed). Changes to an answer already handed in cannot be kept as a
+// draft (the teacher reads what was handed in), so leaving with them asks first.
+import { useEffect, useRef, useState } from "react";
+import { useBlocker, useFetcher, useLocation } from "react-router";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
 import { isRubricScores, RUBRIC, rubricTotal, type RubricScores } from "~/lib/teaching/shared";
@@ -8,6 +11,11 @@ import { isRubricScores, RUBRIC, rubricTotal, type RubricScores } from "~/lib/te
 /** Each part's limit (the action's too). The browser stops typing and cuts a paste there without a word, so the count shows near it. */
 const MAX_CHARACTERS = 4000;
 const SHOW_COUNT_FROM = 3500;
+/** How long the typing must pause before a draft saves itself. */
+const AUTOSAVE_AFTER_MS = 1500;
+
+type Part = "claim" | "evidence" | "reasoning";
+const PARTS: Part[] = ["claim", "evidence", "reasoning"];
 
 export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
   const { state, canAnswer, reader } = useLesson();
@@ -16,7 +24,9 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
   const mine = fetcher.data?.answerId === id ? fetcher.data : undefined;
   const handedIn = saved?.handedIn || mine?.saved === "handed-in";
   const [lengths, setLengths] = useState<Record<string, number>>({});
-  const field = (name: "claim" | "evidence" | "reasoning", label: string, help: string) => (
+  const { unsaved, autosaved, typed } = useKeptDraft(id, canAnswer && !handedIn, mine?.saved ? mine : undefined);
+  const leaving = useBlocker(({ currentLocation, nextLocation }) => unsaved && handedIn && currentLocation.pathname !== nextLocation.pathname);
+  const field = (name: Part, label: string, help: string) => (
     <div className="mb-3">
       <label htmlFor={`${id}-${name}`} className="block font-bold">
         {label}
@@ -36,6 +46,7 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
           // Read now: the event's currentTarget is gone by the time React runs the state update.
           const length = e.currentTarget.value.length;
           setLengths((l) => ({ ...l, [name]: length }));
+          typed();
         }}
         aria-describedby={`${id}-${name}-help ${id}-${name}-count`}
         aria-invalid={Boolean(mine?.errors?.[name])}
@@ -67,12 +78,35 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
             <SendButton name="handIn" value="1" className="btn" busy={fetcher.state !== "idle"}>
               {handedIn ? "Hand in again" : "Hand in"}
             </SendButton>
-            <p aria-live="polite" className="font-bold text-ok">
-              {mine?.saved === "draft" ? "Draft saved." : handedIn ? `Handed in. Your ${reader} can read it now.` : ""}
+            <p aria-live="polite" className="font-bold text-ok" data-testid="written-answer-status">
+              {mine?.saved === "draft"
+                ? "Draft saved."
+                : handedIn
+                ? unsaved
+                  ? "Changed since you handed it in: hand it in again to send the changes."
+                  : `Handed in. Your ${reader} can read it now.`
+                : autosaved
+                ? "Draft saved by itself."
+                : ""}
             </p>
           </div>
         )}
       </fetcher.Form>
+      {leaving.state === "blocked" && (
+        <div className="mt-3 rounded bg-ember-wash p-3" role="alertdialog" aria-labelledby={`answer-${id}-leaving`}>
+          <p id={`answer-${id}-leaving`} className="mb-2 font-bold">
+            Your changes to this handed-in answer are not handed in yet. Leave without them?
+          </p>
+          <div className="flex flex-wrap gap-3">
+            <button type="button" className="btn" onClick={() => leaving.reset()} autoFocus>
+              Stay and hand in again
+            </button>
+            <button type="button" className="btn btn-quiet" onClick={() => leaving.proceed()}>
+              Leave without the changes
+            </button>
+          </div>
+        </div>
+      )}
       {mine?.error && (
         <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert">
           {mine.error}
@@ -103,6 +137,121 @@ function RubricLevels({ scores }: { scores: RubricScores }) {
       </li>
     </ul>
   );
+}
+
+/**
+ * The draft's life between the saves a student asks for. `typed` is called with each change. While a
+ * draft may be saved (`autosave`), it is saved AUTOSAVE_AFTER_MS after the typing stops, and at once
+ * when the page is left: a link in the app or a reload or closed tab (the save is sent with
+ * `keepalive`, so it outlives the page). Otherwise (handed in) leaving with changes asks first.
+ * `ownSave` is the answer to the student's own "Save a draft" or "Hand in" when it succeeded.
+ */
+function useKeptDraft(answerId: string, autosave: boolean, ownSave: unknown) {
+  const { pathname } = useLocation();
+  // The form, held past its removal from the page: a link away unmounts it before the last save reads it.
+  const form = useRef<HTMLFormElement | null>(null);
+  const edits = useRef(0); // changes typed so far
+  const sent = useRef(0); // the number of changes the last save held
+  const timer = useRef<ReturnType<typeof setTimeout> | undefined>(undefined);
+  const [unsaved, setUnsaved] = useState(false);
+  const [autosaved, setAutosaved] = useState(false);
+  const canAutosave = useRef(autosave);
+  canAutosave.current = autosave;
+
+  useEffect(() => {
+    if (!ownSave) return;
+    sent.current = edits.current;
+    setUnsaved(false);
+  }, [ownSave]);
+
+  /** Sends the draft as the lesson's form would; keepalive lets a page being left still deliver it. */
+  const saveNow = () => {
+    clearTimeout(timer.current);
+    const fields = form.current?.elements;
+    if (edits.current === sent.current || !canAutosave.current || !fields) return;
+    const holding = edits.current;
+    sent.current = holding;
+    const body = new URLSearchParams({ intent: "written-answer", answerId, handIn: "0" });
+    for (const part of PARTS) body.set(part, (fields.namedItem(part) as HTMLTextAreaElement | null)?.value ?? "");
+    const failed = () => {
+      if (sent.current === holding) sent.current = -1; // the next pause or leaving tries again
+      setUnsaved(true);
+    };
+    fetch(`${pathname}.data`, { method: "POST", body, keepalive: true, credentials: "same-origin" }).then((response) => {
+      if (!response.ok) return failed();
+      if (edits.current === holding) setUnsaved(false);
+      setAutosaved(true);
+    }, failed);
+  };
+  const save = useRef(saveNow);
+  save.current = saveNow;
+
+  useEffect(() => {
+    form.current = document.getElementById(`answer-${answerId}`)?.querySelector("form") ?? null;
+    // A reload can reach the server before the save sent as the page went: the tab keeps a copy for a
+    // short while, and the page it reloads into puts it back and saves it again.
+    const copyKey = `bendwise-draft:${pathname}:${answerId}`;
+    const copy = takeTabCopy(copyKey);
+    const fields = form.current?.elements;
+    if (copy && fields && canAutosave.current) {
+      let changed = false;
+      for (const part of PARTS) {
+        const field = fields.namedItem(part) as HTMLTextAreaElement | null;
+        if (field && typeof copy[part] === "string" && field.value !== copy[part]) {
+          field.value = copy[part];
+          changed = true;
+        }
+      }
+      if (changed) typedRef.current();
+    }
+    const onLeave = (event: BeforeUnloadEvent) => {
+      if (edits.current === sent.current) return;
+      if (!canAutosave.current) return event.preventDefault(); // the browser asks before leaving
+      const values = form.current?.elements;
+      if (values) keepTabCopy(copyKey, Object.fromEntries(PARTS.map((part) => [part, (values.namedItem(part) as HTMLTextAreaElement | null)?.value ?? ""])));
+      save.current();
+    };
+    window.addEventListener("beforeunload", onLeave);
+    return () => {
+      window.removeEventListener("beforeunload", onLeave);
+      save.current(); // the lesson page is going away (a link in the app)
+    };
+  }, [answerId, pathname]);
+
+  const typed = () => {
+    edits.current++;
+    setUnsaved(true);
+    setAutosaved(false);
+    clearTimeout(timer.current);
+    if (canAutosave.current) timer.current = setTimeout(() => save.current(), AUTOSAVE_AFTER_MS);
+  };
+  const typedRef = useRef(typed);
+  typedRef.current = typed;
+  return { unsaved, autosaved, typed };
+}
+
+/** How long the tab's copy of a draft is good for: long enough for a reload, short for a shared computer. */
+const TAB_COPY_MS = 2 * 60_000;
+
+function keepTabCopy(key: string, parts: Record<string, string>) {
+  try {
+    sessionStorage.setItem(key, JSON.stringify({ at: Date.now(), parts }));
+  } catch {
+    // storage full or turned off: the save sent with the page still carries the draft
+  }
+}
+
+/** The tab's copy, once (it is removed as it is read), if it is recent. */
+function takeTabCopy(key: string): Partial<Record<Part, string>> | null {
+  try {
+    const raw = sessionStorage.getItem(key);
+    if (!raw) return null;
+    sessionStorage.removeItem(key);
+    const { at, parts } = JSON.parse(raw) as { at: number; parts: Partial<Record<Part, string>> };
+    return Date.now() - at < TAB_COPY_MS ? parts : null;
+  } catch {
+    return null;
+  }
 }
 
 function CharactersLeft({ id, length }: { id: string; length: number }) {
