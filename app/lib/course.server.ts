@@ -55,6 +55,10 @@ export interface Feedback {
   /** the exercise's hint, after a wrong answer */
   hint: string | null;
   slipCode: string | null;
+  /** tables: the empty cells (0-based, in reading order) that were wrong or could not be read */
+  wrongCells: number[];
+  /** a wrong answer that used the last try: the page says so rather than "not yet" */
+  noTriesLeft: boolean;
 }
 
 export interface SavedReadings {
@@ -214,8 +218,9 @@ export async function recordAttempt(
   if (instance.waitingForReadings) return { refused: "Save your readings first; this question uses them." };
 
   const used = past.filter((a) => !NO_TRY_OUTCOMES.has(a.outcome)).length;
+  const allowed = attemptsAllowed(policy, definition);
   if (past.some((a) => a.correct === 1)) return { refused: "You already have this one right." };
-  if (used >= attemptsAllowed(policy, definition)) return { refused: "You have used every attempt at this exercise." };
+  if (used >= allowed) return { refused: "You have used every attempt at this exercise." };
 
   const { result, raw } = judge(instance, definition, input.submission);
   const right = result.outcome === "correct";
@@ -233,15 +238,19 @@ export async function recordAttempt(
     slipCode: result.slip?.code ?? null,
     place: `exercise-${definition.id}`,
   });
+  return { counted, feedback: feedbackOf(result, instance, right, !right && counted && used + 1 >= allowed) };
+}
+
+/** What the student is told about a checked answer (just now, or again after a reload). */
+function feedbackOf(result: CheckResult, instance: ExerciseInstance, right: boolean, noTriesLeft: boolean): Feedback {
   return {
-    counted,
-    feedback: {
-      outcome: result.outcome,
-      right,
-      message: result.message,
-      hint: right ? null : instance.hint,
-      slipCode: result.slip?.code ?? null,
-    },
+    outcome: result.outcome,
+    right,
+    message: result.message,
+    hint: right ? null : instance.hint,
+    slipCode: result.slip?.code ?? null,
+    wrongCells: right ? [] : result.wrongCells ?? [],
+    noTriesLeft,
   };
 }
 
@@ -433,13 +442,8 @@ function exerciseState(
   let lastFeedback: Feedback | null = null;
   if (last) {
     const again = judge(instance, definition, submissionFromRaw(definition, last.rawAnswer));
-    lastFeedback = {
-      outcome: again.result.outcome,
-      right: last.correct === 1,
-      message: again.result.message,
-      hint: last.correct === 1 ? null : instance.hint,
-      slipCode: last.slipCode,
-    };
+    // The stored slip, as it was told when the answer was checked.
+    lastFeedback = { ...feedbackOf(again.result, instance, last.correct === 1, status === "used-up"), slipCode: last.slipCode };
   }
   return {
     id: definition.id,

@@ -184,6 +184,72 @@ describe("a lesson in the browser", () => {
     await context.close();
   });
 
+  it("on a phone: a table names and marks its wrong cell (also after a reload) and says when it scrolls; a choice's last try reads as the last", async () => {
+    // A student of the second class, whose lessons 3 and 5 no other browser test touches.
+    const student = { code: "MAPLE7B", username: "priya.v", password: demoSignIns.student.password };
+    const { page, context, consoleErrors } = await openPage(browser, { viewport: { width: 375, height: 740 } });
+    await openAsStudent(page, student);
+    const id = await studentIdOf(student.username);
+
+    // Lesson 3's sums: three rows, two empty cells each (F × x and x²).
+    const SUMS = "03-proportional-or-not";
+    const definition = lessonExercises(SUMS).exercises.find((e) => e.id === "products-table")!;
+    const instance = exerciseInstance(id, SUMS, definition, []);
+    await page.goto(`/learn/${SUMS}`);
+    const box = exercise(page, "products-table");
+    const scroller = box.getByTestId("table-box");
+    await scroller.scrollIntoViewIfNeeded();
+    // Four columns are still wider than a 375 px screen: the table says it scrolls; on a wide screen it does not.
+    const overflows = () => scroller.evaluate((el) => el.scrollWidth > el.clientWidth + 1);
+    await expect(overflows()).resolves.toBe(true);
+    await expect(box.getByTestId("table-scroll-hint").innerText()).resolves.toMatch(/swipe it sideways to see every column/);
+    await page.setViewportSize({ width: 1280, height: 800 });
+    await expect.poll(() => box.getByTestId("table-scroll-hint").count()).toBe(0);
+    await expect(overflows()).resolves.toBe(false);
+    await page.setViewportSize({ width: 375, height: 740 });
+    await box.getByTestId("table-scroll-hint").waitFor();
+    // Typed as on a phone keyboard: "Ncm" for N·cm and "cm2" for cm²; the last x² is ten times too big.
+    const typed = instance.cells!.map((cell, i) => {
+      const value = Number((i === 5 ? cell.value * 10 : cell.value).toPrecision(4));
+      return `${value} ${cell.unit === "cm^2" ? "cm2" : "Ncm"}`;
+    });
+    const cells = box.locator('input[name="cell"]');
+    for (const [i, text] of typed.entries()) await cells.nth(i).fill(text);
+    await box.getByRole("button", { name: "Check my answer" }).click();
+    const feedback = box.getByTestId("exercise-feedback");
+    await expect.poll(() => feedback.innerText()).toMatch(/Row 3, x²: That does not match/);
+    expect(await feedback.innerText()).not.toMatch(/Row [4-6]/);
+    const invalid = async () => cells.evaluateAll((inputs) => inputs.map((input) => input.getAttribute("aria-invalid") === "true"));
+    await expect(invalid()).resolves.toEqual([false, false, false, false, false, true]);
+    await page.reload();
+    await expect(invalid()).resolves.toEqual([false, false, false, false, false, true]);
+    await expect(exercise(page, "products-table").getByTestId("exercise-feedback").innerText()).resolves.toMatch(/^Not yet\./);
+
+    // Lesson 5's choice has two options, so one try: a wrong one is the last, and says so.
+    const CHOICE = "05-elastic-permanent-broken";
+    const choiceDefinition = lessonExercises(CHOICE).exercises.find((e) => e.id === "came-back-choice")!;
+    const choiceInstance = exerciseInstance(id, CHOICE, choiceDefinition, []);
+    await page.goto(`/learn/${CHOICE}`);
+    const choiceBox = exercise(page, "came-back-choice");
+    await expect(choiceBox.getByTestId("exercise-status").innerText()).resolves.toBe("Last try (of 1)");
+    for (const radio of await choiceBox.locator('input[type="radio"]').all()) {
+      const size = (await radio.boundingBox())!;
+      expect([Math.round(size.width), Math.round(size.height)]).toEqual([20, 20]);
+    }
+    const wrong = choiceInstance.choices!.find((c) => c.value !== choiceInstance.correctChoice)!;
+    await choiceBox.getByLabel(wrong.label).check();
+    await choiceBox.getByRole("button", { name: "Check my answer" }).click();
+    await expect.poll(() => choiceBox.getByTestId("exercise-status").innerText()).toBe("Tries used up");
+    await expect(choiceBox.getByTestId("exercise-feedback").innerText()).resolves.toMatch(/^Not right\. That was the last try\./);
+    await choiceBox.getByTestId("exercise-solution").waitFor();
+    const chosen = choiceBox.locator("label[data-chosen]");
+    await expect(chosen.innerText()).resolves.toMatch(new RegExp(`^${wrong.label.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}\\s*your answer$`));
+    await expect(choiceBox.locator("fieldset label:not([data-chosen])").innerText()).resolves.not.toMatch(/your answer/);
+    await expect(chosen.evaluate((el) => getComputedStyle(el).fontWeight)).resolves.toBe("700");
+    expect(consoleErrors).toEqual([]);
+    await context.close();
+  });
+
   it("serves the lesson's code from the app's own origin with no eval needed", async () => {
     const { page, context, consoleErrors } = await openPage(browser);
     await openAsStudent(page, { ...demoSignIns.student, username: "finn.o" });

@@ -1,6 +1,6 @@
 // One auto-checked exercise. The answer goes to the lesson route's action with a fetcher (no page
 // reload); the server checks it and answers with feedback. The expected answer never reaches the page.
-import { useId } from "react";
+import { useEffect, useId, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import type { ExerciseState, Feedback } from "~/lib/course.server";
 import { useLesson } from "./lesson-context";
@@ -60,7 +60,7 @@ export function Exercise({ id }: { id: string }) {
         <fetcher.Form method="post" className="mt-4" aria-describedby={`${formId}-feedback`}>
           <input type="hidden" name="intent" value="answer" />
           <input type="hidden" name="exerciseId" value={id} />
-          <AnswerFields exercise={exercise} formId={formId} disabled={closed || !canAnswer} />
+          <AnswerFields exercise={exercise} formId={formId} disabled={closed || !canAnswer} wrongCells={feedback?.right ? [] : feedback?.wrongCells ?? []} />
           {canAnswer && !closed && (
             <SendButton className="btn mt-3" busy={busy}>
               {busy ? "Checking…" : "Check my answer"}
@@ -77,7 +77,7 @@ export function Exercise({ id }: { id: string }) {
             data-testid="exercise-feedback"
             data-outcome={feedback.outcome}
           >
-            <p className="font-bold">{feedback.right ? "That's right." : "Not yet."}</p>
+            <p className="font-bold">{feedback.right ? "That's right." : feedback.noTriesLeft || closed ? "Not right. That was the last try." : "Not yet."}</p>
             {!feedback.right && <p className="text-ink">{feedback.message}</p>}
             {feedback.hint && !closed && (
               <p className="mt-2 text-ink" data-testid="exercise-hint">
@@ -102,7 +102,7 @@ export function Exercise({ id }: { id: string }) {
   );
 }
 
-function AnswerFields({ exercise, formId, disabled }: { exercise: ExerciseState; formId: string; disabled: boolean }) {
+function AnswerFields({ exercise, formId, disabled, wrongCells }: { exercise: ExerciseState; formId: string; disabled: boolean; wrongCells: number[] }) {
   const { reader } = useLesson();
   const last = exercise.lastAnswer;
   if (exercise.kind === "choice") {
@@ -119,12 +119,20 @@ function AnswerFields({ exercise, formId, disabled }: { exercise: ExerciseState;
       <>
         <fieldset disabled={disabled}>
           <legend className="mb-2 font-bold">Your choice</legend>
-          {exercise.prompt.choices?.map((c) => (
-            <label key={c.value} className="mb-1 flex items-center gap-2">
-              <input type="radio" name="choice" value={c.value} defaultChecked={lastChoice === c.value} required className="h-5 w-5" />
-              {c.label}
-            </label>
-          ))}
+          {exercise.prompt.choices?.map((c) => {
+            // Once answered, the chosen option says so in words and in bold, not only by a pale radio.
+            const chosen = disabled && lastChoice === c.value;
+            return (
+              <label key={c.value} className={`mb-1 flex items-start gap-2 text-ink ${chosen ? "font-bold" : ""}`} data-chosen={chosen || undefined}>
+                <input type="radio" name="choice" value={c.value} defaultChecked={lastChoice === c.value} required className="mt-0.5 h-5 w-5 shrink-0" />
+                <span>
+                  {c.label}
+                  {chosen && " "}
+                  {chosen && <span className="ml-1 rounded bg-spruce-wash px-1.5 text-[length:var(--text-step--1)] text-ink">your answer</span>}
+                </span>
+              </label>
+            );
+          })}
         </fieldset>
         <label htmlFor={`${formId}-reason`} className="mt-3 mb-1 block font-bold">
           Why? (your {reader} reads this)
@@ -140,53 +148,7 @@ function AnswerFields({ exercise, formId, disabled }: { exercise: ExerciseState;
     } catch {
       lastCells = [];
     }
-    let cell = 0;
-    const { columns, rows } = exercise.prompt.table;
-    return (
-      <div className="overflow-x-auto">
-        <table className="border-collapse">
-          <thead>
-            <tr>
-              {columns.map((c) => (
-                <th key={c} scope="col" className="border-b-2 border-ink-soft px-3 py-1 text-left">
-                  {c}
-                </th>
-              ))}
-            </tr>
-          </thead>
-          <tbody>
-            {rows.map((row, r) => (
-              <tr key={r}>
-                {row.map((value, c) => {
-                  if (value !== null) {
-                    return (
-                      <td key={c} className="border-b border-rule px-3 py-1 tabular-nums">
-                        {value}
-                      </td>
-                    );
-                  }
-                  const index = cell++;
-                  return (
-                    <td key={c} className="border-b border-rule px-2 py-1">
-                      <input
-                        name="cell"
-                        aria-label={typeof row[0] === "string" && c > 0 ? `${columns[c]}, ${row[0]}` : `${columns[c]}, row ${r + 1}`}
-                        className="field w-32"
-                        autoComplete="off"
-                        maxLength={60}
-                        defaultValue={lastCells[index] ?? ""}
-                        disabled={disabled}
-                        required
-                      />
-                    </td>
-                  );
-                })}
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </div>
-    );
+    return <TableFields table={exercise.prompt.table} lastCells={lastCells} disabled={disabled} wrongCells={wrongCells} feedbackId={`${formId}-feedback`} />;
   }
   return (
     <>
@@ -204,6 +166,102 @@ function AnswerFields({ exercise, formId, disabled }: { exercise: ExerciseState;
         disabled={disabled}
         required
       />
+    </>
+  );
+}
+
+/** Whether a box's content is wider than the box (it scrolls sideways), kept up to date as either changes size. */
+function useOverflows<T extends HTMLElement>() {
+  const ref = useRef<T>(null);
+  const [overflows, setOverflows] = useState(false);
+  useEffect(() => {
+    const box = ref.current;
+    if (!box) return;
+    const measure = () => setOverflows(box.scrollWidth > box.clientWidth + 1);
+    measure();
+    const observer = new ResizeObserver(measure);
+    observer.observe(box);
+    if (box.firstElementChild) observer.observe(box.firstElementChild);
+    return () => observer.disconnect();
+  }, []);
+  return { ref, overflows };
+}
+
+/**
+ * The empty cells of a table exercise. The cells the last check found wrong or unreadable are marked
+ * (aria-invalid, a red dashed border) until the next check. On a narrow screen the inputs are
+ * narrower, and a table still wider than its box says that it scrolls sideways.
+ */
+function TableFields({
+  table,
+  lastCells,
+  disabled,
+  wrongCells,
+  feedbackId,
+}: {
+  table: NonNullable<ExerciseState["prompt"]["table"]>;
+  lastCells: string[];
+  disabled: boolean;
+  wrongCells: number[];
+  feedbackId: string;
+}) {
+  const { ref, overflows } = useOverflows<HTMLDivElement>();
+  const hintId = useId();
+  const { columns, rows } = table;
+  let cell = 0;
+  return (
+    <>
+      {overflows && (
+        <p id={hintId} className="mb-2 text-[length:var(--text-step--1)] text-ink-soft" data-testid="table-scroll-hint">
+          The table is wider than the screen: swipe it sideways to see every column.
+        </p>
+      )}
+      <div ref={ref} className="overflow-x-auto" data-testid="table-box">
+        <table className="border-collapse">
+          <thead>
+            <tr>
+              {columns.map((c) => (
+                <th key={c} scope="col" className="border-b-2 border-ink-soft px-2 py-1 text-left sm:px-3">
+                  {c}
+                </th>
+              ))}
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((row, r) => (
+              <tr key={r}>
+                {row.map((value, c) => {
+                  if (value !== null) {
+                    return (
+                      <td key={c} className="border-b border-rule px-2 py-1 tabular-nums sm:px-3">
+                        {value}
+                      </td>
+                    );
+                  }
+                  const index = cell++;
+                  const wrong = wrongCells.includes(index);
+                  return (
+                    <td key={c} className="border-b border-rule px-1 py-1 sm:px-2">
+                      <input
+                        name="cell"
+                        aria-label={typeof row[0] === "string" && c > 0 ? `${columns[c]}, ${row[0]}` : `${columns[c]}, row ${r + 1}`}
+                        aria-invalid={wrong || undefined}
+                        aria-describedby={[wrong ? feedbackId : null, overflows ? hintId : null].filter(Boolean).join(" ") || undefined}
+                        className={`field w-24 sm:w-32 ${wrong ? "border-dashed border-danger bg-ember-wash" : ""}`}
+                        autoComplete="off"
+                        maxLength={60}
+                        defaultValue={lastCells[index] ?? ""}
+                        disabled={disabled}
+                        required
+                      />
+                    </td>
+                  );
+                })}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
     </>
   );
 }
