@@ -219,7 +219,7 @@ const KNOWN_NGSS = new Set([
   "HS-ETS1-4",
 ]);
 /** The components a lesson's MDX may use (app/components/lesson/index.ts). */
-const LESSON_COMPONENTS = new Set(["Caution", "DataTable", "Equation", "Exercise", "ForceChart", "Hint", "PhotoUpload", "Prediction", "ReadingsEntry", "WrittenAnswer"]);
+const LESSON_COMPONENTS = new Set(["AfterPrediction", "Caution", "DataTable", "Equation", "Exercise", "ForceChart", "Hint", "PhotoUpload", "Prediction", "ReadingsEntry", "WrittenAnswer"]);
 const ALL_KINDS: ExerciseKind[] = ["number", "ratio", "choice", "table", "own-data"];
 /** The readings columns the lesson components know (DataTable also shows a mass in grams). */
 const CSV_COLUMNS = new Set(["forceN", "readingCm", "deformationCm", "returnReadingCm", "broke", "massG"]);

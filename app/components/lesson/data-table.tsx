@@ -11,7 +11,7 @@ export function parseCsv(csv: string): { columns: string[]; rows: string[][] } {
 const HEADINGS: Record<string, string> = {
   forceN: "Force (N)",
   readingCm: "Loaded reading (cm)",
-  returnReadingCm: "Reading after unloading (cm)",
+  returnReadingCm: "Return reading, load off (cm)",
   deformationCm: "Deformation (cm)",
   broke: "Broke?",
   massG: "Mass (g)",

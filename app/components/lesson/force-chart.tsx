@@ -9,23 +9,29 @@ const W = 520;
 const H = 320;
 const PAD = { left: 56, right: 20, top: 20, bottom: 48 };
 
-function niceMax(value: number): number {
-  if (!(value > 0)) return 1;
-  const exponent = Math.floor(Math.log10(value));
-  const base = 10 ** exponent;
-  for (const step of [1, 2, 2.5, 5, 10]) if (value <= step * base) return step * base;
+/** A round step for about five gridlines up to `value` (1, 2, 2.5 or 5 times a power of ten). */
+function niceStep(value: number): number {
+  const rough = value / 5;
+  const base = 10 ** Math.floor(Math.log10(rough));
+  for (const step of [1, 2, 2.5, 5]) if (rough <= step * base) return step * base;
   return 10 * base;
 }
 
-function ticks(max: number): number[] {
-  const step = max / 5;
-  return Array.from({ length: 6 }, (_, i) => Number((i * step).toPrecision(6)));
+/** The axis's end and its gridlines: the first whole step at or past `value` (5.5 cm → 0, 2, 4, 6; not 0 to 10). */
+export function chartAxis(value: number): { max: number; ticks: number[] } {
+  if (!(value > 0)) return { max: 1, ticks: [0, 0.2, 0.4, 0.6, 0.8, 1] };
+  const step = niceStep(value);
+  const count = Math.ceil(value / step - 1e-9);
+  return { max: count * step, ticks: Array.from({ length: count + 1 }, (_, i) => Number((i * step).toPrecision(6))) };
 }
 
 export function ForceChartFromAnalysis({ analysis, title }: { analysis: AnalysisResult; title: string }) {
   const points = analysis.points.filter((p) => p.deformationCm !== null) as { forceN: number; deformationCm: number }[];
-  const xMax = niceMax(Math.max(0, ...points.map((p) => p.deformationCm)) * 1.1);
-  const yMax = niceMax(Math.max(0, ...points.map((p) => p.forceN)) * 1.1);
+  const xAxis = chartAxis(Math.max(0, ...points.map((p) => p.deformationCm)) * 1.05);
+  const yAxis = chartAxis(Math.max(0, ...points.map((p) => p.forceN)) * 1.05);
+  const [xMax, yMax] = [xAxis.max, yAxis.max];
+  // The step it broke at is drawn apart: it is left out of both lines.
+  const brokeAt = analysis.breakingLoadN === null ? -1 : points.findIndex((p) => p.forceN === analysis.breakingLoadN);
   const x = (cm: number) => PAD.left + (cm / xMax) * (W - PAD.left - PAD.right);
   const y = (n: number) => H - PAD.bottom - (n / yMax) * (H - PAD.top - PAD.bottom);
   // One clip area per chart (a page can show several): an id React makes the same on server and browser.
@@ -39,13 +45,13 @@ export function ForceChartFromAnalysis({ analysis, title }: { analysis: Analysis
     <figure className="my-6">
       <svg viewBox={`0 0 ${W} ${H}`} className="w-full max-w-xl" role="img" aria-label={`${title}. ${describe}`}>
         <rect x="0" y="0" width={W} height={H} fill="#fff" />
-        {ticks(xMax).map((t) => (
+        {xAxis.ticks.map((t) => (
           <g key={`x${t}`}>
             <line x1={x(t)} x2={x(t)} y1={PAD.top} y2={H - PAD.bottom} stroke="#e7e1d4" />
             <text x={x(t)} y={H - PAD.bottom + 18} fontSize="12" textAnchor="middle" fill="#46524f">{t}</text>
           </g>
         ))}
-        {ticks(yMax).map((t) => (
+        {yAxis.ticks.map((t) => (
           <g key={`y${t}`}>
             <line x1={PAD.left} x2={W - PAD.right} y1={y(t)} y2={y(t)} stroke="#e7e1d4" />
             <text x={PAD.left - 8} y={y(t) + 4} fontSize="12" textAnchor="end" fill="#46524f">{t}</text>
@@ -67,12 +73,17 @@ export function ForceChartFromAnalysis({ analysis, title }: { analysis: Analysis
         {free.slope !== null && free.intercept !== null && (
           <line x1={x(0)} y1={y(free.intercept)} x2={x(xMax)} y2={y(free.intercept + free.slope * xMax)} stroke="#a8401a" strokeWidth="2" strokeDasharray="7 5" clipPath={`url(#${clipId})`} />
         )}
-        {points.map((p, i) => (
-          <circle key={i} cx={x(p.deformationCm)} cy={y(p.forceN)} r="5" fill="#1c2726" />
-        ))}
+        {points.map((p, i) =>
+          i === brokeAt ? (
+            <path key={i} d={`M${x(p.deformationCm) - 6} ${y(p.forceN) - 6}l12 12m0 -12l-12 12`} stroke="#a8401a" strokeWidth="3" />
+          ) : (
+            <circle key={i} cx={x(p.deformationCm)} cy={y(p.forceN)} r="5" fill="#1c2726" />
+          ),
+        )}
       </svg>
       <figcaption className="mt-2 font-ui text-[length:var(--text-step--1)] text-ink-soft">
         <span className="font-bold">{title}.</span> Solid line: best line through the origin. Dashed line: best line with a free intercept.
+        {brokeAt >= 0 ? ` Cross: the load it broke at (${points[brokeAt].forceN} N), left out of both lines.` : ""}
       </figcaption>
     </figure>
   );

@@ -6,11 +6,12 @@ import { Exercise } from "./exercise";
 import { ForceChart } from "./force-chart";
 import { Caution, Hint } from "./notes";
 import { PhotoUpload } from "./photo-upload";
-import { Prediction } from "./prediction";
+import { AfterPrediction, Prediction } from "./prediction";
 import { ReadingsEntry } from "./readings-entry";
 import { WrittenAnswer } from "./written-answer";
 
 export const lessonComponents = {
+  AfterPrediction,
   Caution,
   DataTable,
   Equation,

@@ -1,4 +1,6 @@
-// A prediction the student commits before the data is shown; it is kept as first given.
+// A prediction the student commits before the data is shown; it is kept as first given. Its children
+// (the data) show once it is committed; <AfterPrediction> holds back a later passage that would give
+// the answer away (a lesson's explanations often come after the data).
 import { useFetcher } from "react-router";
 import { useLesson } from "./lesson-context";
 
@@ -56,5 +58,16 @@ export function Prediction({ id, question, options, children }: {
         Commit my prediction and read on
       </button>
     </fetcher.Form>
+  );
+}
+
+/** A later passage of the lesson that shows only once the prediction `id` is committed (or to an adult, or in a closed lesson). */
+export function AfterPrediction({ id, children }: { id: string; children: React.ReactNode }) {
+  const { state, canAnswer } = useLesson();
+  if (state.predictions[id] || !canAnswer) return <>{children}</>;
+  return (
+    <p className="my-4 font-ui text-[length:var(--text-step--1)] text-ink-soft" data-testid="after-prediction">
+      More about this comes once you have committed your prediction above.
+    </p>
   );
 }
