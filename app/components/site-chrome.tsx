@@ -13,7 +13,7 @@ function AccountNav({ account }: { account: HeaderAccount }) {
   return (
     <>
       {account.homes.map((home) => (
-        <NavLink key={home.path} to={home.path} className={({ isActive }) => (isActive ? "font-bold no-underline" : undefined)}>
+        <NavLink key={home.path} to={home.path} className={({ isActive }) => (isActive ? "tap font-bold no-underline" : "tap")}>
           {home.label}
         </NavLink>
       ))}
@@ -45,8 +45,8 @@ export function SiteHeader({ children }: { children?: React.ReactNode }) {
               <AccountNav account={account} />
             ) : (
               <>
-                <Link to="/tools/analyse">Analyse readings</Link>
-                <Link to="/#pricing">Pricing</Link>
+                <Link to="/tools/analyse" className="tap">Analyse readings</Link>
+                <Link to="/#pricing" className="tap">Pricing</Link>
                 <Link to="/sign-in" className="btn">
                   Sign in
                 </Link>

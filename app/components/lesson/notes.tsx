@@ -11,7 +11,7 @@ export function Caution({ children }: { children: React.ReactNode }) {
 export function Hint({ children, label = "Need a hint?" }: { children: React.ReactNode; label?: string }) {
   return (
     <details className="my-4 rounded-lg border border-rule bg-card px-4 py-2">
-      <summary className="cursor-pointer font-ui font-bold text-spruce">{label}</summary>
+      <summary className="cursor-pointer py-1.5 font-ui font-bold text-spruce">{label}</summary>
       <div className="pt-2 [&>p]:my-1">{children}</div>
     </details>
   );
