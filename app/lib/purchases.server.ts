@@ -31,6 +31,8 @@ export const META = {
 } as const;
 
 export const PURCHASE_ORDER_FIELD = "Purchase order";
+/** The longest purchase-order number we accept; a longer one is refused, never cut to fit the invoice. */
+export const PURCHASE_ORDER_MAX = 40;
 
 const sqlIncrement = () => sql`${paymentEvents.deliveries} + 1`;
 
@@ -228,6 +230,7 @@ export async function requestInvoice(
 ): Promise<{ purchaseId: string; invoiceNumber: string | null; invoiceUrl: string | null }> {
   const { db, stripe } = deps;
   assertOrder(request);
+  if ([...request.purchaseOrder].length > PURCHASE_ORDER_MAX) throw new Error(`a purchase-order number has at most ${PURCHASE_ORDER_MAX} characters; it is never cut`);
   const org = await organisationFor(db, request.organisationId);
   const unitAmount = seatPriceCents(org.kind);
   const [purchase] = await db

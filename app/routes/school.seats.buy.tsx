@@ -11,33 +11,32 @@ import { serverEnv } from "~/env.server";
 import { assertSameOrigin, requireRole } from "~/lib/auth.server";
 import { payments } from "~/lib/payments.server";
 import { formatPrice, SCHOOL_SEAT_PRICE_CENTS } from "~/lib/pricing";
-import { PaymentServiceError, requestInvoice, startCardCheckout } from "~/lib/purchases.server";
+import { PaymentServiceError, PURCHASE_ORDER_MAX, requestInvoice, startCardCheckout } from "~/lib/purchases.server";
 import { purchasableSchoolYears } from "~/lib/school-year";
+import { rangeWords, readWholeNumber } from "~/lib/teaching/shared";
 import { SendButton } from "~/components/send-button";
 
 const MIN_SEATS_PER_ORDER = 1;
 const MAX_SEATS_PER_ORDER = 5000;
-const SEATS_RANGE = `Choose between ${MIN_SEATS_PER_ORDER} and ${MAX_SEATS_PER_ORDER.toLocaleString("en-US")} seats for one order.`;
-
-const blankToUndefined = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
 
 const purchaseOrderSchema = z
   .string()
   .trim()
-  .max(40, "A purchase-order number has at most 40 characters.")
+  .refine((po) => [...po].length <= PURCHASE_ORDER_MAX, {
+    error: (issue) =>
+      `A purchase-order number has at most ${PURCHASE_ORDER_MAX} characters; this one has ${[...String(issue.input)].length.toLocaleString("en-US")}. Check that only the number was pasted.`,
+  })
   .regex(/^[\p{L}\p{N} ./#_-]*$/u, "Use letters, digits, spaces and . / # _ - only.")
   .default("");
 const methodSchema = z.enum(["card", "invoice"], { error: "Choose how the school will pay: by card now, or by invoice." });
 
 /** The number of seats: the order checks it, and the page checks it as it is typed to show the total or what is wrong. */
-const seatsSchema = z.preprocess(
-  blankToUndefined,
-  z.coerce
-    .number({ error: "Enter how many seats, as a whole number (for example 30)." })
-    .int("Enter a whole number of seats (for example 30).")
-    .min(MIN_SEATS_PER_ORDER, SEATS_RANGE)
-    .max(MAX_SEATS_PER_ORDER, SEATS_RANGE),
-);
+const seatsSchema = z.string().transform((typed, ctx) => {
+  const seats = readWholeNumber(typed, MIN_SEATS_PER_ORDER, MAX_SEATS_PER_ORDER, "seats");
+  if (seats.ok) return seats.value;
+  ctx.addIssue({ code: "custom", message: seats.message });
+  return z.NEVER;
+});
 
 function seatOrderSchema(years: readonly string[]) {
   return z
@@ -63,13 +62,14 @@ export async function loader({ request }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const years = purchasableSchoolYears();
   const year = url.searchParams.get("year");
-  const seats = Number(url.searchParams.get("seats"));
+  const seats = url.searchParams.get("seats") ?? "";
   return {
     school: membership.organisationName,
     years,
     price: SCHOOL_SEAT_PRICE_CENTS,
+    purchaseOrderMax: PURCHASE_ORDER_MAX,
     defaults: {
-      seats: seatsSchema.safeParse(seats).success ? String(seats) : "10",
+      seats: seatsSchema.safeParse(seats).success ? seats : "10",
       schoolYear: year && years.includes(year) ? year : years[0],
       method: "card",
       purchaseOrder: "",
@@ -111,7 +111,7 @@ export async function action({ request }: Route.ActionArgs) {
 }
 
 export default function BuySeats({ loaderData, actionData }: Route.ComponentProps) {
-  const { school, years, price, defaults } = loaderData;
+  const { school, years, price, purchaseOrderMax, defaults } = loaderData;
   const values = actionData?.values ?? defaults;
   const errors = actionData?.fieldErrors ?? {};
   const [seats, setSeats] = useState(values.seats);
@@ -137,13 +137,11 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
       <Form method="post" className="card" noValidate>
         <Field
           label="How many seats?"
-          hint={`One seat is one student for one school year, ${formatPrice(price)} each.`}
+          hint={`One seat is one student for one school year, ${formatPrice(price)} each. In digits, ${rangeWords(MIN_SEATS_PER_ORDER, MAX_SEATS_PER_ORDER)} in one order.`}
           name="seats"
-          type="number"
+          type="text"
           inputMode="numeric"
-          min={1}
-          max={MAX_SEATS_PER_ORDER}
-          step={1}
+          autoComplete="off"
           required
           value={seats}
           onChange={(e) => setSeats(e.currentTarget.value)}
@@ -205,10 +203,9 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
 
         <Field
           label={method === "invoice" ? "Purchase-order number" : "Purchase-order number (only for an invoice)"}
-          hint="As your school's office gave it, e.g. PO-2026-0147. Up to 40 characters."
+          hint={`As your school's office gave it, e.g. PO-2026-0147. Up to ${purchaseOrderMax} characters.`}
           name="purchaseOrder"
           autoComplete="off"
-          maxLength={40}
           defaultValue={values.purchaseOrder}
           error={errors.purchaseOrder}
         />

@@ -9,7 +9,7 @@ import { latePolicy } from "~/db/schema.server";
 import { assertSameOrigin } from "~/lib/auth.server";
 import { listLessons } from "~/lib/lessons.server";
 import { assignedMessage, assignLesson, classAccommodations, classAssignments, unassignLesson } from "~/lib/teaching/assignments.server";
-import { LATE_POLICY_WORDS, lateRuleInWords } from "~/lib/teaching/shared";
+import { LATE_POLICY_WORDS, lateRuleInWords, MAX_PENALTY_PERCENT, rangeWords, readWholeNumber } from "~/lib/teaching/shared";
 import { classHeading } from "~/lib/teaching/classes.server";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { classRoster } from "~/lib/teaching/roster.server";
@@ -21,8 +21,9 @@ const intentSchema = z.discriminatedUnion("intent", [
   z.object({
     intent: z.literal("assign"),
     slug: z.string().min(1).max(80),
-    opensAt: z.string().min(1, "Give the opening date and time."),
-    dueAt: z.string().min(1, "Give the due date and time."),
+    // An empty or unreadable date is named beside its field by the action.
+    opensAt: z.string().default(""),
+    dueAt: z.string().default(""),
     latePolicy: z.enum(latePolicy.enumValues, { error: "Choose what happens to late work." }),
     latePenaltyPercent: z.string().default("0"),
   }),
@@ -98,10 +99,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   const dueAt = zonedInputToDate(input.dueAt, klass.timeZone);
   if (!opensAt) errors.opensAt = "Give the opening as a date and a time.";
   if (!dueAt) errors.dueAt = "Give the due date as a date and a time.";
-  const penalty = Number(input.latePenaltyPercent || 0);
-  if (input.latePolicy === "penalty" && !(Number.isInteger(penalty) && penalty >= 1 && penalty <= 100)) {
-    errors.latePenaltyPercent = "Give the points lost per day late as a whole number from 1 to 100.";
-  }
+  // The points lost per day count only when late work loses points; then they are 1 to 100, digits only.
+  const penaltyRead = input.latePolicy === "penalty" ? readWholeNumber(input.latePenaltyPercent, 1, MAX_PENALTY_PERCENT) : ({ ok: true, value: 0 } as const);
+  if (!penaltyRead.ok) errors.latePenaltyPercent = penaltyRead.message;
+  const penalty = penaltyRead.ok ? penaltyRead.value : 0;
   if (Object.keys(errors).length > 0) return data({ slug: input.slug, errors }, { status: 400 });
   const assignment = { slug: input.slug, opensAt: opensAt!, dueAt: dueAt!, latePolicy: input.latePolicy, latePenaltyPercent: penalty };
   const result = await assignLesson({ db }, klass, assignment);
@@ -200,7 +201,7 @@ function AssignForm({ lesson, errors, busy }: { lesson: LessonRow; errors: Recor
       </p>
     ) : null;
   return (
-    <Form method="post" preventScrollReset key={a ? `${a.opensAt}|${a.dueAt}|${a.latePolicy}|${a.latePenaltyPercent}` : "new"}>
+    <Form method="post" preventScrollReset noValidate key={a ? `${a.opensAt}|${a.dueAt}|${a.latePolicy}|${a.latePenaltyPercent}` : "new"}>
       <input type="hidden" name="intent" value="assign" />
       <input type="hidden" name="slug" value={lesson.slug} />
       <div className="grid gap-x-4 sm:grid-cols-2 lg:grid-cols-4">
@@ -226,8 +227,20 @@ function AssignForm({ lesson, errors, busy }: { lesson: LessonRow; errors: Recor
         </div>
         <div className="mb-3">
           <label htmlFor={id("penalty")} className="mb-1 block font-bold">Points lost per day late</label>
-          <input id={id("penalty")} name="latePenaltyPercent" type="number" min={0} max={100} step={1} inputMode="numeric" className="field" defaultValue={a?.latePenaltyPercent || 10} aria-describedby={id("penalty-hint")} aria-invalid={errors.latePenaltyPercent ? true : undefined} />
-          <p id={id("penalty-hint")} className="mt-1 text-[length:var(--text-step--1)] text-ink-soft">Percent; used only when late work loses points.</p>
+          <input
+            id={id("penalty")}
+            name="latePenaltyPercent"
+            type="text"
+            inputMode="numeric"
+            autoComplete="off"
+            className="field"
+            defaultValue={a?.latePenaltyPercent || 10}
+            aria-describedby={errors.latePenaltyPercent ? `${id("penalty-hint")} ${id("latePenaltyPercent-error")}` : id("penalty-hint")}
+            aria-invalid={errors.latePenaltyPercent ? true : undefined}
+          />
+          <p id={id("penalty-hint")} className="mt-1 text-[length:var(--text-step--1)] text-ink-soft">
+            Percent of the score, a whole number {rangeWords(1, MAX_PENALTY_PERCENT)}; used only when late work loses points.
+          </p>
           {error("latePenaltyPercent")}
         </div>
       </div>

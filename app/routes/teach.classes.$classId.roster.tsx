@@ -41,7 +41,7 @@ const intentSchema = z.discriminatedUnion("intent", [
     gradeBand,
     password: z.string().default(""),
   }),
-  z.object({ intent: z.literal("add-existing"), username: z.string().trim().toLowerCase().min(1, "Type the student's username.").max(60) }),
+  z.object({ intent: z.literal("add-existing"), username: z.string().trim().toLowerCase() }),
   z.object({ intent: z.literal("import-csv"), csv: z.string().max(MAX_ROSTER_BYTES * 2), gradeBand, fileName: z.string().max(200).default("") }),
 ]);
 
@@ -107,6 +107,8 @@ export async function action({ request, params }: Route.ActionArgs) {
       return reply({ intent: "added", added: result.added });
     }
     case "add-existing": {
+      if (!input.username) return reply({ intent: "add-existing", error: "Type the student's username." }, 400);
+      if (input.username.length > USERNAME_MAX) return reply({ intent: "add-existing", error: `That is longer than any username: a username has at most ${USERNAME_MAX} characters.` }, 400);
       const result = await addExistingStudent({ db }, klass, input.username);
       return result.ok
         ? reply({ intent: "add-existing", done: `${result.displayName} is now in this class.` })
@@ -244,12 +246,12 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
         <section className="card" aria-labelledby="add-one">
           <h2 id="add-one" className="mb-3 text-[length:var(--text-step-1)]">Add one student</h2>
           {addOne?.seatNotice ? <NoFreeSeatNotice notice={addOne.seatNotice} /> : addOne?.errors.form ? <Notice tone="problem">{addOne.errors.form}</Notice> : null}
-          <Form method="post" preventScrollReset key={added ? added.map((a) => a.username).join() : "add-one"}>
+          <Form method="post" preventScrollReset noValidate key={added ? added.map((a) => a.username).join() : "add-one"}>
             <input type="hidden" name="intent" value="add-one" />
-            <TextField label="Display name" hint="First name and initial is enough." name="displayName" required maxLength={60} autoComplete="off" defaultValue={addOne?.values.displayName} error={addOne?.errors.displayName} />
-            <TextField label="Username" hint={`${USERNAME_RULE}; unique at your school.`} name="username" required maxLength={USERNAME_MAX} autoComplete="off" autoCapitalize="none" spellCheck={false} defaultValue={addOne?.values.username} error={addOne?.errors.username} />
+            <TextField label="Display name" hint="First name and initial is enough; up to 60 characters." name="displayName" required autoComplete="off" defaultValue={addOne?.values.displayName} error={addOne?.errors.displayName} />
+            <TextField label="Username" hint={`${USERNAME_RULE}; unique at your school.`} name="username" required autoComplete="off" autoCapitalize="none" spellCheck={false} defaultValue={addOne?.values.username} error={addOne?.errors.username} />
             <SelectField label="Grade band" name="gradeBand" defaultValue={addOne?.values.gradeBand ?? "6-8"} options={BANDS} />
-            <TextField label="Student number (optional)" name="studentNumber" maxLength={30} autoComplete="off" defaultValue={addOne?.values.studentNumber} error={addOne?.errors.studentNumber} />
+            <TextField label="Student number (optional)" hint="Up to 30 characters." name="studentNumber" autoComplete="off" defaultValue={addOne?.values.studentNumber} error={addOne?.errors.studentNumber} />
             <TextField label="First password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" error={addOne?.errors.password} />
             <SendButton className="btn" busy={busy}>Add the student</SendButton>
           </Form>
@@ -259,9 +261,9 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
           <p className="mb-3 text-ink-soft">For a student at your school who is in another class already. They keep their password and their work.</p>
           {existing?.done ? <Notice tone="done">{existing.done}</Notice> : null}
           {existing?.seatNotice ? <NoFreeSeatNotice notice={existing.seatNotice} /> : null}
-          <Form method="post" preventScrollReset>
+          <Form method="post" preventScrollReset noValidate>
             <input type="hidden" name="intent" value="add-existing" />
-            <TextField label="Their username" name="username" required maxLength={60} autoComplete="off" autoCapitalize="none" spellCheck={false} error={existing?.seatNotice ? undefined : existing?.error} />
+            <TextField label="Their username" name="username" required autoComplete="off" autoCapitalize="none" spellCheck={false} error={existing?.seatNotice ? undefined : existing?.error} />
             <SendButton className="btn btn-quiet" busy={busy}>Add to this class</SendButton>
           </Form>
         </section>

@@ -4,14 +4,15 @@ import { z } from "zod";
 import type { Route } from "./+types/teach.classes.$classId.settings";
 import { db } from "~/db/client.server";
 import { assertSameOrigin } from "~/lib/auth.server";
-import { classHeading, renameClass, renewClassCode, setArchived, setClassTimeZone, spacedCode } from "~/lib/teaching/classes.server";
+import { classHeading, renameClass, renewClassCode, setArchived, setClassTimeZone, spacedCode, tidyClassName } from "~/lib/teaching/classes.server";
+import { CLASS_NAME_MAX, classNameProblem } from "~/lib/teaching/shared";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
 import { timeZoneMenu } from "~/lib/teaching/time";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
 import { SendButton } from "~/components/send-button";
 
 const intentSchema = z.discriminatedUnion("intent", [
-  z.object({ intent: z.literal("rename"), name: z.string().trim().min(1, "Give the class a name.").max(80, "Keep the name under 80 characters.") }),
+  z.object({ intent: z.literal("rename"), name: z.string() }),
   z.object({ intent: z.literal("time-zone"), timeZone: z.string().max(64) }),
   z.object({ intent: z.literal("renew-code") }),
   z.object({ intent: z.literal("archive") }),
@@ -34,8 +35,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   const input = parsed.data;
   switch (input.intent) {
     case "rename": {
+      const problem = classNameProblem(input.name, "Give the class a name.");
+      if (problem) return data({ intent: input.intent, field: "name", message: problem }, { status: 400 });
       const done = await renameClass({ db }, klass, input.name);
-      return done.ok ? { intent: input.intent, done: `The class is now called “${input.name}”.` } : data({ intent: input.intent, field: done.field, message: done.message }, { status: 400 });
+      return done.ok ? { intent: input.intent, done: `The class is now called “${tidyClassName(input.name)}”.` } : data({ intent: input.intent, field: done.field, message: done.message }, { status: 400 });
     }
     case "time-zone": {
       const done = await setClassTimeZone({ db }, klass, input.timeZone);
@@ -72,9 +75,9 @@ export default function ClassSettings({ loaderData, actionData }: Route.Componen
         <section className="card" aria-labelledby="rename">
           <h2 id="rename" className="mb-3 text-[length:var(--text-step-1)]">Name</h2>
           {message("rename")}
-          <Form method="post" preventScrollReset key={klass.name}>
+          <Form method="post" preventScrollReset noValidate key={klass.name}>
             <input type="hidden" name="intent" value="rename" />
-            <TextField label="Class name" name="name" defaultValue={klass.name} required maxLength={80} error={error("rename")} />
+            <TextField label="Class name" hint={`Up to ${CLASS_NAME_MAX} characters.`} name="name" defaultValue={klass.name} required error={error("rename")} />
             <SendButton className="btn" busy={busy}>Rename</SendButton>
           </Form>
         </section>

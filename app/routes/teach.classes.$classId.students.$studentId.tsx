@@ -14,7 +14,7 @@ import { classHeading } from "~/lib/teaching/classes.server";
 import { gradebookView, loadGradebook } from "~/lib/teaching/gradebook.server";
 import { notFound, requireTeacherClass } from "~/lib/teaching/guard.server";
 import { reviewAction } from "~/lib/teaching/review-action.server";
-import { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS, rubricTotal, type GradebookCell } from "~/lib/teaching/shared";
+import { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS, rangeWords, readWholeNumber, rubricTotal, type GradebookCell } from "~/lib/teaching/shared";
 import { findClassStudent, moveStudent, moveTargets, removeFromClass, setStudentPassword } from "~/lib/teaching/roster.server";
 import { loadStudentWork } from "~/lib/teaching/student-work.server";
 import { DAY_MS, formatDue, formatMoment } from "~/lib/teaching/time";
@@ -27,22 +27,21 @@ import { hasWriting, writtenAnswerView } from "~/lib/teaching/review.server";
 import { SendButton } from "~/components/send-button";
 
 const STUDENT_NOT_FOUND = "There is no such student in this class.";
-const whole = (max: number, what: string) =>
-  z.coerce.number({ error: `Give the ${what} as a whole number.` }).int(`Give the ${what} as a whole number.`).min(0, `The ${what} cannot be below 0.`).max(max, `At most ${max} ${what}.`);
 
 const intentSchema = z.discriminatedUnion("intent", [
   z.object({
     intent: z.literal("password"),
     // A guard against pasted essays; the password rules themselves (setStudentPassword) say the real limits.
-    password: z.string().max(256, "That is longer than we keep (256 characters). Please shorten it, or leave the field empty for one made up for you.").default(""),
+    password: z.string().max(256, "A password can be at most 256 characters long. Shorten it, or leave the field empty for one made up for you.").default(""),
   }),
   z.object({ intent: z.literal("move"), toClassId: z.uuid("Choose a class.") }),
   z.object({ intent: z.literal("remove") }),
   z.object({
     intent: z.literal("accommodation"),
     scope: z.string().max(40),
-    extraAttempts: whole(MAX_EXTRA_ATTEMPTS, "extra tries"),
-    extraDays: whole(MAX_EXTRA_DAYS, "extra days"),
+    // Read by readWholeNumber in the action: an empty field is refused there, never taken for 0.
+    extraAttempts: z.string().default(""),
+    extraDays: z.string().default(""),
   }),
 ]);
 
@@ -164,12 +163,19 @@ export async function action({ request, params }: Route.ActionArgs) {
     case "accommodation": {
       const assignmentId = input.scope === "class" ? null : z.uuid().safeParse(input.scope).data;
       if (assignmentId === undefined) return data({ intent: input.intent, error: "Choose which lessons this is for." }, { status: 400 });
-      const result = await setAccommodation({ db }, klass, { studentId: student.id, assignmentId, extraAttempts: input.extraAttempts, extraDays: input.extraDays });
-      if (!result.ok) return data({ intent: input.intent, error: result.message }, { status: 400 });
+      const values = { extraAttempts: input.extraAttempts, extraDays: input.extraDays };
+      const tries = readWholeNumber(input.extraAttempts, 0, MAX_EXTRA_ATTEMPTS);
+      const days = readWholeNumber(input.extraDays, 0, MAX_EXTRA_DAYS);
+      if (!tries.ok || !days.ok) {
+        const fieldErrors = { extraAttempts: tries.ok ? undefined : tries.message, extraDays: days.ok ? undefined : days.message };
+        return data({ intent: input.intent, error: "Nothing was saved: fix what is marked below (0 and 0 removes the extra tries and days).", fieldErrors, values }, { status: 400 });
+      }
+      const result = await setAccommodation({ db }, klass, { studentId: student.id, assignmentId, extraAttempts: tries.value, extraDays: days.value });
+      if (!result.ok) return data({ intent: input.intent, error: result.message, values }, { status: 400 });
       return {
         intent: input.intent,
         done:
-          input.extraAttempts === 0 && input.extraDays === 0
+          tries.value === 0 && days.value === 0
             ? "Removed. The class's usual tries and due dates apply."
             : "Saved. It applies from now on, without any sign on the student's page.",
       };
@@ -177,7 +183,16 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
 }
 
-type Answer = { intent: string; error?: string; done?: string; password?: string; movedTo?: string; removed?: boolean };
+type Answer = {
+  intent: string;
+  error?: string;
+  done?: string;
+  password?: string;
+  movedTo?: string;
+  removed?: boolean;
+  fieldErrors?: { extraAttempts?: string; extraDays?: string };
+  values?: { extraAttempts: string; extraDays: string };
+};
 
 /**
  * After a move or a removal the student is no longer in this class, so this page's loader would answer
@@ -193,6 +208,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
   const { klass, student, row, lessonCount, lessons, accommodations, scopes, targets } = loaderData;
   const busy = useNavigation().state === "submitting";
   const answer = actionData as Answer | undefined;
+  const accommodationAnswer = answer?.intent === "accommodation" ? answer : undefined;
   const about = (intent: string) =>
     answer?.intent === intent ? (
       answer.error ? (
@@ -348,12 +364,28 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
               ))}
             </ul>
           ) : null}
-          <Form method="post" preventScrollReset>
+          <Form method="post" preventScrollReset noValidate>
             <input type="hidden" name="intent" value="accommodation" />
             <SelectField label="For" name="scope" options={scopes} />
             <div className="grid grid-cols-2 gap-3">
-              <TextField label="More tries per exercise" name="extraAttempts" type="number" min={0} max={MAX_EXTRA_ATTEMPTS} defaultValue={0} inputMode="numeric" />
-              <TextField label="More days" name="extraDays" type="number" min={0} max={MAX_EXTRA_DAYS} defaultValue={0} inputMode="numeric" />
+              {(
+                [
+                  { name: "extraAttempts", label: "More tries per exercise", max: MAX_EXTRA_ATTEMPTS },
+                  { name: "extraDays", label: "More days", max: MAX_EXTRA_DAYS },
+                ] as const
+              ).map((f) => (
+                <TextField
+                  key={f.name}
+                  label={f.label}
+                  hint={`A whole number ${rangeWords(0, f.max)}.`}
+                  name={f.name}
+                  type="text"
+                  inputMode="numeric"
+                  autoComplete="off"
+                  defaultValue={accommodationAnswer?.values?.[f.name] ?? "0"}
+                  error={accommodationAnswer?.fieldErrors?.[f.name]}
+                />
+              ))}
             </div>
             <p className="mb-3 text-[length:var(--text-step--1)] text-ink-soft">One lesson's setting replaces the class-wide one for that lesson. 0 and 0 removes it.</p>
             <SendButton className="btn" busy={busy}>Save</SendButton>

@@ -10,12 +10,16 @@ import { purchasableSchoolYears, schoolYearOf } from "~/lib/school-year";
 import { classHeading, createClass, listTeacherClasses, spacedCode } from "~/lib/teaching/classes.server";
 import { loadGradebooks } from "~/lib/teaching/gradebook.server";
 import { teacherScope } from "~/lib/teaching/guard.server";
+import { CLASS_NAME_MAX, classNameProblem } from "~/lib/teaching/shared";
 import { Notice, Percent, SelectField, TextField } from "~/components/teaching/ui";
 import { SendButton } from "~/components/send-button";
 
 const createSchema = z.object({
   intent: z.literal("create"),
-  name: z.string().trim().min(1, "Give the class a name, such as “Grade 7 Science, period 2”.").max(80, "Keep the name under 80 characters."),
+  name: z.string().superRefine((name, ctx) => {
+    const problem = classNameProblem(name, "Give the class a name, such as “Grade 7 Science, period 2”.");
+    if (problem) ctx.addIssue({ code: "custom", message: problem });
+  }),
   schoolYear: z.string(),
   organisationId: z.uuid("Choose a school."),
   timeZone: z.string().max(64).default("UTC"),
@@ -129,10 +133,10 @@ export default function TeachClasses({ loaderData }: Route.ComponentProps) {
         <h2 id="new-class" className="mb-3 text-[length:var(--text-step-1)]">
           Make a class
         </h2>
-        <Form method="post" preventScrollReset key={created?.id ?? "new"}>
+        <Form method="post" preventScrollReset noValidate key={created?.id ?? "new"}>
           <input type="hidden" name="intent" value="create" />
           <input type="hidden" name="timeZone" value={timeZone} />
-          <TextField label="Class name" name="name" required maxLength={80} defaultValue={result?.values.name ?? ""} error={errors.name} autoComplete="off" />
+          <TextField label="Class name" hint={`Up to ${CLASS_NAME_MAX} characters; different from your school's other classes of that year.`} name="name" required defaultValue={result?.values.name ?? ""} error={errors.name} autoComplete="off" />
           <SelectField
             label="School year"
             name="schoolYear"

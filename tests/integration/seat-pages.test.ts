@@ -90,16 +90,23 @@ describe("/school/seats/buy", () => {
     expect(bad.body).toEqual({
       values: { seats: "twelve", schoolYear: "2019-20", method: "invoice", purchaseOrder: "" },
       fieldErrors: {
-        seats: "Enter how many seats, as a whole number (for example 30).",
+        seats: "Use digits only: a whole number of seats from 1 to 5,000.",
         schoolYear: "Choose 2026-27 or 2027-28.",
         purchaseOrder: "Enter your purchase-order number; it is printed on the invoice.",
       },
       problem: null,
     });
-    expect((await order({ seats: "", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Enter how many seats, as a whole number (for example 30)." } });
-    expect((await order({ seats: "2.5", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Enter a whole number of seats (for example 30)." } });
-    expect((await order({ seats: "0", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Choose between 1 and 5,000 seats for one order." } });
-    expect((await order({ seats: "5001", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Choose between 1 and 5,000 seats for one order." } });
+    expect((await order({ seats: "", schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Enter a whole number of seats from 1 to 5,000." } });
+    // Digits only: "1e3" is not taken for 1,000 seats, nor "2.5" rounded.
+    for (const seats of ["2.5", "1e3", "-3", "0x10"]) expect((await order({ seats, schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "Use digits only: a whole number of seats from 1 to 5,000." } });
+    // A whole number out of range is told the range, however long it is.
+    for (const seats of ["0", "5001", "99999999999999999999"]) expect((await order({ seats, schoolYear: "2026-27", method: "card" })).body).toMatchObject({ fieldErrors: { seats: "That is outside the range: enter a whole number of seats from 1 to 5,000." } });
+    // A pasted purchase-order number too long for the invoice is refused whole, never cut.
+    const longPo = "PO-" + "7".repeat(5000);
+    expect((await order({ seats: "3", schoolYear: "2026-27", method: "invoice", purchaseOrder: longPo })).body).toMatchObject({
+      values: { purchaseOrder: longPo },
+      fieldErrors: { purchaseOrder: "A purchase-order number has at most 40 characters; this one has 5,003. Check that only the number was pasted." },
+    });
     expect((await order({ seats: "3", schoolYear: "2026-27" })).body).toMatchObject({ fieldErrors: { method: "Choose how the school will pay: by card now, or by invoice." } });
     expect((await order({ seats: "3", schoolYear: "2026-27", method: "invoice", purchaseOrder: "PO<script>" })).body).toMatchObject({
       fieldErrors: { purchaseOrder: "Use letters, digits, spaces and . / # _ - only." },

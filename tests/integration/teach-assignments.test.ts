@@ -80,6 +80,18 @@ describe("assigning a lesson", () => {
       opensAt: expect.stringMatching(/date and a time/),
       latePenaltyPercent: expect.stringMatching(/1 to 100/),
     });
+    // The browser's own bubbles are off (noValidate): each of these gets the page's message beside its field.
+    for (const [typed, message] of [
+      ["-5", "Use digits only: a whole number from 1 to 100."],
+      ["2.5", "Use digits only: a whole number from 1 to 100."],
+      ["1e9", "Use digits only: a whole number from 1 to 100."],
+      ["", "Enter a whole number from 1 to 100."],
+    ]) {
+      const penalty = await assign({ opensAt: "2026-12-01T08:00", dueAt: "2026-12-11T17:00", latePolicy: "penalty", latePenaltyPercent: typed });
+      expect(penalty.body).toMatchObject({ slug: LESSON, errors: { latePenaltyPercent: message } });
+    }
+    const noDates = await assign({ opensAt: "", dueAt: "" });
+    expect(noDates.body).toMatchObject({ slug: LESSON, errors: { opensAt: expect.stringMatching(/date and a time/), dueAt: expect.stringMatching(/date and a time/) } });
     const absurd = await assign({ opensAt: "1900-01-01T08:00", dueAt: "9999-12-31T17:00" });
     expect((absurd.body as { errors: Record<string, string> }).errors).toMatchObject({ opensAt: expect.stringMatching(/within 500 days of today/) });
     const farDue = await assign({ opensAt: local(new Date()), dueAt: local(new Date(Date.now() + 600 * DAY)) });
@@ -172,6 +184,19 @@ describe("accommodations, applied quietly on the student's side", () => {
 
     const bad = await accommodate(ids.amira.id, { scope: "class", extraAttempts: "-1", extraDays: "500" });
     expect(bad.status).toBe(400);
+    expect(bad.body).toMatchObject({
+      fieldErrors: { extraAttempts: "Use digits only: a whole number from 0 to 20.", extraDays: "That is outside the range: enter a whole number from 0 to 60." },
+      values: { extraAttempts: "-1", extraDays: "500" },
+    });
+
+    // Empty fields (or only spaces) are refused, never taken for 0 and 0: the class-wide setting stays.
+    for (const blank of ["", "   "]) {
+      const empty = await accommodate(ids.amira.id, { scope: "class", extraAttempts: blank, extraDays: blank });
+      expect(empty.status).toBe(400);
+      expect(empty.body).toMatchObject({ fieldErrors: { extraAttempts: "Enter a whole number from 0 to 20.", extraDays: "Enter a whole number from 0 to 60." } });
+    }
+    for (const odd of ["1e1", "2.5"]) expect((await accommodate(ids.amira.id, { scope: "class", extraAttempts: odd, extraDays: "0" })).status).toBe(400);
+    expect(await db.select().from(accommodations).where(eq(accommodations.studentId, ids.amira.id))).toHaveLength(1);
     const notHers = await accommodate(ids.amira.id, { scope: "00000000-0000-4000-8000-000000000000", extraAttempts: "1", extraDays: "0" });
     expect(notHers.status).toBe(400);
 

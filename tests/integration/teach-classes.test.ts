@@ -82,6 +82,21 @@ describe("making a class", () => {
     expect((taken.body as { errors: Record<string, string>; values: { name: string } }).errors.name).toMatch(/already has a class called/);
     expect((taken.body as { values: { name: string } }).values.name).toBe("Grade 7 Physical Science A");
 
+    // The same name but for capitals and spaces is the same name; the message names the class that has it.
+    for (const name of ["  grade 7 physical science a  ", "GRADE 7   PHYSICAL\tSCIENCE A"]) {
+      const alike = await attempt({ name, schoolYear: "2026-27" });
+      expect(alike.status).toBe(400);
+      expect((alike.body as { errors: Record<string, string> }).errors.name).toMatch(/already has a class called “Grade 7 Physical Science A” in 2026-27/);
+      expect((alike.body as { values: { name: string } }).values.name).toBe(name);
+    }
+
+    // A pasted essay is refused whole, with its length, never cut to fit.
+    const long = "Grade 7 ".repeat(625);
+    const tooLong = await attempt({ name: long });
+    expect(tooLong.status).toBe(400);
+    expect((tooLong.body as { errors: Record<string, string> }).errors.name).toBe("A class name can be at most 80 characters; this one has 4,999.");
+    expect((tooLong.body as { values: { name: string } }).values.name).toBe(long);
+
     const year = await attempt({ name: "Far future", schoolYear: "2040-41" });
     expect(year.status).toBe(400);
     expect((year.body as { errors: Record<string, string> }).errors.schoolYear).toMatch(/Choose/);
@@ -106,6 +121,15 @@ describe("class settings", () => {
     const taken = await act({ intent: "rename", name: "Grade 7 Physical Science B" });
     expect(taken.status).toBe(400);
     expect((taken.body as { message: string }).message).toMatch(/already has a class called/);
+    const alike = await act({ intent: "rename", name: "GRADE 7 PHYSICAL SCIENCE B" });
+    expect(alike.status).toBe(400);
+    expect(alike.body).toMatchObject({ intent: "rename", field: "name", message: expect.stringMatching(/already has a class called “Grade 7 Physical Science B”/) });
+    const longName = await act({ intent: "rename", name: "x".repeat(5000) });
+    expect(longName.body).toMatchObject({ intent: "rename", field: "name", message: "A class name can be at most 80 characters; this one has 5,000." });
+    // Its own name in other capitals is fine; names are kept trimmed, with single spaces.
+    expect((await act({ intent: "rename", name: "  renamed   CLASS " })).status).toBe(200);
+    expect((await db.select().from(classes).where(eq(classes.id, classId)))[0].name).toBe("renamed CLASS");
+    expect((await act({ intent: "rename", name: "Renamed class" })).status).toBe(200);
 
     const zone = await act({ intent: "time-zone", timeZone: "Not/AZone" });
     expect(zone.status).toBe(400);

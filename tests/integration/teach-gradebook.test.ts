@@ -415,7 +415,18 @@ describe("reviewing written answers", () => {
     const review = (fields: Record<string, string>, cookie = cookies.teacher) =>
       runRoute(lessonPage.action as never, post(`/teach/classes/${classId}/lessons/${LESSON}`, { intent: "review", studentId: kira.id, slug: LESSON, answerId: "cer-stiffness", claim: "2", evidence: "1", reasoning: "2", comment: "Clear claim; give the numbers with units.", ...fields }, { cookie }), { classId, slug: LESSON });
 
-    expect((await review({ evidence: "3" })).status).toBe(400);
+    const three = await review({ evidence: "3" });
+    expect(three.status).toBe(400);
+    expect(three.body).toEqual({ error: "Evidence: Give 0, 1 or 2 points.", field: "evidence" });
+    expect((await review({ claim: "" })).body).toEqual({ error: "Claim: Give 0, 1 or 2 points.", field: "claim" });
+    // A pasted comment past the limit is refused whole (nothing saved), never cut.
+    const long = await review({ comment: "w".repeat(5000) });
+    expect(long.status).toBe(400);
+    expect(long.body).toEqual({
+      error: "Comment for the student: It can be at most 2,000 characters; this one has 5,000. Nothing was saved, and your text is still in the box to shorten.",
+      field: "comment",
+    });
+    expect((await db.select().from(writtenAnswers).where(eq(writtenAnswers.studentId, kira.id)))[0].reviewComment).toBeNull();
     expect((await review({}, cookies.secondTeacher)).status).toBe(404);
     const ok = await review({});
     expect(ok.status).toBe(200);

@@ -238,7 +238,7 @@ describe("a student's page: new password, another class, out of the class", () =
     expect(weak.status).toBe(400);
     const long = await act({ intent: "password", password: "x".repeat(600) });
     expect(long.status).toBe(400);
-    expect((long.body as { error: string }).error).toBe("That is longer than we keep (256 characters). Please shorten it, or leave the field empty for one made up for you.");
+    expect((long.body as { error: string }).error).toBe("A password can be at most 256 characters long. Shorten it, or leave the field empty for one made up for you.");
 
     // Not the second teacher's class to move into, and not the other school's.
     expect((await act({ intent: "move", toClassId: ids.mapleE.id })).status).toBe(400);

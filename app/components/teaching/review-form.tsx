@@ -2,7 +2,7 @@
 // student reads on their lesson page. Sent with a fetcher, so the page stays where the teacher is.
 import { useId } from "react";
 import { useFetcher } from "react-router";
-import { RUBRIC, type RubricScores } from "~/lib/teaching/shared";
+import { REVIEW_COMMENT_MAX, RUBRIC, type RubricScores } from "~/lib/teaching/shared";
 import { SendButton } from "~/components/send-button";
 
 export interface ReviewedAnswer {
@@ -16,13 +16,14 @@ export interface ReviewedAnswer {
 
 /** `of`: whose answer, or which, as the page tells them apart ("Amira K.'s answer"): the form is named by it. */
 export function ReviewForm({ answer, action, of }: { answer: ReviewedAnswer; action: string; of: string }) {
-  const fetcher = useFetcher<{ reviewed?: string; error?: string }>();
+  const fetcher = useFetcher<{ reviewed?: string; error?: string; field?: string }>();
   const id = useId();
   const key = `${answer.studentId}/${answer.slug}/${answer.answerId}`;
   const saved = fetcher.data?.reviewed === key;
+  const wrong = (field: string) => (fetcher.data?.field === field ? true : undefined);
   if (!answer.handedIn) return <p className="text-ink-soft">This answer is still a draft; you can review it once it is handed in.</p>;
   return (
-    <fetcher.Form method="post" action={action} className="mt-3 rounded-lg bg-paper p-3" aria-labelledby={`${id}-title`}>
+    <fetcher.Form method="post" action={action} noValidate className="mt-3 rounded-lg bg-paper p-3" aria-labelledby={`${id}-title`}>
       <h4 id={`${id}-title`} className="mb-2 font-bold">Your review of {of}</h4>
       <input type="hidden" name="intent" value="review" />
       <input type="hidden" name="studentId" value={answer.studentId} />
@@ -30,11 +31,11 @@ export function ReviewForm({ answer, action, of }: { answer: ReviewedAnswer; act
       <input type="hidden" name="answerId" value={answer.answerId} />
       <div className="grid gap-3 md:grid-cols-3">
         {RUBRIC.map((criterion) => (
-          <fieldset key={criterion.key} className="rounded border border-rule bg-card p-2">
+          <fieldset key={criterion.key} className="rounded border border-rule bg-card p-2" aria-invalid={wrong(criterion.key)} aria-describedby={wrong(criterion.key) && `${id}-problem`}>
             <legend className="px-1 font-bold">{criterion.label}</legend>
             {criterion.levels.map((words, points) => (
               <label key={points} className="flex items-start gap-2 py-0.5">
-                <input type="radio" name={criterion.key} value={points} required defaultChecked={answer.scores?.[criterion.key] === points} className="mt-1.5" />
+                <input type="radio" name={criterion.key} value={points} defaultChecked={answer.scores?.[criterion.key] === points} className="mt-1.5" />
                 <span>
                   <strong>{points}</strong> — {words}
                 </span>
@@ -46,12 +47,23 @@ export function ReviewForm({ answer, action, of }: { answer: ReviewedAnswer; act
       <label htmlFor={`${id}-comment`} className="mt-3 mb-1 block font-bold">
         Comment for the student
       </label>
-      <textarea id={`${id}-comment`} name="comment" rows={3} maxLength={2000} className="field" defaultValue={answer.comment ?? ""} />
+      <p id={`${id}-comment-hint`} className="mb-1 text-[length:var(--text-step--1)] text-ink-soft">
+        Up to {REVIEW_COMMENT_MAX.toLocaleString("en-US")} characters.
+      </p>
+      <textarea
+        id={`${id}-comment`}
+        name="comment"
+        rows={3}
+        className="field"
+        defaultValue={answer.comment ?? ""}
+        aria-invalid={wrong("comment")}
+        aria-describedby={wrong("comment") ? `${id}-comment-hint ${id}-problem` : `${id}-comment-hint`}
+      />
       <div className="mt-2 flex flex-wrap items-center gap-3">
         <SendButton className="btn" busy={fetcher.state !== "idle"}>
           Save the review
         </SendButton>
-        <span aria-live="polite" className={fetcher.data?.error ? "font-bold text-danger" : "font-bold text-ok"}>
+        <span id={`${id}-problem`} aria-live="polite" className={fetcher.data?.error ? "font-bold text-danger" : "font-bold text-ok"}>
           {fetcher.data?.error ?? (saved ? "Saved. The student sees your comment on their lesson page." : "")}
         </span>
       </div>

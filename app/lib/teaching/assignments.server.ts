@@ -6,14 +6,14 @@ import { accommodations, assignments, type LatePolicy } from "~/db/schema.server
 import { findLesson, listLessons } from "~/lib/lessons.server";
 import type { TeacherClass } from "./classes.server";
 import { lessonPolicies } from "./policy.server";
+import { MAX_PENALTY_PERCENT } from "./shared";
 import { DAY_MS, formatDue } from "./time";
 
 export { LATE_POLICY_WORDS } from "./shared";
 
 type Db = { db: Database };
 
-export const MAX_PENALTY_PERCENT = 100;
-export { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS } from "./shared";
+export { MAX_EXTRA_ATTEMPTS, MAX_EXTRA_DAYS, MAX_PENALTY_PERCENT } from "./shared";
 
 export interface ClassAssignment {
   id: string;

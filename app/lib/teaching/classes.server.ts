@@ -2,11 +2,12 @@
 // type (renewable). Every look-up is scoped to the teacher in the WHERE clause, so another teacher's
 // class, or another school's, is simply not found.
 import { randomInt } from "node:crypto";
-import { and, asc, eq, inArray, isNotNull, isNull, sql } from "drizzle-orm";
+import { and, asc, eq, inArray, isNotNull, isNull, ne, sql } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
 import { preparedOnce } from "~/db/prepared.server";
 import { classes, organisations } from "~/db/schema.server";
 import { isSchoolYear } from "~/lib/school-year";
+import { tidyClassName } from "./shared";
 import { isTimeZone } from "./time";
 
 type Db = { db: Database };
@@ -113,23 +114,53 @@ function isUniqueViolation(error: unknown, constraint: string): boolean {
 }
 
 const nameTaken = (name: string, year: string) =>
-  `Your school already has a class called “${name}” in ${year}. Add a letter or a period to tell them apart.`;
+  `Your school already has a class called “${name}” in ${year}. Capitals and spaces do not tell classes apart: add a letter or a period.`;
+
+export { tidyClassName };
+
+type Tx = Parameters<Parameters<Database["transaction"]>[0]>[0];
+
+/**
+ * The name of the class of this school and year called the same but for capitals and spaces (other than
+ * `exceptId`), or null. It first locks the school's row, as the seat rules do, so two teachers naming
+ * classes at the same moment take turns and cannot both pass the check.
+ */
+async function sameNamedClass(tx: Tx, organisationId: string, schoolYear: string, name: string, exceptId?: string): Promise<string | null> {
+  await tx.select({ id: organisations.id }).from(organisations).where(eq(organisations.id, organisationId)).for("update");
+  const [row] = await tx
+    .select({ name: classes.name })
+    .from(classes)
+    .where(
+      and(
+        eq(classes.organisationId, organisationId),
+        eq(classes.schoolYear, schoolYear),
+        sql`lower(regexp_replace(btrim(${classes.name}), '[[:space:]]+', ' ', 'g')) = lower(${name})`,
+        exceptId ? ne(classes.id, exceptId) : undefined,
+      ),
+    )
+    .limit(1);
+  return row?.name ?? null;
+}
 
 export async function createClass(
   { db }: Db,
   input: { organisationId: string; teacherId: string; name: string; schoolYear: string; timeZone: string },
 ): Promise<ClassChange> {
-  const name = input.name.trim();
+  const name = tidyClassName(input.name);
   if (!isSchoolYear(input.schoolYear)) return { ok: false, field: "schoolYear", message: "Choose a school year such as 2026-27." };
   const timeZone = isTimeZone(input.timeZone) ? input.timeZone : "UTC";
   // A fresh code collides about never; try a few times before giving up with a message.
   for (let attempt = 0; attempt < 5; attempt++) {
     try {
-      const [row] = await db
-        .insert(classes)
-        .values({ organisationId: input.organisationId, teacherId: input.teacherId, name, schoolYear: input.schoolYear, timeZone, signInCode: newClassCode() })
-        .returning({ id: classes.id });
-      return { ok: true, id: row.id };
+      return await db.transaction(async (tx): Promise<ClassChange> => {
+        const taken = await sameNamedClass(tx, input.organisationId, input.schoolYear, name);
+        if (taken) return { ok: false, field: "name", message: nameTaken(taken, input.schoolYear) };
+        const [row] = await tx
+          .insert(classes)
+          .values({ organisationId: input.organisationId, teacherId: input.teacherId, name, schoolYear: input.schoolYear, timeZone, signInCode: newClassCode() })
+          .returning({ id: classes.id });
+        return { ok: true, id: row.id };
+      });
     } catch (error) {
       if (isUniqueViolation(error, "classes_org_year_name")) return { ok: false, field: "name", message: nameTaken(name, input.schoolYear) };
       if (!isUniqueViolation(error, "sign_in_code")) throw error;
@@ -138,12 +169,17 @@ export async function createClass(
   return { ok: false, field: "form", message: "No free class code was found just now. Please try again." };
 }
 
-export async function renameClass({ db }: Db, klass: TeacherClass, name: string): Promise<ClassChange> {
+export async function renameClass({ db }: Db, klass: TeacherClass, newName: string): Promise<ClassChange> {
+  const name = tidyClassName(newName);
   try {
-    await db.update(classes).set({ name: name.trim() }).where(eq(classes.id, klass.id));
-    return { ok: true, id: klass.id };
+    return await db.transaction(async (tx): Promise<ClassChange> => {
+      const taken = await sameNamedClass(tx, klass.organisationId, klass.schoolYear, name, klass.id);
+      if (taken) return { ok: false, field: "name", message: nameTaken(taken, klass.schoolYear) };
+      await tx.update(classes).set({ name }).where(eq(classes.id, klass.id));
+      return { ok: true, id: klass.id };
+    });
   } catch (error) {
-    if (isUniqueViolation(error, "classes_org_year_name")) return { ok: false, field: "name", message: nameTaken(name.trim(), klass.schoolYear) };
+    if (isUniqueViolation(error, "classes_org_year_name")) return { ok: false, field: "name", message: nameTaken(name, klass.schoolYear) };
     throw error;
   }
 }

@@ -4,10 +4,14 @@ import { data } from "react-router";
 import { z } from "zod";
 import { db } from "~/db/client.server";
 import type { TeacherClass } from "./classes.server";
+import { REVIEW_COMMENT_MAX, RUBRIC } from "./shared";
 import { saveReview } from "./review.server";
 import { findClassStudent } from "./roster.server";
 
-const points = z.coerce.number({ error: "Give 0, 1 or 2 points." }).int().min(0, "Give 0, 1 or 2 points.").max(2, "Give 0, 1 or 2 points.");
+const points = z.enum(["0", "1", "2"], { error: "Give 0, 1 or 2 points." }).transform(Number);
+
+/** The words the form shows for each field, so a message names it as the teacher sees it. */
+const FIELD_LABELS: Record<string, string> = { ...Object.fromEntries(RUBRIC.map((r) => [r.key, r.label])), comment: "Comment for the student" };
 
 export const reviewSchema = z.object({
   intent: z.literal("review"),
@@ -17,12 +21,24 @@ export const reviewSchema = z.object({
   claim: points,
   evidence: points,
   reasoning: points,
-  comment: z.string().max(2000, "Keep the comment under 2000 characters.").default(""),
+  comment: z
+    .string()
+    .refine((c) => c.length <= REVIEW_COMMENT_MAX, {
+      error: (issue) =>
+        `It can be at most ${REVIEW_COMMENT_MAX.toLocaleString("en-US")} characters; this one has ${String(issue.input).length.toLocaleString("en-US")}. Nothing was saved, and your text is still in the box to shorten.`,
+    })
+    .default(""),
 });
 
 export async function reviewAction(klass: TeacherClass, reviewerId: string, form: Record<string, FormDataEntryValue>) {
   const parsed = reviewSchema.safeParse(form);
-  if (!parsed.success) return data({ error: `${String(parsed.error.issues[0]?.path[0] ?? "review")}: ${parsed.error.issues[0]?.message ?? "not understood"}` }, { status: 400 });
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    const field = String(issue?.path[0] ?? "");
+    const label = FIELD_LABELS[field];
+    const message = issue?.message ?? "That review was not understood.";
+    return data({ error: label ? `${label}: ${message}` : "That review was not understood; reload the page and try again.", field }, { status: 400 });
+  }
   const input = parsed.data;
   if (!(await findClassStudent({ db }, klass.id, input.studentId))) return data({ error: "That student is not in this class." }, { status: 404 });
   const saved = await saveReview({ db }, {

@@ -130,6 +130,41 @@ export function filterRows(rows: GradebookRow[], filter: GradebookFilter): Grade
 /** The most a teacher can add for one student: tries per exercise, and days. */
 export const MAX_EXTRA_ATTEMPTS = 20;
 export const MAX_EXTRA_DAYS = 60;
+/** The most points late work can lose per day, in percent of the score. */
+export const MAX_PENALTY_PERCENT = 100;
+
+/** The longest class name, counted after trimming and joining runs of spaces. */
+export const CLASS_NAME_MAX = 80;
+
+/** A class name as it is kept and compared: trimmed, each run of spaces one space. */
+export const tidyClassName = (name: string) => name.trim().replace(/\s+/g, " ");
+
+/** What is wrong with a typed class name, for beside the field, or null; nothing is cut. */
+export function classNameProblem(typed: string, empty: string): string | null {
+  const length = [...tidyClassName(typed)].length;
+  if (length === 0) return empty;
+  if (length > CLASS_NAME_MAX) return `A class name can be at most ${CLASS_NAME_MAX} characters; this one has ${length.toLocaleString("en-US")}.`;
+  return null;
+}
+
+/** "from 1 to 5,000": the range of a number field, as its hint and its messages say it. */
+export const rangeWords = (min: number, max: number) => `from ${min.toLocaleString("en-US")} to ${max.toLocaleString("en-US")}`;
+
+/**
+ * A whole number typed into a form field: digits only (spaces, thin spaces or commas between groups of
+ * three are fine), from `min` to `max`. "1e3", "2.5", "-5" and an empty field are refused with a
+ * sentence for beside the field; nothing is rounded or cut.
+ */
+export function readWholeNumber(raw: unknown, min: number, max: number, unit?: string): { ok: true; value: number } | { ok: false; message: string } {
+  const spaced = typeof raw === "string" ? raw.replace(/[\s\u2009\u202f]/g, "") : "";
+  const text = /^\d{1,3}(,\d{3})+$/.test(spaced) ? spaced.replaceAll(",", "") : spaced; // "5,000"; never "2,5"
+  const wanted = `a whole number${unit ? ` of ${unit}` : ""} ${rangeWords(min, max)}`;
+  if (text === "") return { ok: false, message: `Enter ${wanted}.` };
+  if (!/^\d+$/.test(text)) return { ok: false, message: `Use digits only: ${wanted}.` };
+  const value = Number(text);
+  if (value < min || value > max) return { ok: false, message: `That is outside the range: enter ${wanted}.` };
+  return { ok: true, value };
+}
 
 export const LATE_POLICY_WORDS: Record<LatePolicy, string> = {
   accept: "Late work counts in full",
@@ -161,6 +196,9 @@ export const RUBRIC = [
   { key: "evidence", label: "Evidence", levels: ["No data", "Some data, not all of it fits", "The right numbers from the data, with units"] },
   { key: "reasoning", label: "Reasoning", levels: ["No link to the science", "A link, partly explained", "Explains why the evidence supports the claim"] },
 ] as const;
+
+/** The longest comment on a written answer; a longer one is refused whole, never cut. */
+export const REVIEW_COMMENT_MAX = 2000;
 
 export type RubricScores = { claim: number; evidence: number; reasoning: number };
 
