@@ -16,3 +16,23 @@ export function sniffImageType(bytes: Uint8Array): PhotoType | null {
   if (bytes.length >= 12 && ascii(0, 4) === "RIFF" && ascii(8, 12) === "WEBP") return "image/webp";
   return null;
 }
+
+export const NOT_A_PHOTO = "That file is not a JPEG, PNG or WebP photo. Choose a photo file.";
+export const HEIC_PHOTO =
+  "That is a HEIC photo, the kind an iPhone or iPad takes, and it cannot be shown here. Send a JPEG instead: take a screenshot of the photo and upload the screenshot, or set the camera to “Most Compatible” (Settings › Camera › Formats) and take the photo again.";
+export const CHOOSE_A_PHOTO_FIRST = "Choose a photo first, then press “Upload the photo”.";
+
+/**
+ * HEIC/HEIF (an ISO base-media file: "ftyp" at byte 4 and a HEIF brand after it, ISO/IEC 23008-12),
+ * or a name or type that says so: the photo format phones use that browsers mostly cannot show.
+ */
+export function looksLikeHeic(file: { bytes?: Uint8Array; name?: string; type?: string }): boolean {
+  if (/\.(heic|heif)$/i.test(file.name ?? "") || /^image\/hei[cf]/i.test(file.type ?? "")) return true;
+  const bytes = file.bytes;
+  if (!bytes || bytes.length < 12) return false;
+  const ascii = (from: number, to: number) => String.fromCharCode(...bytes.slice(from, to));
+  return ascii(4, 8) === "ftyp" && ["heic", "heix", "hevc", "hevx", "heim", "heis", "mif1", "msf1"].includes(ascii(8, 12));
+}
+
+/** Why a file that is no photo we keep was refused, naming HEIC when it is one. */
+export const notAPhotoMessage = (file: { bytes?: Uint8Array; name?: string; type?: string }) => (looksLikeHeic(file) ? HEIC_PHOTO : NOT_A_PHOTO);

@@ -9,7 +9,7 @@ import { and, eq } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
 import { photos } from "~/db/schema.server";
 import { serverEnv } from "~/env.server";
-import { PHOTO_MAX_BYTES, sniffImageType } from "./photo-rules";
+import { notAPhotoMessage, PHOTO_MAX_BYTES, sniffImageType } from "./photo-rules";
 
 let storage: FileStorage | undefined;
 
@@ -40,7 +40,7 @@ export async function readPhotoForm(request: Request): Promise<PhotoUploadResult
       }
       const realType = sniffImageType(bytes);
       if (!realType) {
-        refusal = "That file is not a JPEG, PNG or WebP photo. Choose a photo file.";
+        refusal = notAPhotoMessage({ bytes, name: upload.name, type: upload.type });
         return null;
       }
       const key = `${randomUUID()}.${realType.split("/")[1]}`;

@@ -48,6 +48,17 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
+const CODE_LOOKS = "A class code is 8 letters and digits, like KTXQ 9MWE; a family code is HOME- and 6 more, like HOME-AB12CD.";
+
+/** What is wrong with a typed code that was not left empty, in words that say what a code looks like; null when it may be one. */
+function typedCodeProblem(typed: string): string | null {
+  const code = typed.trim();
+  if (code === "") return null; // the schema's "Enter the code…" is right for an empty field
+  if ([...code].length > 40) return `That is far longer than a code. ${CODE_LOOKS}`;
+  if (code.replace(/[^A-Za-z0-9]/g, "").length < 3) return `That does not look like a code. ${CODE_LOOKS}`;
+  return null;
+}
+
 function firstErrors(issues: { path: PropertyKey[]; message: string }[]) {
   const errors: Record<string, string> = {};
   for (const issue of issues) {
@@ -70,7 +81,10 @@ export async function action({ request }: Route.ActionArgs) {
 
   const parsed = door === "adult" ? adultCredentials.safeParse(raw) : studentCredentials.safeParse(raw);
   if (!parsed.success) {
-    return data<SignInActionData>({ door, values, fieldErrors: firstErrors(parsed.error.issues) }, { status: 400 });
+    const fieldErrors = firstErrors(parsed.error.issues);
+    const codeProblem = door === "student" ? typedCodeProblem(raw.code ?? "") : null;
+    if (codeProblem && fieldErrors.code) fieldErrors.code = codeProblem;
+    return data<SignInActionData>({ door, values, fieldErrors }, { status: 400 });
   }
 
   const result = await signInThroughAuth(

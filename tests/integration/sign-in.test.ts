@@ -124,6 +124,17 @@ describe("the two doors of /sign-in", () => {
     const kid = await student("", "amira.k", "x");
     expect((kid.body as SignInData).values.username).toBe("amira.k");
     expect((kid.body as SignInData).fieldErrors.code).toMatch(/code your teacher or parent gave you/);
+
+    // A code was typed, just not one: say what is wrong with it and what a code looks like.
+    for (const [typed, start] of [
+      ["KTXQ9MWE".repeat(940), "That is far longer than a code."],
+      ["-".repeat(7500), "That is far longer than a code."],
+      ["?!", "That does not look like a code."],
+    ]) {
+      const odd = await student(typed, "amira.k", "x");
+      expect(odd.status).toBe(400);
+      expect((odd.body as SignInData).fieldErrors.code).toBe(`${start} A class code is 8 letters and digits, like KTXQ 9MWE; a family code is HOME- and 6 more, like HOME-AB12CD.`);
+    }
   });
 
   it("sends people back to the page that asked them to sign in, but only on this site", async () => {

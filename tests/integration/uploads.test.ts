@@ -93,6 +93,15 @@ describe("set-up photos", () => {
     expect(served.headers.get("x-content-type-options")).toBe("nosniff");
   });
 
+  it("answers an address with no photo as a plain sentence, not a quoted JSON string", async () => {
+    for (const id of ["not-a-photo", "00000000-0000-4000-8000-000000000000"]) {
+      const missing = await runRoute(photoRoute.loader as never, get(`/photos/${id}`, { cookie: student }), { id });
+      expect(missing.status).toBe(404);
+      expect(missing.headers.get("content-type")).toBe("text/plain; charset=utf-8");
+      expect(missing.body).toBe("There is no photo at this address.");
+    }
+  });
+
   it("refuses a photo over the size limit, saying the limit", async () => {
     const big = new Uint8Array(PHOTO_MAX_BYTES + 1);
     big.set(JPEG());
@@ -102,6 +111,13 @@ describe("set-up photos", () => {
   it("refuses another kind of image (GIF) and a file that is no image at all", async () => {
     await expectRefusedAndNothingStored(() => sendPhoto([{ name: "setup.gif", type: "image/gif", bytes: bytesOf("GIF89a" + "x".repeat(100)) }]), /not a JPEG, PNG or WebP/);
     await expectRefusedAndNothingStored(() => sendPhoto([{ name: "notes.pdf", type: "application/pdf", bytes: bytesOf("%PDF-1.7\n" + "x".repeat(100)) }]), /not a JPEG, PNG or WebP/);
+  });
+
+  it("names an iPhone's HEIC photo and says how to send a JPEG, by its bytes whatever its name", async () => {
+    const heic = bytesOf("\u0000\u0000\u0000\u0018ftypheic\u0000\u0000\u0000\u0000mif1heic" + "x".repeat(100));
+    for (const name of ["IMG_0412.HEIC", "setup.jpg"]) {
+      await expectRefusedAndNothingStored(() => sendPhoto([{ name, type: "image/jpeg", bytes: heic }]), /HEIC photo.*screenshot.*Most Compatible/);
+    }
   });
 
   it("refuses a file whose name and claimed type say photo but whose bytes do not", async () => {

@@ -1,6 +1,7 @@
 // A photo of the student's set-up: a JPEG, PNG or WebP file of at most 5 MB, checked on the server.
+import { useState } from "react";
 import { useFetcher } from "react-router";
-import { PHOTO_MAX_BYTES } from "~/lib/photo-rules";
+import { CHOOSE_A_PHOTO_FIRST, HEIC_PHOTO, looksLikeHeic, PHOTO_MAX_BYTES } from "~/lib/photo-rules";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
 
@@ -9,6 +10,14 @@ export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id
   const fetcher = useFetcher<{ photoId?: string; error?: string; saved?: boolean }>();
   // Each upload box has its own fetcher, so its answer is always about this box.
   const mine = fetcher.data;
+  // Said at once in the browser, before anything is sent: no file chosen, or an iPhone's HEIC photo.
+  const [early, setEarly] = useState<string | null>(null);
+  const checkBeforeSending = (event: React.FormEvent<HTMLFormElement>) => {
+    const file = (event.currentTarget.elements.namedItem("photo") as HTMLInputElement | null)?.files?.[0];
+    const problem = !file || file.size === 0 ? CHOOSE_A_PHOTO_FIRST : looksLikeHeic({ name: file.name, type: file.type }) ? HEIC_PHOTO : null;
+    setEarly(problem);
+    if (problem) event.preventDefault();
+  };
   const photos = state.photos[id] ?? [];
   return (
     <section id={`photo-${id}`} className="card my-8 scroll-mt-6 font-ui" aria-labelledby={`photo-${id}-title`}>
@@ -17,12 +26,12 @@ export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id
       </h3>
       <p className="mb-3">{prompt} Keep faces out of the picture.</p>
       {canAnswer && (
-        <fetcher.Form method="post" encType="multipart/form-data">
+        <fetcher.Form method="post" encType="multipart/form-data" noValidate onSubmit={checkBeforeSending}>
           <input type="hidden" name="intent" value="photo" />
           <input type="hidden" name="photoId" value={id} />
           <label className="block">
             <span className="mb-1 block font-bold">Choose a photo (JPEG, PNG or WebP, up to {PHOTO_MAX_BYTES / 1024 / 1024} MB)</span>
-            <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" required className="block w-full max-w-full" />
+            <input type="file" name="photo" accept="image/jpeg,image/png,image/webp" className="block w-full max-w-full" onChange={() => setEarly(null)} />
           </label>
           <SendButton className="btn mt-3" busy={fetcher.state !== "idle"}>
             {fetcher.state !== "idle" ? "Uploading…" : "Upload the photo"}
@@ -31,8 +40,9 @@ export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id
       )}
       <div aria-live="polite">
         {/* The last reply is said only once the box is idle, so an old refusal is gone while the next photo goes up. */}
-        {fetcher.state === "idle" && mine?.error && <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert">{mine.error}</p>}
-        {fetcher.state === "idle" && mine?.saved && <p className="mt-2 font-bold text-ok">Photo saved.</p>}
+        {early && <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert">{early}</p>}
+        {!early && fetcher.state === "idle" && mine?.error && <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert">{mine.error}</p>}
+        {!early && fetcher.state === "idle" && mine?.saved && <p className="mt-2 font-bold text-ok">Photo saved.</p>}
       </div>
       {photos.length > 0 && (
         <ul className="mt-3 flex flex-wrap gap-4">
