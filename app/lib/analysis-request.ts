@@ -121,36 +121,47 @@ export interface ReadingsForm {
   broke: boolean[];
 }
 
+/** A cell of the lesson's readings table a problem is about: its row (counted from 1) and column, or the unloaded reading. */
+export type ReadingsCell = { row: number; column: "force" | "reading" | "return" } | { row: null; column: "unloaded" };
+
 export type ReadingsFormCheck =
   | { ok: true; data: AnalysisRequest & AnalysisInput & { points: ReadingPoint[]; unloadedCm: number } }
-  | { ok: false; errors: string[] };
+  | { ok: false; errors: string[]; cells: ReadingsCell[] };
+
+const COLUMN_OF_FIELD = { forceN: "force", readingCm: "reading", returnReadingCm: "return" } as const;
 
 /**
  * The lesson's readings table, checked in one round: every problem of every row at once — a cell
  * that is missing, not a number or in another unit, a reading no lab can give (checked on the rows
  * that could be read), one force throughout — sorted by row, then the same validation as
- * POST /api/analysis. Rows left entirely empty are skipped; a comma is a decimal comma.
+ * POST /api/analysis. Rows left entirely empty are skipped; a comma is a decimal comma. A refusal
+ * also lists the cells its problems are about, so the table can mark them.
  */
 export function checkReadingsForm(form: ReadingsForm): ReadingsFormCheck {
   const found: { row: number; problem: string }[] = [];
+  const cells: ReadingsCell[] = [];
   const rows = form.forces
     .map((f, i) => ({ f: f.trim(), r: (form.readings[i] ?? "").trim(), back: (form.returns[i] ?? "").trim(), broke: form.broke[i] === true, row: i + 1 }))
     .filter((p) => p.f !== "" || p.r !== "" || p.back !== "");
-  const read = (row: number, typed: string, what: string, unit: "N" | "cm", missing: string | null) => {
+  const read = (row: number, column: "force" | "reading" | "return", typed: string, what: string, unit: "N" | "cm", missing: string | null) => {
     if (typed === "") {
-      if (missing !== null) found.push({ row, problem: `Row ${row}: ${missing}` });
+      if (missing !== null) {
+        found.push({ row, problem: `Row ${row}: ${missing}` });
+        cells.push({ row, column });
+      }
       return undefined;
     }
     const cell = readCell(typed, unit, true);
     if (cell.ok) return cell.value;
     found.push({ row, problem: `Row ${row}: ${cellProblem(what, typed, unit, cell)}` });
+    cells.push({ row, column });
     return undefined;
   };
   const parsed: { row: number; point: ReadingPoint }[] = [];
   for (const p of rows) {
-    const force = read(p.row, p.f, "force", "N", "the force is missing.");
-    const reading = read(p.row, p.r, "reading", "cm", "the loaded reading is missing.");
-    const back = read(p.row, p.back, "reading after unloading", "cm", null);
+    const force = read(p.row, "force", p.f, "force", "N", "the force is missing.");
+    const reading = read(p.row, "reading", p.r, "reading", "cm", "the loaded reading is missing.");
+    const back = read(p.row, "return", p.back, "reading after unloading", "cm", null);
     if (force === undefined || reading === undefined || (p.back !== "" && back === undefined)) continue;
     parsed.push({ row: p.row, point: { forceN: force, readingCm: reading, ...(back !== undefined ? { returnReadingCm: back } : {}), ...(p.broke ? { broke: true } : {}) } });
   }
@@ -158,25 +169,36 @@ export function checkReadingsForm(form: ReadingsForm): ReadingsFormCheck {
   const unloadedCm = unloaded?.ok ? unloaded.value : undefined;
   const general: string[] = [];
   if (unloaded === undefined || !unloaded.ok) {
-    general.push(unloaded?.unit !== undefined ? asSentence(cellProblem("unloaded reading", form.unloaded.trim(), "cm", unloaded)) : "The unloaded reading must be a number in cm.");
+    general.push(unloaded?.unit !== undefined || unloaded?.tooLong ? asSentence(cellProblem("unloaded reading", form.unloaded.trim(), "cm", unloaded)) : "The unloaded reading must be a number in cm.");
+    cells.push({ row: null, column: "unloaded" });
   }
   if (rows.length < 2) general.push("Enter at least two rows of readings.");
   // The rows that could be read are checked now too, so nothing waits for a second round.
   const body = { mode: form.mode, unloadedCm, resolutionCm: form.resolutionCm, points: parsed.map((p) => p.point) };
   for (const i of implausibleReadings(body)) {
-    if (i.point === null) general.push(asSentence(i.problem));
-    else found.push({ row: parsed[i.point].row, problem: `Row ${parsed[i.point].row}: ${i.problem}` });
+    if (i.point === null) {
+      general.push(asSentence(i.problem));
+      cells.push({ row: null, column: "unloaded" });
+    } else {
+      found.push({ row: parsed[i.point].row, problem: `Row ${parsed[i.point].row}: ${i.problem}` });
+      cells.push({ row: parsed[i.point].row, column: i.field === "forceN" ? "force" : "reading" });
+    }
   }
   // Only when every row could be read: a row left out might be the one with another force.
   const oneForce = parsed.length === rows.length ? oneForceProblem(body.points) : null;
   if (oneForce !== null) general.push(asSentence(oneForce));
   // Array.prototype.sort is stable: problems of one row keep their column order.
   const errors = [...found.sort((a, b) => a.row - b.row).map((f) => f.problem), ...general];
-  if (errors.length > 0) return { ok: false, errors: [...new Set(errors)] };
+  if (errors.length > 0) return { ok: false, errors: [...new Set(errors)], cells };
   const checked = parseAnalysisRequest(body);
   if (!checked.ok) {
     // "points[2].forceN: …" → "Row 3, forceN: …", the row as the student counts it.
-    return { ok: false, errors: checked.errors.map((e) => e.replace(/points\[(\d+)\]\.?/, (_m, i) => `Row ${parsed[Number(i)]?.row ?? Number(i) + 1}, `)) };
+    const rowOf = (i: string) => parsed[Number(i)]?.row ?? Number(i) + 1;
+    for (const e of checked.errors) {
+      const at = /^points\[(\d+)\]\.(forceN|readingCm|returnReadingCm)/.exec(e);
+      if (at) cells.push({ row: rowOf(at[1]), column: COLUMN_OF_FIELD[at[2] as keyof typeof COLUMN_OF_FIELD] });
+    }
+    return { ok: false, errors: checked.errors.map((e) => e.replace(/points\[(\d+)\]\.?/, (_m, i) => `Row ${rowOf(i)}, `)), cells };
   }
   return { ok: true, data: { ...checked.data, points: body.points, unloadedCm: unloadedCm as number } };
 }

@@ -164,30 +164,31 @@ export const MOST_READING_CM = 300;
  * Readings no lab of this course can give, in a student's words: a negative force, a force beyond any
  * classroom spring scale, a reading beyond any ruler, and a load that moved the piece the wrong way
  * (a bending piece's height rising, a stretched piece getting shorter) by more than one ruler mark.
- * Each problem names the point it is about (its index), or null for the unloaded reading.
+ * Each problem names the point it is about (its index), or null for the unloaded reading, and the
+ * field it is about (a load the wrong way is the loaded reading's).
  */
 export function implausibleReadings(input: {
   mode: Mode;
   unloadedCm?: number;
   resolutionCm: number;
   points: { forceN: number; readingCm?: number }[];
-}): { point: number | null; problem: string }[] {
-  const problems: { point: number | null; problem: string }[] = [];
+}): { point: number | null; field: "forceN" | "readingCm" | "unloadedCm"; problem: string }[] {
+  const problems: { point: number | null; field: "forceN" | "readingCm" | "unloadedCm"; problem: string }[] = [];
   // Readings as the student wrote them, to the ruler's resolution: "30.0 cm", not "30 cm".
   const cm = (value: number) =>
     `${Math.abs(value) <= MOST_READING_CM ? formatToResolution(value, input.resolutionCm) : Number(value.toPrecision(6))} cm`;
   const { unloadedCm, mode } = input;
   if (unloadedCm !== undefined && Math.abs(unloadedCm) > MOST_READING_CM) {
-    problems.push({ point: null, problem: `the unloaded reading ${cm(unloadedCm)} is more than any ruler in this lab reads. Check the decimal point.` });
+    problems.push({ point: null, field: "unloadedCm", problem: `the unloaded reading ${cm(unloadedCm)} is more than any ruler in this lab reads. Check the decimal point.` });
   }
   input.points.forEach((p, index) => {
-    if (p.forceN < 0) problems.push({ point: index, problem: "the force cannot be below 0 N." });
+    if (p.forceN < 0) problems.push({ point: index, field: "forceN", problem: "the force cannot be below 0 N." });
     else if (p.forceN > MOST_FORCE_N) {
-      problems.push({ point: index, problem: `${Number(p.forceN.toPrecision(6))} N is more than a classroom spring scale reads (most go up to 10–50 N). Check the reading.` });
+      problems.push({ point: index, field: "forceN", problem: `${Number(p.forceN.toPrecision(6))} N is more than a classroom spring scale reads (most go up to 10–50 N). Check the reading.` });
     }
     if (p.readingCm === undefined) return;
     if (Math.abs(p.readingCm) > MOST_READING_CM) {
-      problems.push({ point: index, problem: `a reading of ${cm(p.readingCm)} is more than any ruler in this lab reads. Check the decimal point.` });
+      problems.push({ point: index, field: "readingCm", problem: `a reading of ${cm(p.readingCm)} is more than any ruler in this lab reads. Check the decimal point.` });
       return;
     }
     if (unloadedCm === undefined || Math.abs(unloadedCm) > MOST_READING_CM) return;
@@ -195,6 +196,7 @@ export function implausibleReadings(input: {
     if (deformationCm(mode, unloadedCm, p.readingCm) < -input.resolutionCm - 1e-9) {
       problems.push({
         point: index,
+        field: "readingCm",
         problem:
           mode === "bend"
             ? `the loaded reading ${cm(p.readingCm)} is above the unloaded reading ${cm(unloadedCm)}, but a bending piece moves down under a load. Check both readings.`

@@ -216,7 +216,7 @@ async function saveReadingsAction(form: FormData, studentId: string, slug: strin
     returns: column("returnReadingCm"),
     broke: column("broke").map((b) => b === "1"),
   });
-  if (!checked.ok) return data({ readingsId, errors: checked.errors }, { status: 400 });
+  if (!checked.ok) return data({ readingsId, errors: checked.errors, cells: checked.cells }, { status: 400 });
   await saveReadings({ db }, studentId, slug, {
     readingsId,
     mode,
@@ -249,7 +249,7 @@ export default function LessonPage({ loaderData }: Route.ComponentProps) {
       {/* The lesson's compiled code, from our own origin; it runs before hydration (see lesson-code.server.ts). */}
       <script src={codeUrl} />
       <nav aria-label="Course" className="mb-6 font-ui text-[length:var(--text-step--1)]">
-        <Link to={back.to}>← {back.label}</Link>
+        <Link to={back.to} className="tap">← {back.label}</Link>
       </nav>
       <header className="mb-8">
         <p className="font-ui font-bold uppercase tracking-wider text-ember text-[length:var(--text-step--1)]">

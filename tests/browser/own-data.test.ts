@@ -57,6 +57,56 @@ function tinyPng(): Buffer {
 }
 
 describe("own readings in the home lab", () => {
+  it("on a phone: numbered rows, a marked cell for each problem, readings not clipped, columns reachable; a slipped decimal is named", { timeout: 60_000 }, async () => {
+    const { page, context, consoleErrors } = await openPage(browser, { viewport: { width: 375, height: 800 } });
+    await openAsStudent(page, { ...demoSignIns.student, username: "ines.r" });
+    await page.goto(`/learn/${LESSON}`);
+    const table = page.locator("#readings-stirrer-readings");
+    await table.locator("tbody tr").first().waitFor();
+    // Row numbers are shown beside the rows.
+    expect(await table.locator("tbody th[scope=row]").allInnerTexts()).toEqual(["1", "2", "3", "4", "5", "6"]);
+
+    await table.getByLabel(/Unloaded reading/).fill("38.0");
+    const heights = ["37.7", "37.5", "2O.5", "36.9", "36.6"];
+    for (const [i, h] of heights.entries()) {
+      await table.getByLabel(`Force, row ${i + 1}`).fill((0.98 * (i + 1)).toFixed(2));
+      await table.getByLabel(new RegExp(`Loaded reading \\(cm\\), row ${i + 1}$`)).fill(h);
+    }
+    // "37.2cm" as a student types it fits its cell.
+    const row6 = table.getByLabel(/Loaded reading \(cm\), row 6$/);
+    await row6.fill("37.2cm");
+    expect(await row6.evaluate((el: HTMLInputElement) => el.scrollWidth <= el.clientWidth)).toBe(true);
+    await row6.fill("");
+    await table.getByRole("button", { name: "Save and analyse" }).click();
+    await table.getByRole("alert").waitFor();
+    expect(await table.getByRole("alert").innerText()).toMatch(/Row 3: the reading “2O.5” is not a number/);
+    const bad = table.getByLabel(/Loaded reading \(cm\), row 3$/);
+    expect(await bad.getAttribute("aria-invalid")).toBe("true");
+    expect(await bad.evaluate((el) => getComputedStyle(el).borderColor)).not.toBe(await table.getByLabel(/Loaded reading \(cm\), row 2$/).evaluate((el) => getComputedStyle(el).borderColor));
+    expect(await table.getByLabel(/Loaded reading \(cm\), row 2$/).getAttribute("aria-invalid")).toBeNull();
+    consoleErrors.splice(0, consoleErrors.length, ...consoleErrors.filter((e) => !/status of 400/.test(e)));
+
+    // Every column can be reached: the table fits, or it says it slides and the last column scrolls into view.
+    const fits = await table.locator("div.overflow-x-auto").evaluate((el) => el.scrollWidth <= el.clientWidth + 1);
+    if (!fits) {
+      expect(await table.getByTestId("readings-slide-hint").isVisible()).toBe(true);
+      await table.locator("div.overflow-x-auto").evaluate((el) => el.scrollTo({ left: el.scrollWidth }));
+    }
+    const box = await table.locator("div.overflow-x-auto").boundingBox();
+    const broke = await table.getByRole("columnheader", { name: "Broke" }).boundingBox();
+    expect(broke!.x + broke!.width).toBeLessThanOrEqual(box!.x + box!.width + 1);
+
+    // 3.69 typed for 36.9: saved, analysed, and named as worth a second look.
+    await table.getByLabel(/Loaded reading \(cm\), row 3$/).fill("37.2");
+    await table.getByLabel(/Loaded reading \(cm\), row 4$/).fill("3.69");
+    await table.getByRole("button", { name: "Save and analyse" }).click();
+    await table.getByTestId("readings-analysis").waitFor();
+    expect(await table.getByTestId("reading-cautions").innerText()).toContain("Row 4 (3.69 cm) is far from the other readings: was it typed right?");
+    expect(await table.getByLabel(/Loaded reading \(cm\), row 3$/).getAttribute("aria-invalid")).toBeNull();
+    expect(consoleErrors).toEqual([]);
+    await context.close();
+  });
+
   it("gives the same stiffness and fit as POST /api/analysis, and checks an own-data exercise against them", async () => {
     const { page, context, consoleErrors } = await openPage(browser);
     await openAsStudent(page, { ...demoSignIns.student, username: "hugo.m" });
@@ -138,6 +188,47 @@ describe("own readings in the home lab", () => {
     const response = await other.page.goto(src!);
     expect(response!.status()).toBe(404);
     await other.context.close();
+    await context.close();
+  });
+});
+
+describe("the analyser (/tools/analyse)", () => {
+  it("starts empty, analyses only what was typed, keeps it across a reload until Clear", { timeout: 60_000 }, async () => {
+    const { page, context, consoleErrors } = await openPage(browser);
+    await page.goto("/tools/analyse");
+    const box = page.getByLabel("Readings");
+    expect(await box.inputValue()).toBe("");
+    expect(await box.getAttribute("placeholder")).toMatch(/^For example:\nforce \(N\)/);
+    expect(await page.getByLabel("Unloaded reading (cm)").inputValue()).toBe("");
+
+    // Own readings pasted into the empty box: these and nothing else are analysed.
+    const own = "1, 24.6\n2, 24.2\n3, 23.8\n4, 23.4";
+    await box.fill(own);
+    await page.getByLabel("Unloaded reading (cm)").fill("25.0");
+    await page.getByRole("button", { name: "Analyse" }).click();
+    await page.getByTestId("analysis-report").waitFor();
+    expect(await page.getByTestId("analysis-report").locator("tbody tr").count()).toBe(4);
+    expect(await page.getByTestId("slope-through-origin").innerText()).toBe("2.50 N/cm (± 0.00)");
+
+    // A reload keeps what was typed.
+    await page.reload();
+    await page.waitForFunction(() => (document.querySelector("#readings") as HTMLTextAreaElement | null)?.value !== "");
+    expect(await box.inputValue()).toBe(own);
+    expect(await page.getByLabel("Unloaded reading (cm)").inputValue()).toBe("25.0");
+
+    // Clear empties the form, and a reload keeps it empty.
+    await page.getByRole("button", { name: "Clear" }).click();
+    expect(await box.inputValue()).toBe("");
+    await page.reload();
+    await page.getByRole("button", { name: "Fill in the example" }).waitFor();
+    await page.waitForTimeout(300);
+    expect(await box.inputValue()).toBe("");
+
+    // The example goes in only when asked for.
+    await page.getByRole("button", { name: "Fill in the example" }).click();
+    expect(await box.inputValue()).toMatch(/^force \(N\), loaded reading \(cm\)\n0, 21\.0/);
+    expect(await page.getByLabel("Unloaded reading (cm)").inputValue()).toBe("21.0");
+    expect(consoleErrors).toEqual([]);
     await context.close();
   });
 });

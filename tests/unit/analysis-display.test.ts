@@ -113,3 +113,34 @@ describe("the lesson's readings analysis", () => {
     expect(readingText(38, 0.1)).toBe("38.0");
   });
 });
+
+describe("cautions in both displays (a slipped decimal point: 3.69 typed for 36.9)", () => {
+  const slipped: AnalysisInput = {
+    mode: "bend",
+    unloadedCm: 38.0,
+    resolutionCm: 0.1,
+    points: [37.7, 37.5, 37.2, 3.69, 36.6].map((readingCm, i) => ({ forceN: Number((0.98 * (i + 1)).toFixed(2)), readingCm })),
+  };
+  const ordinary: AnalysisInput = { ...slipped, points: slipped.points.map((p, i) => (i === 3 ? { ...p, readingCm: 36.9 } : p)) };
+
+  it("the lesson's box names the row, and still shows the results", () => {
+    const html = renderToStaticMarkup(createElement(ReadingsAnalysis, { analysis: analyseReadings(slipped), title: "Your readings", resolutionCm: 0.1 }));
+    expect(html).toContain('data-testid="reading-cautions"');
+    expect(text(html)).toContain("Row 4 (3.69 cm) is far from the other readings: was it typed right?");
+    expect(byTestId(html, "stiffness-through-origin")).toMatch(/N\/cm$/);
+  });
+
+  it("the analyser's report names the line it was pasted on", () => {
+    const lines = [2, 3, 4, 5, 6];
+    const html = renderToStaticMarkup(
+      createElement(AnalysisReport, { analysis: analyseReadings(slipped), resolutionCm: 0.1, placeOf: (p: number | null) => (p === null ? "The unloaded reading" : `Line ${lines[p]}`) }),
+    );
+    expect(html).toContain('data-testid="reading-cautions"');
+    expect(text(html)).toContain("Line 5 (3.69 cm) is far from the other readings: was it typed right?");
+  });
+
+  it("ordinary readings show no caution box", () => {
+    expect(renderToStaticMarkup(createElement(ReadingsAnalysis, { analysis: analyseReadings(ordinary), title: "Your readings" }))).not.toContain("reading-cautions");
+    expect(renderToStaticMarkup(createElement(AnalysisReport, { analysis: analyseReadings(ordinary), resolutionCm: 0.1 }))).not.toContain("reading-cautions");
+  });
+});

@@ -200,16 +200,50 @@ describe("checkReadingsForm (the lesson's readings table)", () => {
     expect(r).toEqual({
       ok: false,
       errors: ["Every reading has the same force (3 N): change the load between readings, so that there are at least two different forces."],
+      cells: [],
     });
     // A row that could not be read may be the one with another force: not claimed then.
     expect(checkReadingsForm(form([["3", "24.0"], ["4 kg", "23.9"], ["3", "24.1"]], "25.0"))).toEqual({
       ok: false,
       errors: ["Row 2: the force “4 kg” is in kg, but forces are in N (newtons) here: read the spring scale in newtons (a 100 g mass weighs about 0.98 N)."],
+      cells: [{ row: 2, column: "force" }],
     });
   });
 
   it("an empty table and a missing unloaded reading", () => {
     const r = checkReadingsForm(form([["", ""]], ""));
-    expect(r).toEqual({ ok: false, errors: ["The unloaded reading must be a number in cm.", "Enter at least two rows of readings."] });
+    expect(r).toEqual({
+      ok: false,
+      errors: ["The unloaded reading must be a number in cm.", "Enter at least two rows of readings."],
+      cells: [{ row: null, column: "unloaded" }],
+    });
+  });
+
+  it("names the cells its problems are about, so the table can mark them", () => {
+    const r = checkReadingsForm(form([["1", "19.6"], ["2", "2O.5"], ["abc", "19.0", "x"], ["4", ""], ["500", "18.4"], ["6", "25"]], "20.0"));
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.errors[0]).toBe("Row 2: the reading “2O.5” is not a number.");
+      expect(r.cells).toEqual([
+        { row: 2, column: "reading" },
+        { row: 3, column: "force" },
+        { row: 3, column: "return" },
+        { row: 4, column: "reading" },
+        { row: 5, column: "force" },
+        { row: 6, column: "reading" },
+      ]);
+    }
+  });
+
+  it("a number too long for a cell is called too long and quoted cut, in a row and in the unloaded reading", () => {
+    const long = "1".repeat(400);
+    const r = checkReadingsForm(form([["1", "19.6"], ["2", long]], long));
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.errors).toEqual([
+        `Row 2: the reading “${"1".repeat(20)}…” is too long: write a number of at most 20 characters.`,
+        `The unloaded reading “${"1".repeat(20)}…” is too long: write a number of at most 20 characters.`,
+      ]);
+    }
   });
 });

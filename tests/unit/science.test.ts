@@ -640,7 +640,7 @@ describe("readings no lab can give (invented readings)", () => {
         { forceN: 0.5, readingCm: 24.1 },
       ],
     });
-    expect(problems.map((p) => p.point)).toEqual([1, 2, 3, 4]);
+    expect(problems.map((p) => [p.point, p.field])).toEqual([[1, "readingCm"], [2, "readingCm"], [3, "forceN"], [4, "forceN"]]);
     expect(problems[0].problem).toMatch(/loaded reading 30.0 cm is above the unloaded reading 24.0 cm, but a bending piece moves down/);
     expect(problems[1].problem).toMatch(/100000 cm is more than any ruler/);
     expect(problems[2].problem).toMatch(/cannot be below 0 N/);
@@ -654,7 +654,7 @@ describe("readings no lab can give (invented readings)", () => {
       /shorter than the unloaded length 10.0 cm, but a stretched piece gets longer/,
     );
     expect(implausibleReadings({ mode: "bend", unloadedCm: 5000, resolutionCm: 0.1, points: [{ forceN: 2, readingCm: 20 }] })).toEqual([
-      { point: null, problem: expect.stringMatching(/^the unloaded reading 5000 cm is more than any ruler/) },
+      { point: null, field: "unloadedCm", problem: expect.stringMatching(/^the unloaded reading 5000 cm is more than any ruler/) },
     ]);
   });
 });

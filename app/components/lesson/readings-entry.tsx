@@ -3,10 +3,19 @@
 import { useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import type { SavedReadings } from "~/lib/course.server";
+import type { ReadingsCell } from "~/lib/analysis-request";
 import { analyseReadings, elasticLimitWords, formatForStudent, formatToResolution, type Mode } from "~/lib/science";
+import { ReadingCautions } from "~/components/analysis-report";
 import { ForceChartFromAnalysis } from "./force-chart";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
+
+/** A cell a problem is about: a red border and wash, besides aria-invalid (colour is not the only sign: the list names the row). */
+const BAD_CELL = "border-danger bg-ember-wash";
+/** Wide enough for "37.25 cm" as typed, with a little less padding than other fields. */
+const cellClass = (bad: boolean) => `field w-24 px-2 sm:w-28 ${bad ? BAD_CELL : ""}`;
+/** A saved point named as the table's row (the saved rows are the table's rows, closed up). */
+const rowPlace = (point: number | null) => (point === null ? "The unloaded reading" : `Row ${point + 1}`);
 
 interface Row {
   forceN: string;
@@ -53,7 +62,7 @@ export function ReadingsEntry({
 }) {
   const { state, canAnswer } = useLesson();
   const saved = state.readings[id];
-  const fetcher = useFetcher<{ readingsId?: string; errors?: string[]; saved?: boolean }>();
+  const fetcher = useFetcher<{ readingsId?: string; errors?: string[]; cells?: ReadingsCell[]; saved?: boolean }>();
   const [rows, setRows] = useState<Row[]>(() => rowsFrom(saved));
   const [unloaded, setUnloaded] = useState(readingText(saved?.unloadedCm, saved?.resolutionCm ?? resolutionCm));
   const [material, setMaterial] = useState(saved?.material ?? "");
@@ -67,10 +76,36 @@ export function ReadingsEntry({
     if (addedRow !== null) table.current?.querySelectorAll<HTMLInputElement>('input[name="forceN"]')[addedRow]?.focus();
   }, [addedRow]);
   const errors = fetcher.data?.readingsId === id ? fetcher.data.errors : undefined;
+  // The cells the problems are about, marked until the next save.
+  const badCells = (errors?.length ?? 0) > 0 ? (fetcher.data?.cells ?? []) : [];
+  const isBad = (row: number | null, column: ReadingsCell["column"]) => badCells.some((c) => c.row === row && c.column === column);
+  const errorsId = `readings-${id}-problems`;
+  const markIf = (bad: boolean) => (bad ? { "aria-invalid": true as const, "aria-describedby": errorsId } : {});
   const savedNow = fetcher.data?.readingsId === id && fetcher.data.saved === true;
+  // Once a save is answered, the table shows what was saved, rows closed up, so "Row 4" in the
+  // analysis below is the table's fourth row. Once per answer: later edits are never overwritten.
+  const shownAnswer = useRef<unknown>(null);
   useEffect(() => {
-    if (savedNow) setEdited(false);
-  }, [savedNow, fetcher.data]);
+    if (!savedNow || shownAnswer.current === fetcher.data) return;
+    shownAnswer.current = fetcher.data;
+    setEdited(false);
+    if (saved) {
+      setRows(rowsFrom(saved));
+      setUnloaded(readingText(saved.unloadedCm, saved.resolutionCm));
+    }
+  }, [savedNow, fetcher.data, saved]);
+  // On a narrow screen the table may be wider than its box: then a line says it slides sideways.
+  const scroller = useRef<HTMLDivElement>(null);
+  const [slides, setSlides] = useState(false);
+  useEffect(() => {
+    const box = scroller.current;
+    if (!box) return;
+    const measure = () => setSlides(box.scrollWidth > box.clientWidth + 1);
+    measure();
+    const observer = new ResizeObserver(measure);
+    observer.observe(box);
+    return () => observer.disconnect();
+  }, []);
   const update = (i: number, patch: Partial<Row>) => {
     setEdited(true);
     setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
@@ -103,16 +138,22 @@ export function ReadingsEntry({
           </label>
           <label className="block">
             <span className="mb-1 block font-bold">{mode === "bend" ? "Unloaded reading (cm)" : "Unloaded length (cm)"}</span>
-            <input name="unloadedCm" className="field" inputMode="decimal" value={unloaded} onChange={(e) => {
+            <input name="unloadedCm" className={`field ${isBad(null, "unloaded") ? BAD_CELL : ""}`} {...markIf(isBad(null, "unloaded"))} inputMode="decimal" value={unloaded} onChange={(e) => {
                 setEdited(true);
                 setUnloaded(e.target.value);
               }} disabled={!canAnswer} required />
           </label>
         </div>
-        <div className="overflow-x-auto">
+        {slides && (
+          <p className="mb-1 text-ink-soft" data-testid="readings-slide-hint">
+            The table is wider than your screen: slide it sideways to see every column →
+          </p>
+        )}
+        <div ref={scroller} className="overflow-x-auto">
           <table className="border-collapse">
             <thead>
               <tr>
+                <th scope="col" className="px-1 text-right">Row</th>
                 <th scope="col" className="px-2 text-left">Force (N)</th>
                 <th scope="col" className="px-2 text-left">{loadedLabel}</th>
                 <th scope="col" className="px-2 text-left">After unloading (cm)</th>
@@ -122,14 +163,15 @@ export function ReadingsEntry({
             <tbody ref={table}>
               {rows.map((row, i) => (
                 <tr key={i}>
+                  <th scope="row" className="px-1 text-right font-normal tabular-nums text-ink-soft">{i + 1}</th>
                   <td className="px-1 py-1">
-                    <input name="forceN" aria-label={`Force, row ${i + 1}`} className="field w-[4.5rem] sm:w-24" inputMode="decimal" value={row.forceN} onChange={(e) => update(i, { forceN: e.target.value })} disabled={!canAnswer} />
+                    <input name="forceN" aria-label={`Force, row ${i + 1}`} className={cellClass(isBad(i + 1, "force"))} {...markIf(isBad(i + 1, "force"))} inputMode="decimal" value={row.forceN} onChange={(e) => update(i, { forceN: e.target.value })} disabled={!canAnswer} />
                   </td>
                   <td className="px-1 py-1">
-                    <input name="readingCm" aria-label={`${loadedLabel}, row ${i + 1}`} className="field w-[4.5rem] sm:w-28" inputMode="decimal" value={row.readingCm} onChange={(e) => update(i, { readingCm: e.target.value })} disabled={!canAnswer} />
+                    <input name="readingCm" aria-label={`${loadedLabel}, row ${i + 1}`} className={cellClass(isBad(i + 1, "reading"))} {...markIf(isBad(i + 1, "reading"))} inputMode="decimal" value={row.readingCm} onChange={(e) => update(i, { readingCm: e.target.value })} disabled={!canAnswer} />
                   </td>
                   <td className="px-1 py-1">
-                    <input name="returnReadingCm" aria-label={`Reading after unloading, row ${i + 1}`} className="field w-[4.5rem] sm:w-28" inputMode="decimal" value={row.returnReadingCm} onChange={(e) => update(i, { returnReadingCm: e.target.value })} disabled={!canAnswer} />
+                    <input name="returnReadingCm" aria-label={`Reading after unloading, row ${i + 1}`} className={cellClass(isBad(i + 1, "return"))} {...markIf(isBad(i + 1, "return"))} inputMode="decimal" value={row.returnReadingCm} onChange={(e) => update(i, { returnReadingCm: e.target.value })} disabled={!canAnswer} />
                   </td>
                   <td className="px-1 py-1 text-center">
                     <input type="checkbox" aria-label={`Broke at this load, row ${i + 1}`} className="h-5 w-5" checked={row.broke} onChange={(e) => update(i, { broke: e.target.checked })} disabled={!canAnswer} />
@@ -159,8 +201,8 @@ export function ReadingsEntry({
       <div aria-live="polite">
         {errors && errors.length > 0 && (
           <div className="mt-3 rounded bg-ember-wash p-3 text-danger" role="alert">
-            <p className="font-bold">Nothing was saved yet. Please fix:</p>
-            <ul className="list-disc pl-5 text-ink">
+            <p className="font-bold">Nothing was saved yet. Please fix{badCells.length > 0 ? " (the cells concerned are marked in red)" : ""}:</p>
+            <ul id={errorsId} className="list-disc pl-5 text-ink">
               {errors.map((e) => (
                 <li key={e}>{e}</li>
               ))}
@@ -169,7 +211,9 @@ export function ReadingsEntry({
         )}
         {fetcher.data?.saved && fetcher.data.readingsId === id && <p className="mt-3 text-ok font-bold">Saved.</p>}
       </div>
-      {analysis && <ReadingsAnalysis analysis={analysis} title={title} stale={edited || (errors !== undefined && errors.length > 0)} />}
+      {analysis && saved && (
+        <ReadingsAnalysis analysis={analysis} title={title} resolutionCm={saved.resolutionCm} stale={edited || (errors !== undefined && errors.length > 0)} />
+      )}
     </section>
   );
 }
@@ -183,10 +227,13 @@ export function ReadingsAnalysis({
   title,
   stale = false,
   whose = "your",
+  resolutionCm = 0.1,
 }: {
   analysis: ReturnType<typeof analyseReadings>;
   title: string;
   stale?: boolean;
+  /** what the ruler was read to, for writing a reading in a caution as it was read */
+  resolutionCm?: number;
   /** whose readings, for the heading: "your" for the student, "Juno's" for the parent */
   whose?: string;
 }) {
@@ -200,6 +247,7 @@ export function ReadingsAnalysis({
           These results are worked out from the readings you last saved, not from the numbers in the table above. Save to update them.
         </p>
       )}
+      <ReadingCautions cautions={analysis.cautions} placeOf={rowPlace} resolutionCm={resolutionCm} />
       <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1">
         <dt>Stiffness (best line through the origin)</dt>
         <dd data-testid="stiffness-through-origin">{origin.slope !== null ? `${formatForStudent(origin.slope)} N/cm` : "—"}</dd>
