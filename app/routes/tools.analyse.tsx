@@ -62,7 +62,7 @@ function inLineOrder(problems: readonly string[]): string[] {
   return [...new Set(problems)].sort((a, b) => line(a) - line(b));
 }
 
-/** The fields as typed, each a string cut to its field's length, for a form refused before reading. */
+/** The fields as typed (a field that is not text is left blank), for a form refused before reading and the form kept in the tab. */
 function typedValues(form: Record<string, unknown>): FormValues {
   const field = (name: keyof FormValues, most: number) => (typeof form[name] === "string" ? (form[name] as string).slice(0, most) : BLANK[name]);
   return {
@@ -150,11 +150,11 @@ function inFormWords(error: string, lines: number[]): string {
 /** Where this tab keeps the form while it is open (sessionStorage: never sent, gone with the tab). */
 const KEPT_FORM_KEY = "bendwise:analyse-form";
 
-/** The form kept in this tab, or null when there is none or it cannot be read. */
+/** The form kept in this tab, or null when there is none or it cannot be read (read without zod: zod stays on the server). */
 function keptForm(): FormValues | null {
   try {
-    const kept = formSchema.safeParse(JSON.parse(window.sessionStorage.getItem(KEPT_FORM_KEY) ?? "null"));
-    return kept.success ? kept.data : null;
+    const kept: unknown = JSON.parse(window.sessionStorage.getItem(KEPT_FORM_KEY) ?? "null");
+    return typeof kept === "object" && kept !== null ? typedValues(kept as Record<string, unknown>) : null;
   } catch {
     return null;
   }
