@@ -45,12 +45,14 @@ async function orderSeats(page: Page, seats: number, method: "card" | "invoice",
   await page.waitForURL(/\/school\/seats\/buy/);
   await page.getByRole("heading", { name: "Buy student seats" }).waitFor();
   // A number out of range is named as such, with the order's own limits, instead of a total.
-  for (const wrong of ["0", "99999"]) {
+  for (const wrong of ["0", "99999", "99999999999999999999"]) {
     await page.getByLabel("How many seats?").fill(wrong);
-    await expect(page.getByTestId("order-total").innerText()).resolves.toBe("Choose between 1 and 5,000 seats for one order.");
+    await expect(page.getByTestId("order-total").innerText()).resolves.toBe("That is outside the range: enter a whole number of seats from 1 to 5,000.");
   }
+  await page.getByLabel("How many seats?").fill("1e3");
+  await expect(page.getByTestId("order-total").innerText()).resolves.toBe("Use digits only: a whole number of seats from 1 to 5,000.");
   await page.getByLabel("How many seats?").fill("");
-  await expect(page.getByTestId("order-total").innerText()).resolves.toBe("Enter how many seats, as a whole number (for example 30).");
+  await expect(page.getByTestId("order-total").innerText()).resolves.toBe("Enter a whole number of seats from 1 to 5,000.");
   await page.getByLabel("How many seats?").fill(String(seats));
   if (method === "invoice") {
     await page.getByLabel("By invoice").check();
