@@ -721,13 +721,14 @@ export function checkTableAnswers(typedCells: readonly string[], expectedCells: 
       return message.startsWith(COULD_NOT_READ) ? message.replace(COULD_NOT_READ, `${name} could not be read`) : `${name}: ${message}`;
     });
     const outcome = unreadable.some(({ result }) => result.outcome === "not-checkable") ? "not-checkable" : "unreadable";
-    return { outcome, parsed: null, message: `${named.join(" ")} ${HOW_TO_WRITE}`, wrongCells: unreadable.map(({ index }) => index) };
+    // One line per cell (the lesson page shows each on its own line).
+    return { outcome, parsed: null, message: [...named, HOW_TO_WRITE].join("\n"), wrongCells: unreadable.map(({ index }) => index) };
   }
   const wrong = cells.filter(({ result }) => result.outcome !== "correct");
   if (wrong.length === 0) return { outcome: "correct", parsed: null, message: "Every cell is right.", wrongCells: [] };
   return {
     ...wrong[0].result,
-    message: wrong.map(({ name, result }) => `${name}: ${result.message}`).join(" "),
+    message: wrong.map(({ name, result }) => `${name}: ${result.message}`).join("\n"),
     wrongCells: wrong.map(({ index }) => index),
   };
 }

@@ -489,13 +489,13 @@ describe("a table of answers (invented numbers)", () => {
     const result = checkTableAnswers(["5 cm", "1.0 cm", "-1.5 cm"], rows, oneColumn);
     expect(result.outcome).toBe("incorrect");
     expect(result.slip?.code).toBe("unit-factor-10");
-    expect(result.message).toMatch(/^Row 1: .*factor of 10.* Row 3: .*order of your subtraction/);
+    expect(result.message).toMatch(/^Row 1: .*factor of 10.*\nRow 3: .*order of your subtraction/);
     expect(result.wrongCells).toEqual([0, 2]);
   });
   it("is unreadable (no try used) when a cell cannot be read, naming each such row once and how to write an answer once", () => {
     const result = checkTableAnswers(["0.5 cm", "two", ""], rows, oneColumn);
     expect(result.outcome).toBe("unreadable");
-    expect(result.message).toMatch(/^Row 2 could not be read.* Row 3 could not be read/);
+    expect(result.message).toMatch(/^Row 2 could not be read.*\nRow 3 could not be read/);
     expect(result.message.match(/Write a number and its unit/g)).toHaveLength(1);
     expect(result.wrongCells).toEqual([1, 2]);
   });
@@ -517,7 +517,7 @@ describe("a table of answers (invented numbers)", () => {
 
     const twoWrong = checkTableAnswers(["1.6 N·cm", "0.64 cm²", "6.4", "2.56 N", "14.4 Ncm", "5.76 cm²"], sums, twoColumns);
     expect(twoWrong.outcome).toBe("unit-missing");
-    expect(twoWrong.message).toMatch(/^Row 2, F × x: The number is right, but the unit is missing.* Row 2, x²: /);
+    expect(twoWrong.message).toMatch(/^Row 2, F × x: The number is right, but the unit is missing.*\nRow 2, x²: /);
     expect(twoWrong.wrongCells).toEqual([2, 3]);
 
     const unread = checkTableAnswers(["1.6 N·cm", "0.64 cm²", "6.4 N·cm", "2.56 cm²", "14.4 N·cm", "lots"], sums, twoColumns);
@@ -536,6 +536,6 @@ describe("a table of answers (invented numbers)", () => {
   it("falls back to counting cells when the template does not fit the expected cells", () => {
     expect(tableCellNames(undefined, 2)).toEqual(["Cell 1", "Cell 2"]);
     expect(tableCellNames(oneColumn, 2)).toEqual(["Cell 1", "Cell 2"]);
-    expect(checkTableAnswers(["1 cm", "1 cm", "2 cm"], rows).message).toMatch(/^Cell 1: .* Cell 3: /);
+    expect(checkTableAnswers(["1 cm", "1 cm", "2 cm"], rows).message).toMatch(/^Cell 1: .*\nCell 3: /);
   });
 });

@@ -78,7 +78,13 @@ export function Exercise({ id }: { id: string }) {
             data-outcome={feedback.outcome}
           >
             <p className="font-bold">{feedback.right ? "That's right." : feedback.noTriesLeft || closed ? "Not right. That was the last try." : "Not yet."}</p>
-            {!feedback.right && <p className="text-ink">{feedback.message}</p>}
+            {!feedback.right &&
+              // A table's feedback has a line for each cell.
+              feedback.message.split("\n").map((line, i) => (
+                <p key={i} className="text-ink">
+                  {line}
+                </p>
+              ))}
             {feedback.hint && !closed && (
               <p className="mt-2 text-ink" data-testid="exercise-hint">
                 <span className="font-bold">Hint: </span>
