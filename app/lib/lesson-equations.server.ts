@@ -24,15 +24,25 @@ export function renderDisplayedFormula(tex: string): string {
   );
 }
 
-/** A remark plugin: each <Equation tex="…" /> gets its rendered markup as an `html` attribute. */
+/**
+ * A remark plugin: each <Equation tex="…" /> gets its rendered markup as an `html` attribute, and its
+ * version for a phone's width (`narrow="…"`, the same formula over more lines), if it has one, as `narrowHtml`.
+ */
 export function remarkEquations() {
   return (tree: Node) => {
     const walk = (node: Node) => {
       for (const child of node.children ?? []) {
         if ((child.type === "mdxJsxFlowElement" || child.type === "mdxJsxTextElement") && child.name === "Equation") {
-          const tex = child.attributes?.find((a) => a.type === "mdxJsxAttribute" && a.name === "tex")?.value;
+          const attribute = (name: string) => child.attributes?.find((a) => a.type === "mdxJsxAttribute" && a.name === name)?.value;
+          const tex = attribute("tex");
+          const narrow = attribute("narrow");
           if (typeof tex !== "string") throw new Error('<Equation> needs its formula as a plain string: <Equation tex="k = F / x" />');
-          child.attributes = [...(child.attributes ?? []), { type: "mdxJsxAttribute", name: "html", value: renderDisplayedFormula(tex) }];
+          if (narrow !== undefined && typeof narrow !== "string") throw new Error(`<Equation tex="${tex}">: narrow must be a plain string too`);
+          child.attributes = [
+            ...(child.attributes ?? []),
+            { type: "mdxJsxAttribute", name: "html", value: renderDisplayedFormula(tex) },
+            ...(narrow ? [{ type: "mdxJsxAttribute", name: "narrowHtml", value: renderDisplayedFormula(narrow) }] : []),
+          ];
         }
         walk(child);
       }

@@ -309,6 +309,7 @@ for (const l of lessons) {
       for (const m of l.content.matchAll(/\bcsv=\{(\w+)\}/g)) expect(imported.has(m[1]), `csv={${m[1]}} is imported`).toBe(true);
       const tex = [
         ...attributeValues(l.content, "Equation", "tex").map((t) => ({ t, displayMode: true })),
+        ...attributeValues(l.content, "Equation", "narrow").map((t) => ({ t, displayMode: true })),
         ...[...l.content.matchAll(/\$([^$\n]+)\$/g)].map((m) => ({ t: m[1], displayMode: false })),
       ];
       for (const { t, displayMode } of tex) {
