@@ -3,7 +3,7 @@
 import { createElement } from "react";
 import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it } from "vitest";
-import { chartAxis } from "~/components/lesson/force-chart";
+import { chartAxis, ForceChart } from "~/components/lesson/force-chart";
 import { LessonContext, type LessonContextValue } from "~/components/lesson/lesson-context";
 import { AfterPrediction } from "~/components/lesson/prediction";
 import type { LessonState } from "~/lib/course.server";
@@ -44,5 +44,19 @@ describe("a chart's axis", () => {
   it("ends exactly at a value on a step, and has a range when there is no data", () => {
     expect(chartAxis(4)).toEqual({ max: 4, ticks: [0, 1, 2, 3, 4] });
     expect(chartAxis(0).max).toBe(1);
+  });
+});
+
+describe("a lesson chart whose lines use only the elastic range", () => {
+  // Invented readings: straight (2 N/cm) up to 4 N, then softer, breaking at 6 N.
+  const csv = "forceN,readingCm,broke\n1,19.5,false\n2,19.0,false\n3,18.5,false\n4,18.0,false\n5,17.0,false\n6,15.0,true";
+  const slopeOf = (html: string) => Number(/through the origin: slope ([\d.]+) N\/cm/.exec(html)?.[1]);
+  it("fits the lines to the loads up to that force, draws the later points hollow and says so", () => {
+    const all = renderToStaticMarkup(createElement(ForceChart, { csv, mode: "bend", unloadedCm: 20, title: "Strip" }));
+    const elastic = renderToStaticMarkup(createElement(ForceChart, { csv, mode: "bend", unloadedCm: 20, title: "Strip", linesUpToN: 4 }));
+    expect(slopeOf(elastic)).toBeCloseTo(2, 6); // 1 N per 0.5 cm, exactly
+    expect(slopeOf(all)).toBeLessThan(2);
+    expect(elastic).toContain("Both lines use the loads up to 4 N; hollow points: the loads past it.");
+    expect(elastic.match(/fill="#fff" stroke/g)).toHaveLength(1); // 5 N; 6 N broke and is the cross
   });
 });

@@ -25,7 +25,11 @@ export function chartAxis(value: number): { max: number; ticks: number[] } {
   return { max: count * step, ticks: Array.from({ length: count + 1 }, (_, i) => Number((i * step).toPrecision(6))) };
 }
 
-export function ForceChartFromAnalysis({ analysis, title }: { analysis: AnalysisResult; title: string }) {
+/**
+ * `lines`: the analysis the two lines come from when it is not `analysis` itself (a chart whose lines
+ * use only the loads up to `linesUpToN`, as a lesson draws the elastic range; the later points are hollow).
+ */
+export function ForceChartFromAnalysis({ analysis, title, lines = analysis, linesUpToN }: { analysis: AnalysisResult; title: string; lines?: AnalysisResult; linesUpToN?: number }) {
   const points = analysis.points.filter((p) => p.deformationCm !== null) as { forceN: number; deformationCm: number }[];
   const xAxis = chartAxis(Math.max(0, ...points.map((p) => p.deformationCm)) * 1.05);
   const yAxis = chartAxis(Math.max(0, ...points.map((p) => p.forceN)) * 1.05);
@@ -36,8 +40,9 @@ export function ForceChartFromAnalysis({ analysis, title }: { analysis: Analysis
   const y = (n: number) => H - PAD.bottom - (n / yMax) * (H - PAD.top - PAD.bottom);
   // One clip area per chart (a page can show several): an id React makes the same on server and browser.
   const clipId = `plot-area-${useId().replace(/[^A-Za-z0-9_-]/g, "")}`;
-  const origin = analysis.fit.throughOrigin.slope;
-  const free = analysis.fit.withIntercept;
+  const origin = lines.fit.throughOrigin.slope;
+  const free = lines.fit.withIntercept;
+  const pastLines = (p: { forceN: number }) => linesUpToN !== undefined && p.forceN > linesUpToN;
   const describe = `${points.length} points. ${
     origin !== null ? `Best line through the origin: slope ${origin.toPrecision(3)} N/cm.` : ""
   } ${free.slope !== null && free.intercept !== null ? `Best line with intercept: slope ${free.slope.toPrecision(3)} N/cm, intercept ${free.intercept.toPrecision(3)} N.` : ""}`;
@@ -76,6 +81,8 @@ export function ForceChartFromAnalysis({ analysis, title }: { analysis: Analysis
         {points.map((p, i) =>
           i === brokeAt ? (
             <path key={i} d={`M${x(p.deformationCm) - 6} ${y(p.forceN) - 6}l12 12m0 -12l-12 12`} stroke="#a8401a" strokeWidth="3" />
+          ) : pastLines(p) ? (
+            <circle key={i} cx={x(p.deformationCm)} cy={y(p.forceN)} r="4.5" fill="#fff" stroke="#1c2726" strokeWidth="2" />
           ) : (
             <circle key={i} cx={x(p.deformationCm)} cy={y(p.forceN)} r="5" fill="#1c2726" />
           ),
@@ -83,6 +90,7 @@ export function ForceChartFromAnalysis({ analysis, title }: { analysis: Analysis
       </svg>
       <figcaption className="mt-2 font-ui text-[length:var(--text-step--1)] text-ink-soft">
         <span className="font-bold">{title}.</span> Solid line: best line through the origin. Dashed line: best line with a free intercept.
+        {linesUpToN !== undefined ? ` Both lines use the loads up to ${linesUpToN} N; hollow points: the loads past it.` : ""}
         {brokeAt >= 0 ? ` Cross: the load it broke at (${points[brokeAt].forceN} N), left out of both lines.` : ""}
       </figcaption>
     </figure>
@@ -90,12 +98,14 @@ export function ForceChartFromAnalysis({ analysis, title }: { analysis: Analysis
 }
 
 /** The chart for a CSV data set of a lesson. */
-export function ForceChart({ csv, mode = "bend", unloadedCm, resolutionCm = 0.1, title = "Force against deformation" }: {
+export function ForceChart({ csv, mode = "bend", unloadedCm, resolutionCm = 0.1, title = "Force against deformation", linesUpToN }: {
   csv: string;
   mode?: Mode;
   unloadedCm?: number;
   resolutionCm?: number;
   title?: string;
+  /** draw the lines through the loads up to this force only (a lesson showing where the straight part ends) */
+  linesUpToN?: number;
 }) {
   const { columns, rows } = parseCsv(csv);
   const column = (name: string) => columns.indexOf(name);
@@ -108,5 +118,7 @@ export function ForceChart({ csv, mode = "bend", unloadedCm, resolutionCm = 0.1,
     broke: column("broke") >= 0 ? row[column("broke")] === "true" : undefined,
   }));
   const analysis = analyseReadings({ mode, unloadedCm, resolutionCm, points });
-  return <ForceChartFromAnalysis analysis={analysis} title={title} />;
+  if (linesUpToN === undefined) return <ForceChartFromAnalysis analysis={analysis} title={title} />;
+  const lines = analyseReadings({ mode, unloadedCm, resolutionCm, points: points.filter((p) => p.forceN <= linesUpToN) });
+  return <ForceChartFromAnalysis analysis={analysis} lines={lines} linesUpToN={linesUpToN} title={title} />;
 }
