@@ -409,7 +409,15 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
           {targets.length === 0 ? (
             <p className="text-ink-soft">You have no other class at this school to move {student.displayName} to.</p>
           ) : (
-            <Form method="post" preventScrollReset>
+            <Form
+              method="post"
+              preventScrollReset
+              onSubmit={(e) => {
+                const to = e.currentTarget.elements.namedItem("toClassId") as HTMLSelectElement | null;
+                const toName = to?.selectedOptions[0]?.text ?? "the other class";
+                if (!window.confirm(`Move ${student.displayName} from ${klass.name} to ${toName}? Their account and work are kept; that class's lessons and due dates apply.`)) e.preventDefault();
+              }}
+            >
               <input type="hidden" name="intent" value="move" />
               <SelectField label="Move to" name="toClassId" options={targets.map((t) => ({ value: t.id, label: `${t.name} (${t.schoolYear})` }))} />
               <SendButton className="btn" busy={busy}>Move</SendButton>
