@@ -1,6 +1,7 @@
 // The header and footer around every page.
 import { Form, Link, NavLink, useLocation, useRouteLoaderData } from "react-router";
 import { BrandMark } from "./brand-mark";
+import { hasPendingSaves, sendPendingSaves } from "~/lib/pending-saves";
 
 /** What the root loader tells the header about the signed-in person. */
 export interface HeaderAccount {
@@ -20,7 +21,7 @@ function AccountNav({ account }: { account: HeaderAccount }) {
       <span className="text-ink-soft">
         Signed in as <strong className="text-ink">{account.displayName}</strong>
       </span>
-      <Form method="post" action="/sign-out">
+      <Form method="post" action="/sign-out" onSubmit={beforeSigningOut}>
         <input type="hidden" name="intent" value="here" />
         <button type="submit" className="btn btn-quiet">
           Sign out
@@ -28,6 +29,28 @@ function AccountNav({ account }: { account: HeaderAccount }) {
       </Form>
     </>
   );
+}
+
+/**
+ * Before the session ends: a draft still owed to the server is sent first (it could not be saved
+ * after), and what this tab kept of forms (a child's name while a seat is bought, the analyser's
+ * readings) is forgotten, so the next person at a shared computer does not find it.
+ */
+function beforeSigningOut(event: React.FormEvent<HTMLFormElement>) {
+  const form = event.currentTarget;
+  const forget = () => {
+    try {
+      sessionStorage.clear();
+    } catch {
+      // storage turned off: nothing was kept
+    }
+  };
+  if (!hasPendingSaves()) return forget();
+  event.preventDefault();
+  void sendPendingSaves().then(() => {
+    forget();
+    form.submit(); // the plain form post, as without JavaScript
+  });
 }
 
 export function SiteHeader({ children }: { children?: React.ReactNode }) {

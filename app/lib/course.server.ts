@@ -527,9 +527,11 @@ export async function saveWrittenAnswer(
   studentId: string,
   slug: string,
   answerId: string,
-  text: { claim: string; evidence: string; reasoning: string },
+  /** the parts to save; a part left out of a draft keeps what it has (a hand-in gives all three) */
+  parts: { claim?: string; evidence?: string; reasoning?: string },
   handIn: boolean,
 ): Promise<"saved" | "already-handed-in"> {
+  const text = Object.fromEntries(Object.entries(parts).filter(([, value]) => value !== undefined)) as typeof parts;
   const values = { studentId, lessonSlug: slug, answerId, ...text, handedInAt: handIn ? new Date() : null };
   const written = await db
     .insert(writtenAnswers)

@@ -36,9 +36,11 @@ const intentSchema = z.discriminatedUnion("intent", [
   z.object({
     intent: z.literal("written-answer"),
     answerId: idSchema,
-    claim: z.string().max(4000, "Keep it under 4000 characters."),
-    evidence: z.string().max(4000, "Keep it under 4000 characters."),
-    reasoning: z.string().max(4000, "Keep it under 4000 characters."),
+    // A draft that saves itself sends only the parts typed in since its last save (so two tabs do not
+    // wipe each other's other parts); a hand-in and a "Save a draft" send all three.
+    claim: z.string().max(4000, "Keep it under 4000 characters.").optional(),
+    evidence: z.string().max(4000, "Keep it under 4000 characters.").optional(),
+    reasoning: z.string().max(4000, "Keep it under 4000 characters.").optional(),
     handIn: z.enum(["0", "1"]),
   }),
 ]);
@@ -176,7 +178,8 @@ async function lessonAction(request: Request, form: FormData | null, slugParam: 
     }
     case "written-answer": {
       const handIn = input.handIn === "1";
-      const text = { claim: input.claim.trim(), evidence: input.evidence.trim(), reasoning: input.reasoning.trim() };
+      const sent = { claim: input.claim?.trim(), evidence: input.evidence?.trim(), reasoning: input.reasoning?.trim() };
+      const text = { claim: sent.claim ?? "", evidence: sent.evidence ?? "", reasoning: sent.reasoning ?? "" };
       if (handIn) {
         const errors: Record<string, string> = {};
         if (!text.claim) errors.claim = "Write your claim before handing in.";
@@ -188,7 +191,7 @@ async function lessonAction(request: Request, form: FormData | null, slugParam: 
           return data({ answerId: input.answerId, errors }, { status: 400 });
         }
       }
-      const outcome = await saveWrittenAnswer({ db }, user.id, slug, input.answerId, text, handIn);
+      const outcome = await saveWrittenAnswer({ db }, user.id, slug, input.answerId, handIn ? text : sent, handIn);
       if (outcome === "already-handed-in") {
         return data(
           { answerId: input.answerId, errors: { claim: "This answer is handed in. To change it, use “Hand in again”; your teacher then reads the new version." } },
@@ -258,7 +261,7 @@ export default function LessonPage({ loaderData }: Route.ComponentProps) {
         <h1 className="mt-1 mb-3 text-[length:var(--text-step-3)]">{lesson.title}</h1>
         <p className="prose-reading text-[length:var(--text-step-1)] text-ink-soft">{lesson.summary}</p>
         <p className="mt-3 font-ui text-[length:var(--text-step--1)] text-ink-soft" data-testid="lesson-progress">
-          {state.requiredDone} of {state.requiredTotal} parts done{state.complete ? " · lesson complete" : ""}
+          {asAdult ? "You see the lesson as a student does; parts done count for students only" : `${state.requiredDone} of ${state.requiredTotal} parts done${state.complete ? " · lesson complete" : ""}`}
           {state.assignment ? <span data-testid="lesson-due"> · due {state.assignment.dueText}</span> : null}
         </p>
         {state.assignment?.closed ? (

@@ -6,6 +6,7 @@ import { useEffect, useRef, useState } from "react";
 import { useBlocker, useFetcher, useLocation } from "react-router";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
+import { owePendingSave } from "~/lib/pending-saves";
 import { isRubricScores, RUBRIC, rubricTotal, type RubricScores } from "~/lib/teaching/shared";
 
 /** Each part's limit (the action's too). The browser stops typing and cuts a paste there without a word, so the count shows near it. */
@@ -18,13 +19,13 @@ type Part = "claim" | "evidence" | "reasoning";
 const PARTS: Part[] = ["claim", "evidence", "reasoning"];
 
 export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
-  const { state, canAnswer, reader } = useLesson();
+  const { state, canAnswer, asAdult, reader } = useLesson();
   const saved = state.writtenAnswers[id];
   const fetcher = useFetcher<{ answerId?: string; errors?: Record<string, string>; error?: string; saved?: "draft" | "handed-in" }>();
   const mine = fetcher.data?.answerId === id ? fetcher.data : undefined;
   const handedIn = saved?.handedIn || mine?.saved === "handed-in";
   const [lengths, setLengths] = useState<Record<string, number>>({});
-  const { unsaved, autosaved, typed } = useKeptDraft(id, canAnswer && !handedIn, mine?.saved ? mine : undefined);
+  const { unsaved, autosaved, problem, typed } = useKeptDraft(id, canAnswer && !handedIn, mine?.saved ? mine : undefined);
   const leaving = useBlocker(({ currentLocation, nextLocation }) => unsaved && handedIn && currentLocation.pathname !== nextLocation.pathname);
   const field = (name: Part, label: string, help: string) => (
     <div className="mb-3">
@@ -46,7 +47,7 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
           // Read now: the event's currentTarget is gone by the time React runs the state update.
           const length = e.currentTarget.value.length;
           setLengths((l) => ({ ...l, [name]: length }));
-          typed();
+          typed(name);
         }}
         aria-describedby={`${id}-${name}-help ${id}-${name}-count`}
         aria-invalid={Boolean(mine?.errors?.[name])}
@@ -112,6 +113,12 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
           {mine.error}
         </p>
       )}
+      {problem && !mine?.error && (
+        <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert" data-testid="draft-problem">
+          {problem}
+        </p>
+      )}
+      {asAdult && <p className="mt-3 text-ink-soft">You are looking at this lesson as an adult: a student writes here, and nothing is saved for you.</p>}
       {(saved?.reviewComment || isRubricScores(saved?.reviewScores)) && (
         <div className="mt-3 rounded bg-spruce-wash p-3" data-testid="review-comment">
           <p className="font-bold">Your {reader}'s review</p>
@@ -139,49 +146,70 @@ function RubricLevels({ scores }: { scores: RubricScores }) {
   );
 }
 
+/** Why a draft that saved itself did not reach the server, in the student's words. */
+function draftProblem(status: number): string {
+  if (status === 202 || status === 401 || status === 403) {
+    return "Not saved: you are signed out. Sign in again in another tab, then come back here and press “Save a draft”: your words are still here.";
+  }
+  if (status === 409) {
+    return "Not saved as a draft: this answer can no longer be changed here (it was handed in, perhaps in another tab, or the lesson has closed). Copy your words before you reload the page.";
+  }
+  return "Not saved yet: the connection failed. It tries again when you type or leave the page; “Save a draft” tries now.";
+}
+
 /**
- * The draft's life between the saves a student asks for. `typed` is called with each change. While a
- * draft may be saved (`autosave`), it is saved AUTOSAVE_AFTER_MS after the typing stops, and at once
- * when the page is left: a link in the app or a reload or closed tab (the save is sent with
- * `keepalive`, so it outlives the page). Otherwise (handed in) leaving with changes asks first.
- * `ownSave` is the answer to the student's own "Save a draft" or "Hand in" when it succeeded.
+ * The draft's life between the saves a student asks for. `typed(part)` is called with each change.
+ * While a draft may be saved (`autosave`), the parts changed since the last save are sent
+ * AUTOSAVE_AFTER_MS after the typing stops, and at once when the page is left (a link in the app, a
+ * reload or closed tab: sent with `keepalive`, so it outlives the page) or before signing out. Only
+ * the changed parts go, so two tabs of the same lesson do not wipe each other's other parts.
+ * Otherwise (handed in) leaving with changes asks first. `ownSave` is the answer to the student's own
+ * "Save a draft" or "Hand in" when it succeeded (it sent every part).
  */
 function useKeptDraft(answerId: string, autosave: boolean, ownSave: unknown) {
   const { pathname } = useLocation();
   // The form, held past its removal from the page: a link away unmounts it before the last save reads it.
   const form = useRef<HTMLFormElement | null>(null);
-  const edits = useRef(0); // changes typed so far
-  const sent = useRef(0); // the number of changes the last save held
+  const changed = useRef(new Set<Part>()); // parts typed in since the last save that reached the server
   const timer = useRef<ReturnType<typeof setTimeout> | undefined>(undefined);
   const [unsaved, setUnsaved] = useState(false);
   const [autosaved, setAutosaved] = useState(false);
+  const [problem, setProblem] = useState<string | null>(null);
   const canAutosave = useRef(autosave);
   canAutosave.current = autosave;
 
   useEffect(() => {
     if (!ownSave) return;
-    sent.current = edits.current;
+    changed.current.clear();
     setUnsaved(false);
+    setProblem(null);
   }, [ownSave]);
 
-  /** Sends the draft as the lesson's form would; keepalive lets a page being left still deliver it. */
-  const saveNow = () => {
+  /** Sends the changed parts as the lesson's form would; keepalive lets a page being left still deliver it. */
+  const saveNow = async (): Promise<void> => {
     clearTimeout(timer.current);
     const fields = form.current?.elements;
-    if (edits.current === sent.current || !canAutosave.current || !fields) return;
-    const holding = edits.current;
-    sent.current = holding;
+    if (changed.current.size === 0 || !canAutosave.current || !fields) return;
+    const sending = [...changed.current];
+    changed.current.clear();
     const body = new URLSearchParams({ intent: "written-answer", answerId, handIn: "0" });
-    for (const part of PARTS) body.set(part, (fields.namedItem(part) as HTMLTextAreaElement | null)?.value ?? "");
-    const failed = () => {
-      if (sent.current === holding) sent.current = -1; // the next pause or leaving tries again
-      setUnsaved(true);
-    };
-    fetch(`${pathname}.data`, { method: "POST", body, keepalive: true, credentials: "same-origin" }).then((response) => {
-      if (!response.ok) return failed();
-      if (edits.current === holding) setUnsaved(false);
+    for (const part of sending) body.set(part, (fields.namedItem(part) as HTMLTextAreaElement | null)?.value ?? "");
+    let status = 0;
+    try {
+      status = (await fetch(`${pathname}.data`, { method: "POST", body, keepalive: true, credentials: "same-origin" })).status;
+    } catch {
+      status = 0; // no connection
+    }
+    // React Router answers 200 for a saved draft; 202 is its redirect (to sign-in: the session ended).
+    if (status === 200) {
+      setProblem(null);
       setAutosaved(true);
-    }, failed);
+      if (changed.current.size === 0) setUnsaved(false);
+    } else {
+      for (const part of sending) changed.current.add(part); // still owed
+      setAutosaved(false);
+      setProblem(draftProblem(status));
+    }
   };
   const save = useRef(saveNow);
   save.current = saveNow;
@@ -194,40 +222,41 @@ function useKeptDraft(answerId: string, autosave: boolean, ownSave: unknown) {
     const copy = takeTabCopy(copyKey);
     const fields = form.current?.elements;
     if (copy && fields && canAutosave.current) {
-      let changed = false;
       for (const part of PARTS) {
         const field = fields.namedItem(part) as HTMLTextAreaElement | null;
-        if (field && typeof copy[part] === "string" && field.value !== copy[part]) {
-          field.value = copy[part];
-          changed = true;
+        const kept = copy[part];
+        if (field && typeof kept === "string" && field.value !== kept) {
+          field.value = kept;
+          typedRef.current(part);
         }
       }
-      if (changed) typedRef.current();
     }
     const onLeave = (event: BeforeUnloadEvent) => {
-      if (edits.current === sent.current) return;
+      if (changed.current.size === 0) return;
       if (!canAutosave.current) return event.preventDefault(); // the browser asks before leaving
       const values = form.current?.elements;
-      if (values) keepTabCopy(copyKey, Object.fromEntries(PARTS.map((part) => [part, (values.namedItem(part) as HTMLTextAreaElement | null)?.value ?? ""])));
-      save.current();
+      if (values) keepTabCopy(copyKey, Object.fromEntries([...changed.current].map((part) => [part, (values.namedItem(part) as HTMLTextAreaElement | null)?.value ?? ""])));
+      void save.current();
     };
     window.addEventListener("beforeunload", onLeave);
+    const stopOwing = owePendingSave(() => save.current());
     return () => {
       window.removeEventListener("beforeunload", onLeave);
-      save.current(); // the lesson page is going away (a link in the app)
+      stopOwing();
+      void save.current(); // the lesson page is going away (a link in the app)
     };
   }, [answerId, pathname]);
 
-  const typed = () => {
-    edits.current++;
+  const typed = (part: Part) => {
+    changed.current.add(part);
     setUnsaved(true);
     setAutosaved(false);
     clearTimeout(timer.current);
-    if (canAutosave.current) timer.current = setTimeout(() => save.current(), AUTOSAVE_AFTER_MS);
+    if (canAutosave.current) timer.current = setTimeout(() => void save.current(), AUTOSAVE_AFTER_MS);
   };
   const typedRef = useRef(typed);
   typedRef.current = typed;
-  return { unsaved, autosaved, typed };
+  return { unsaved, autosaved, problem, typed };
 }
 
 /** How long the tab's copy of a draft is good for: long enough for a reload, short for a shared computer. */
