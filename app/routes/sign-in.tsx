@@ -48,7 +48,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-const CODE_LOOKS = "A class code is 8 letters and digits, like KTXQ 9MWE; a family code is HOME- and 6 more, like HOME-AB12CD.";
+const CODE_LOOKS = "A code is short: a few letters and digits, like KTXQ 9MWE for a class or HOME-AB12CD for a family.";
 
 /** What is wrong with a typed code that was not left empty, in words that say what a code looks like; null when it may be one. */
 function typedCodeProblem(typed: string): string | null {

@@ -102,11 +102,11 @@ describe("answering an exercise", () => {
     const cells = tableInstance.cells!.map((c) => `${c.value} cm`);
     // A cell that cannot be read names its row and uses no try; every other wrong row is named too.
     const unreadable = await recordAttempt({ db }, { studentId: student, slug: LESSON, definition: table, submission: { kind: "cells", cells: ["-1 cm", "two", ""] } });
-    expect("feedback" in unreadable && unreadable.feedback).toMatchObject({ outcome: "unreadable", message: expect.stringMatching(/^Row 2 could not be read.*Row 3 could not be read/) });
+    expect("feedback" in unreadable && unreadable.feedback).toMatchObject({ outcome: "unreadable", message: expect.stringMatching(/^Row 2 could not be read.*\nRow 3 could not be read/) });
     expect((await loadLessonState({ db }, student, LESSON)).exercises[table.id].attemptsUsed).toBe(0);
     const wrongCells = ["0 cm", cells[1], "0 cm"];
     const wrong = await recordAttempt({ db }, { studentId: student, slug: LESSON, definition: table, submission: { kind: "cells", cells: wrongCells } });
-    expect("feedback" in wrong && wrong.feedback.message).toMatch(/^Row 1: .* Row 3: /);
+    expect("feedback" in wrong && wrong.feedback.message).toMatch(/^Row 1: .*\nRow 3: /);
     expect((await loadLessonState({ db }, student, LESSON)).exercises[table.id].attemptsUsed).toBe(1);
     const right = await recordAttempt({ db }, { studentId: student, slug: LESSON, definition: table, submission: { kind: "cells", cells } });
     expect("feedback" in right && right.feedback.right).toBe(true);

@@ -133,7 +133,7 @@ describe("the two doors of /sign-in", () => {
     ]) {
       const odd = await student(typed, "amira.k", "x");
       expect(odd.status).toBe(400);
-      expect((odd.body as SignInData).fieldErrors.code).toBe(`${start} A class code is 8 letters and digits, like KTXQ 9MWE; a family code is HOME- and 6 more, like HOME-AB12CD.`);
+      expect((odd.body as SignInData).fieldErrors.code).toBe(`${start} A code is short: a few letters and digits, like KTXQ 9MWE for a class or HOME-AB12CD for a family.`);
     }
   });
 
