@@ -96,7 +96,8 @@ export function ReadingCautions({
   if (cautions.length === 0) return null;
   return (
     <div className="mb-4 rounded border-l-4 border-caution bg-caution-wash p-3 text-ink" data-testid="reading-cautions">
-      <p className="font-bold text-caution">Worth a second look (the results below still use these readings):</p>
+      <p className="font-bold text-caution">Worth a second look</p>
+      <p className="mb-1">The results below still use these readings, so one typed wrong pulls the line and every figure after it: check it first, then save again.</p>
       <ul className="list-disc pl-5">
         {cautions.map((c) => {
           const words = cautionWords(c, placeOf(c.point), resolutionCm);

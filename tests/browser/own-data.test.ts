@@ -103,6 +103,10 @@ describe("own readings in the home lab", () => {
     await table.getByTestId("readings-analysis").waitFor();
     expect(await table.getByTestId("reading-cautions").innerText()).toContain("Row 4 (3.69 cm) is far from the other readings: was it typed right?");
     expect(await table.getByLabel(/Loaded reading \(cm\), row 3$/).getAttribute("aria-invalid")).toBeNull();
+    // The cell it names is marked too (amber: a second look, not an error), the others not.
+    const colour = (row: number) => table.getByLabel(new RegExp(`Loaded reading \\(cm\\), row ${row}$`)).evaluate((el) => getComputedStyle(el).backgroundColor);
+    expect(await colour(4)).not.toBe(await colour(3));
+    expect(await colour(5)).toBe(await colour(3));
     expect(consoleErrors).toEqual([]);
     await context.close();
   });

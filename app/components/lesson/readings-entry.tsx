@@ -13,7 +13,9 @@ import { SendButton } from "~/components/send-button";
 /** A cell a problem is about: a red border and wash, besides aria-invalid (colour is not the only sign: the list names the row). */
 const BAD_CELL = "border-danger bg-ember-wash";
 /** Wide enough for "37.25 cm" as typed, with a little less padding than other fields. */
-const cellClass = (bad: boolean) => `field w-24 px-2 sm:w-28 ${bad ? BAD_CELL : ""}`;
+const cellClass = (bad: boolean, worthALook = false) => `field w-24 px-2 sm:w-28 ${bad ? BAD_CELL : worthALook ? LOOK_CELL : ""}`;
+/** A saved reading a caution of the analysis names (worth a second look, not an error): amber, named in the list too. */
+const LOOK_CELL = "border-caution bg-caution-wash";
 /** A saved point named as the table's row (the saved rows are the table's rows, closed up). */
 const rowPlace = (point: number | null) => (point === null ? "The unloaded reading" : `Row ${point + 1}`);
 
@@ -114,6 +116,12 @@ export function ReadingsEntry({
     ? analyseReadings({ mode: saved.mode, unloadedCm: saved.unloadedCm ?? undefined, resolutionCm: saved.resolutionCm, points: saved.points })
     : null;
   const loadedLabel = mode === "bend" ? "Loaded reading (cm)" : "Loaded length (cm)";
+  // The cells the analysis's cautions name, while the table still shows the saved rows.
+  const lookAt = (row: number | null, column: "reading" | "force") =>
+    !edited &&
+    (analysis?.cautions ?? []).some((c) =>
+      c.kind === "far-from-others" ? column === "reading" && (c.point === null ? row === null : c.point + 1 === row) : column === "force" && c.point + 1 === row,
+    );
 
   return (
     <section id={`readings-${id}`} className="card my-8 scroll-mt-6 font-ui" aria-labelledby={`readings-${id}-title`}>
@@ -138,7 +146,7 @@ export function ReadingsEntry({
           </label>
           <label className="block">
             <span className="mb-1 block font-bold">{mode === "bend" ? "Unloaded reading (cm)" : "Unloaded length (cm)"}</span>
-            <input name="unloadedCm" className={`field ${isBad(null, "unloaded") ? BAD_CELL : ""}`} {...markIf(isBad(null, "unloaded"))} inputMode="decimal" value={unloaded} onChange={(e) => {
+            <input name="unloadedCm" className={`field ${isBad(null, "unloaded") ? BAD_CELL : lookAt(null, "reading") ? LOOK_CELL : ""}`} {...markIf(isBad(null, "unloaded"))} inputMode="decimal" value={unloaded} onChange={(e) => {
                 setEdited(true);
                 setUnloaded(e.target.value);
               }} disabled={!canAnswer} required />
@@ -165,10 +173,10 @@ export function ReadingsEntry({
                 <tr key={i}>
                   <th scope="row" className="px-1 text-right font-normal tabular-nums text-ink-soft">{i + 1}</th>
                   <td className="px-1 py-1">
-                    <input name="forceN" aria-label={`Force, row ${i + 1}`} className={cellClass(isBad(i + 1, "force"))} {...markIf(isBad(i + 1, "force"))} inputMode="decimal" value={row.forceN} onChange={(e) => update(i, { forceN: e.target.value })} disabled={!canAnswer} />
+                    <input name="forceN" aria-label={`Force, row ${i + 1}`} className={cellClass(isBad(i + 1, "force"), lookAt(i + 1, "force"))} {...markIf(isBad(i + 1, "force"))} inputMode="decimal" value={row.forceN} onChange={(e) => update(i, { forceN: e.target.value })} disabled={!canAnswer} />
                   </td>
                   <td className="px-1 py-1">
-                    <input name="readingCm" aria-label={`${loadedLabel}, row ${i + 1}`} className={cellClass(isBad(i + 1, "reading"))} {...markIf(isBad(i + 1, "reading"))} inputMode="decimal" value={row.readingCm} onChange={(e) => update(i, { readingCm: e.target.value })} disabled={!canAnswer} />
+                    <input name="readingCm" aria-label={`${loadedLabel}, row ${i + 1}`} className={cellClass(isBad(i + 1, "reading"), lookAt(i + 1, "reading"))} {...markIf(isBad(i + 1, "reading"))} inputMode="decimal" value={row.readingCm} onChange={(e) => update(i, { readingCm: e.target.value })} disabled={!canAnswer} />
                   </td>
                   <td className="px-1 py-1">
                     <input name="returnReadingCm" aria-label={`Reading after unloading, row ${i + 1}`} className={cellClass(isBad(i + 1, "return"))} {...markIf(isBad(i + 1, "return"))} inputMode="decimal" value={row.returnReadingCm} onChange={(e) => update(i, { returnReadingCm: e.target.value })} disabled={!canAnswer} />
