@@ -202,7 +202,7 @@ describe("a lesson in the browser", () => {
     // Four columns are still wider than a 375 px screen: the table says it scrolls; on a wide screen it does not.
     const overflows = () => scroller.evaluate((el) => el.scrollWidth > el.clientWidth + 1);
     await expect(overflows()).resolves.toBe(true);
-    await expect(box.getByTestId("table-scroll-hint").innerText()).resolves.toMatch(/swipe it sideways to see every column/);
+    await expect(box.getByTestId("table-scroll-hint").innerText()).resolves.toMatch(/slide it sideways to see every column/);
     await page.setViewportSize({ width: 1280, height: 800 });
     await expect.poll(() => box.getByTestId("table-scroll-hint").count()).toBe(0);
     await expect(overflows()).resolves.toBe(false);

@@ -1,10 +1,11 @@
 // One auto-checked exercise. The answer goes to the lesson route's action with a fetcher (no page
 // reload); the server checks it and answers with feedback. The expected answer never reaches the page.
-import { useEffect, useId, useRef, useState } from "react";
+import { useId } from "react";
 import { useFetcher } from "react-router";
 import type { ExerciseState, Feedback } from "~/lib/course.server";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
+import { SLIDES_SIDEWAYS, useOverflows } from "~/components/use-overflows";
 
 export interface AnswerResponse {
   exerciseId?: string;
@@ -176,22 +177,6 @@ function AnswerFields({ exercise, formId, disabled, wrongCells }: { exercise: Ex
   );
 }
 
-/** Whether a box's content is wider than the box (it scrolls sideways), kept up to date as either changes size. */
-function useOverflows<T extends HTMLElement>() {
-  const ref = useRef<T>(null);
-  const [overflows, setOverflows] = useState(false);
-  useEffect(() => {
-    const box = ref.current;
-    if (!box) return;
-    const measure = () => setOverflows(box.scrollWidth > box.clientWidth + 1);
-    measure();
-    const observer = new ResizeObserver(measure);
-    observer.observe(box);
-    if (box.firstElementChild) observer.observe(box.firstElementChild);
-    return () => observer.disconnect();
-  }, []);
-  return { ref, overflows };
-}
 
 /**
  * The empty cells of a table exercise. The cells the last check found wrong or unreadable are marked
@@ -219,7 +204,7 @@ function TableFields({
     <>
       {overflows && (
         <p id={hintId} className="mb-2 text-[length:var(--text-step--1)] text-ink-soft" data-testid="table-scroll-hint">
-          The table is wider than the screen: swipe it sideways to see every column.
+          {SLIDES_SIDEWAYS}
         </p>
       )}
       <div ref={ref} className="overflow-x-auto" data-testid="table-box">

@@ -9,6 +9,7 @@ import { ReadingCautions } from "~/components/analysis-report";
 import { ForceChartFromAnalysis } from "./force-chart";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
+import { SLIDES_SIDEWAYS, useOverflows } from "~/components/use-overflows";
 
 /** A cell a problem is about: a red border and wash, besides aria-invalid (colour is not the only sign: the list names the row). */
 const BAD_CELL = "border-danger bg-ember-wash";
@@ -97,17 +98,7 @@ export function ReadingsEntry({
     }
   }, [savedNow, fetcher.data, saved]);
   // On a narrow screen the table may be wider than its box: then a line says it slides sideways.
-  const scroller = useRef<HTMLDivElement>(null);
-  const [slides, setSlides] = useState(false);
-  useEffect(() => {
-    const box = scroller.current;
-    if (!box) return;
-    const measure = () => setSlides(box.scrollWidth > box.clientWidth + 1);
-    measure();
-    const observer = new ResizeObserver(measure);
-    observer.observe(box);
-    return () => observer.disconnect();
-  }, []);
+  const { ref: scroller, overflows: slides } = useOverflows<HTMLDivElement>();
   const update = (i: number, patch: Partial<Row>) => {
     setEdited(true);
     setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
@@ -154,7 +145,7 @@ export function ReadingsEntry({
         </div>
         {slides && (
           <p className="mb-1 text-ink-soft" data-testid="readings-slide-hint">
-            The table is wider than your screen: slide it sideways to see every column →
+            {SLIDES_SIDEWAYS}
           </p>
         )}
         <div ref={scroller} className="overflow-x-auto">
