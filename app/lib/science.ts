@@ -137,6 +137,11 @@ export function formatWithUncertainty(value: number | null, se: number | null, u
   return `${withUnit(fixed(value))} (± ${fixed(se)})`;
 }
 
+/** A fitted value alone, to the decimal place its standard error allows: the number formatWithUncertainty shows, so a note and a table agree. */
+export function formatFitted(value: number | null, se: number | null, unit: string): string {
+  return formatWithUncertainty(value, se, unit).replace(/ \(± [^)]*\)$/, "");
+}
+
 /** A value the student gave (a force, a reading, a difference of readings) written as given, up to 6 figures: "5 N", "0.3 cm". */
 function formatGiven(value: number, unit: string): string {
   if (!Number.isFinite(value)) return "—";
@@ -975,7 +980,7 @@ export function analyseReadings(input: AnalysisInput): AnalysisResult {
   } else if (origin.slope === null) {
     notes.push("Every deformation is 0, so no stiffness can be found: the piece did not move at the ruler's resolution.");
   } else {
-    notes.push(`Stiffness from the line through the origin: ${formatForStudent(origin.slope, "N/cm")}.`);
+    notes.push(`Stiffness from the line through the origin: ${formatFitted(origin.slope, origin.slopeSE, "N/cm")}.`);
     if (free.slope === null) {
       notes.push("All the deformations are the same, so a line with a free intercept cannot be fitted.");
     } else if (free.slopeSE === null) {
@@ -983,7 +988,7 @@ export function analyseReadings(input: AnalysisInput): AnalysisResult {
     }
     if (free.slope !== null && free.intercept !== null) {
       notes.push(
-        `The line with a free intercept has slope ${formatForStudent(free.slope, "N/cm")} and meets zero deformation at ${formatForStudent(free.intercept, "N")}.`,
+        `The line with a free intercept has slope ${formatFitted(free.slope, free.slopeSE, "N/cm")} and meets zero deformation at ${formatFitted(free.intercept, free.interceptSE, "N")}.`,
       );
     }
   }

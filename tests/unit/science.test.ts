@@ -18,6 +18,7 @@ import {
   fitWithIntercept,
   formatForStudent,
   formatToResolution,
+  formatFitted,
   formatWithUncertainty,
   gluedStackStiffness,
   midspanDeflectionM,
@@ -717,6 +718,23 @@ describe("rounding residue and precision shown to students", () => {
     expect(formatWithUncertainty(-0.0004, 0.013, "N")).toBe("0.000 N (± 0.013)");
     expect(formatWithUncertainty(2.5, null, "N/cm")).toBe("2.50 N/cm (± —)");
     expect(formatWithUncertainty(null, null, "N")).toBe("—");
+  });
+
+  it("the notes give a fitted slope and intercept to the same places as the table beside them (formatFitted)", () => {
+    expect(formatFitted(0.03448, 0.04712, "N")).toBe("0.034 N");
+    expect(formatFitted(2.5, null, "N/cm")).toBe("2.50 N/cm");
+    // Invented readings with scatter: the notes' numbers are the table's, without the "± …".
+    const result = analyseReadings({
+      mode: "bend",
+      unloadedCm: 20,
+      resolutionCm: 0.1,
+      points: [1, 2, 3, 4, 5].map((forceN, i) => ({ forceN, readingCm: [19.6, 19.1, 18.8, 18.3, 17.9][i] })),
+    });
+    const { throughOrigin: origin, withIntercept: free } = result.fit;
+    const notes = result.notes.join(" ");
+    expect(notes).toContain(`Stiffness from the line through the origin: ${formatFitted(origin.slope, origin.slopeSE, "N/cm")}.`);
+    expect(notes).toContain(`has slope ${formatFitted(free.slope, free.slopeSE, "N/cm")} and meets zero deformation at ${formatFitted(free.intercept, free.interceptSE, "N")}.`);
+    expect(formatWithUncertainty(free.intercept, free.interceptSE, "N").startsWith(formatFitted(free.intercept, free.interceptSE, "N") + " (± ")).toBe(true);
   });
 
   it("formatToResolution: readings keep the ruler's decimals (lesson 1: 18.0 cm, not 18 cm)", () => {
