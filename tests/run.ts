@@ -112,7 +112,7 @@ try {
   const mail = await startMailCatcher(smtpPort, mailWebPort, mailDir);
   cleanups.push(() => mail.stop());
   const webhookSecret = `whsec_test_${randomBytes(12).toString("hex")}`;
-  const fake = await startPaymentsFake({ port: paymentsPort, webhookUrl: `http://127.0.0.1:${appPort}/api/payments/webhook`, webhookSecret });
+  const fake = await startPaymentsFake({ port: paymentsPort, webhookUrl: `http://127.0.0.1:${appPort}/api/payments/webhook`, webhookSecret, smtpUrl: `smtp://127.0.0.1:${smtpPort}` });
   cleanups.push(() => fake.stop());
 
   const appUrl = `http://127.0.0.1:${appPort}`;

@@ -86,6 +86,8 @@ try {
       port: 12111,
       webhookUrl: `http://127.0.0.1:${appPort}/api/payments/webhook`,
       webhookSecret,
+      // The provider e-mails the invoices it sends; the fake does so through the same mail server.
+      smtpUrl: process.env.SMTP_URL ?? "smtp://127.0.0.1:1025",
     });
     stoppers.push(() => fake!.stop());
   }

@@ -6,6 +6,7 @@
 // The pieces live in tests/fakes/payments/; this file starts the HTTP server.
 import { createServer, type IncomingMessage, type Server, type ServerResponse } from "node:http";
 import type { AddressInfo } from "node:net";
+import nodemailer from "nodemailer";
 import { apiRoutes, handleApiRequest } from "./payments/api";
 import type { CardOutcome } from "./payments/cards";
 import { ApiError, FakeOperations } from "./payments/operations";
@@ -25,6 +26,8 @@ export interface PaymentsFakeOptions {
   retryDelaysMs?: number[];
   /** Replaces the HTTP post, e.g. to call the webhook route's action directly in a test. */
   transport?: WebhookTransport;
+  /** An SMTP server (the local mail catcher) to e-mail a sent invoice to its customer through, as the provider does. */
+  smtpUrl?: string;
 }
 
 export interface PaymentsFake {
@@ -58,6 +61,21 @@ export async function startPaymentsFake(options: PaymentsFakeOptions): Promise<P
     transport: options.transport,
   });
   const ops = new FakeOperations(state, webhooks, () => selfUrl);
+  const mailer = options.smtpUrl ? nodemailer.createTransport(options.smtpUrl) : null;
+  if (mailer) {
+    ops.onInvoiceSent = (invoice, email) => {
+      if (!email) return;
+      const amount = `${(Number(invoice.amount_due) / 100).toFixed(2)} ${String(invoice.currency).toUpperCase()}`;
+      mailer
+        .sendMail({
+          from: "Payments (test mode) <invoices@payments.test>",
+          to: email,
+          subject: `Invoice ${invoice.number} for ${amount}`,
+          text: `Invoice ${invoice.number} for ${amount} (test mode: no money moves).\nRead or pay it: ${invoice.hosted_invoice_url}\n`,
+        })
+        .catch((error: Error) => console.error(`[payments fake] the invoice e-mail to ${email} was not sent: ${error.message}`));
+    };
+  }
   const routes = apiRoutes(ops, state);
 
   const server: Server = createServer(async (req: IncomingMessage, res: ServerResponse) => {

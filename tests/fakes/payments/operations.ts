@@ -42,6 +42,9 @@ function positiveInt(v: unknown, param: string, allowZero = false): number {
 }
 
 export class FakeOperations {
+  /** Called when an invoice is sent, with the customer's e-mail address: the provider e-mails invoices itself. */
+  onInvoiceSent?: (invoice: Invoice, email: string | null) => void;
+
   constructor(
     private readonly state: FakeState,
     private readonly webhooks: WebhookSender,
@@ -355,6 +358,7 @@ export class FakeOperations {
     if (invoice.status === "draft") this.finalizeInvoice(id);
     if (invoice.status !== "open") throw new ApiError(400, `An invoice with status ${invoice.status} cannot be sent.`, "invoice_not_sendable");
     this.webhooks.emit("invoice.sent", invoiceView(this.state, invoice));
+    this.onInvoiceSent?.(invoice, this.state.customers.get(String(invoice.customer))?.email ?? null);
     return invoice;
   }
 
