@@ -99,7 +99,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const dueAt = zonedInputToDate(input.dueAt, klass.timeZone);
   if (!opensAt) errors.opensAt = "Give the opening as a date and a time.";
   if (!dueAt) errors.dueAt = "Give the due date as a date and a time.";
-  // The points lost per day count only when late work loses points; then they are 1 to 100, digits only.
+  // The credit lost per day counts only when late work loses credit; then it is 1 to 100 (percent), digits only.
   const penaltyRead = input.latePolicy === "penalty" ? readWholeNumber(input.latePenaltyPercent, 1, MAX_PENALTY_PERCENT) : ({ ok: true, value: 0 } as const);
   if (!penaltyRead.ok) errors.latePenaltyPercent = penaltyRead.message;
   const penalty = penaltyRead.ok ? penaltyRead.value : 0;
@@ -226,7 +226,7 @@ function AssignForm({ lesson, errors, busy }: { lesson: LessonRow; errors: Recor
           </select>
         </div>
         <div className="mb-3">
-          <label htmlFor={id("penalty")} className="mb-1 block font-bold">Points lost per day late</label>
+          <label htmlFor={id("penalty")} className="mb-1 block font-bold">Credit lost per day late (%)</label>
           <input
             id={id("penalty")}
             name="latePenaltyPercent"
@@ -239,7 +239,7 @@ function AssignForm({ lesson, errors, busy }: { lesson: LessonRow; errors: Recor
             aria-invalid={errors.latePenaltyPercent ? true : undefined}
           />
           <p id={id("penalty-hint")} className="mt-1 text-[length:var(--text-step--1)] text-ink-soft">
-            Percent of the score, a whole number {rangeWords(1, MAX_PENALTY_PERCENT)}; used only when late work loses points.
+            The share of a late answer's credit lost for each day late, in percent: a whole number {rangeWords(1, MAX_PENALTY_PERCENT)}. Used only when late work loses credit.
           </p>
           {error("latePenaltyPercent")}
         </div>

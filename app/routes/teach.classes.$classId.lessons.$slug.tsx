@@ -61,7 +61,7 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
     <div className="mx-auto max-w-6xl px-5 py-10">
       <ClassHeader klass={klass} title={`Lesson ${lesson.number}: ${lesson.title}`} />
       <p className="mb-6 text-ink-soft">
-        {assignment ? `Opens ${assignment.opensText} · due ${assignment.dueText} · ${assignment.policy}${assignment.penalty ? ` (${assignment.penalty} points a day)` : ""}.` : "Not assigned to this class."}{" "}
+        {assignment ? `Opens ${assignment.opensText} · due ${assignment.dueText} · ${assignment.policy}${assignment.penalty ? ` (${assignment.penalty}% of a late answer's credit a day)` : ""}.` : "Not assigned to this class."}{" "}
         <Link to={`/learn/${lesson.slug}`}>Open the lesson as students see it</Link>
       </p>
 

@@ -121,7 +121,7 @@ describe("assigning a lesson", () => {
     // The assigned lesson's summary says its late-work rule in plain words.
     expect((await summary()).lateRule).toBe("late answers count in full");
     await assign({ opensAt: "2026-12-01T08:00", dueAt: "2026-12-12T17:00", latePolicy: "penalty", latePenaltyPercent: "5" });
-    expect((await summary()).lateRule).toBe("late answers lose 5 points a day");
+    expect((await summary()).lateRule).toBe("late answers lose 5% of their credit a day");
     await assign({ opensAt: "2026-12-01T08:00", dueAt: "2026-12-12T17:00", latePolicy: "closed" });
     expect((await summary()).lateRule).toBe("closes at the due date");
     await assign({ opensAt: "2026-12-01T08:00", dueAt: "2026-12-12T17:00", latePolicy: "accept" });

@@ -39,7 +39,7 @@ describe("assigned lessons on /learn", () => {
   });
 
   it("states the late-work rule", () => {
-    expect(render([lesson({ latePolicy: "penalty", latePenaltyPercent: 5 })], "teacher")).toContain("late answers lose 5 points a day");
+    expect(render([lesson({ latePolicy: "penalty", latePenaltyPercent: 5 })], "teacher")).toContain("late answers lose 5% of their credit a day");
     expect(render([lesson({ latePolicy: "closed" })], "teacher")).toContain("closes at the due date");
     expect(render([lesson({ latePolicy: "accept" })], "teacher")).not.toMatch(/late|closes/);
   });

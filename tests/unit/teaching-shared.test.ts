@@ -17,9 +17,9 @@ describe("the username rule", () => {
 });
 
 describe("the late-work rule in plain words", () => {
-  it("names each rule, with the points a day", () => {
-    expect(lateRuleInWords("penalty", 5)).toBe("late answers lose 5 points a day");
-    expect(lateRuleInWords("penalty", 1)).toBe("late answers lose 1 point a day");
+  it("names each rule, with the share of credit lost a day", () => {
+    expect(lateRuleInWords("penalty", 5)).toBe("late answers lose 5% of their credit a day");
+    expect(lateRuleInWords("penalty", 1)).toBe("late answers lose 1% of their credit a day");
     expect(lateRuleInWords("closed", 0)).toBe("closes at the due date");
     expect(lateRuleInWords("accept", 0)).toBe("late answers count in full");
     // A penalty of 0 takes nothing off: late answers count in full.

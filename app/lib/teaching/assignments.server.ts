@@ -74,7 +74,7 @@ export async function assignLesson({ db }: Db, klass: TeacherClass, input: Assig
   if (input.dueAt.getTime() <= input.opensAt.getTime()) return { ok: false, field: "dueAt", message: "The due date must come after the opening." };
   const penalty = input.latePolicy === "penalty" ? input.latePenaltyPercent : 0;
   if (input.latePolicy === "penalty" && (penalty < 1 || penalty > MAX_PENALTY_PERCENT)) {
-    return { ok: false, field: "latePenaltyPercent", message: "Give the points lost per day late, from 1 to 100." };
+    return { ok: false, field: "latePenaltyPercent", message: "Give the credit lost per day late, in percent from 1 to 100." };
   }
   const values = { opensAt: input.opensAt, dueAt: input.dueAt, latePolicy: input.latePolicy, latePenaltyPercent: penalty };
   const [row] = await db

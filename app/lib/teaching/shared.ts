@@ -168,14 +168,14 @@ export function readWholeNumber(raw: unknown, min: number, max: number, unit?: s
 
 export const LATE_POLICY_WORDS: Record<LatePolicy, string> = {
   accept: "Late work counts in full",
-  penalty: "Late work loses points per day",
+  penalty: "Late work loses part of its credit each day",
   closed: "Closed at the due date",
 };
 
-/** The late-work rule in plain words, for the summary of an assigned lesson: "late answers lose 5 points a day". */
+/** The late-work rule in plain words, for the summary of an assigned lesson: "late answers lose 5% of their credit a day" (lateCredit). */
 export function lateRuleInWords(policy: LatePolicy, penaltyPercent: number): string {
   if (policy === "closed") return "closes at the due date";
-  if (policy === "penalty" && penaltyPercent > 0) return `late answers lose ${penaltyPercent} ${penaltyPercent === 1 ? "point" : "points"} a day`;
+  if (policy === "penalty" && penaltyPercent > 0) return `late answers lose ${penaltyPercent}% of their credit a day`;
   return "late answers count in full";
 }
 
