@@ -90,6 +90,13 @@ describe("making a class", () => {
       expect((alike.body as { values: { name: string } }).values.name).toBe(name);
     }
 
+    // A name an archived class has is taken too, and the message says the class is archived (no list of current classes shows it).
+    await db.update(classes).set({ archivedAt: new Date() }).where(eq(classes.name, "Grade 7 Science, period 4"));
+    const archivedAlike = await attempt({ name: "GRADE 7 SCIENCE, PERIOD 4" });
+    expect(archivedAlike.status).toBe(400);
+    expect((archivedAlike.body as { errors: Record<string, string> }).errors.name).toMatch(/^An archived class of your school in \d{4}-\d{2} is called “Grade 7 Science, period 4”/);
+    await db.update(classes).set({ archivedAt: null }).where(eq(classes.name, "Grade 7 Science, period 4"));
+
     // A pasted essay is refused whole, with its length, never cut to fit.
     const long = "Grade 7 ".repeat(625);
     const tooLong = await attempt({ name: long });

@@ -113,22 +113,27 @@ function isUniqueViolation(error: unknown, constraint: string): boolean {
   return code === "23505" && name.includes(constraint);
 }
 
-const nameTaken = (name: string, year: string) =>
-  `Your school already has a class called “${name}” in ${year}. Capitals and spaces do not tell classes apart: add a letter or a period.`;
+/** The class already called so (`archived`: a class put away, which no list of current classes shows). */
+const nameTaken = (taken: { name: string; archived: boolean } | string, year: string) => {
+  const { name, archived } = typeof taken === "string" ? { name: taken, archived: false } : taken;
+  return archived
+    ? `An archived class of your school in ${year} is called “${name}”, and capitals and spaces do not tell classes apart. Choose another name, such as one with the period or the room in it.`
+    : `Your school already has a class called “${name}” in ${year}, and capitals and spaces do not tell classes apart. Choose another name, such as one with the period or the room in it.`;
+};
 
 export { tidyClassName };
 
 type Tx = Parameters<Parameters<Database["transaction"]>[0]>[0];
 
 /**
- * The name of the class of this school and year called the same but for capitals and spaces (other than
+ * The class of this school and year called the same but for capitals and spaces (other than
  * `exceptId`), or null. It first locks the school's row, as the seat rules do, so two teachers naming
  * classes at the same moment take turns and cannot both pass the check.
  */
-async function sameNamedClass(tx: Tx, organisationId: string, schoolYear: string, name: string, exceptId?: string): Promise<string | null> {
+async function sameNamedClass(tx: Tx, organisationId: string, schoolYear: string, name: string, exceptId?: string): Promise<{ name: string; archived: boolean } | null> {
   await tx.select({ id: organisations.id }).from(organisations).where(eq(organisations.id, organisationId)).for("update");
   const [row] = await tx
-    .select({ name: classes.name })
+    .select({ name: classes.name, archivedAt: classes.archivedAt })
     .from(classes)
     .where(
       and(
@@ -139,7 +144,7 @@ async function sameNamedClass(tx: Tx, organisationId: string, schoolYear: string
       ),
     )
     .limit(1);
-  return row?.name ?? null;
+  return row ? { name: row.name, archived: row.archivedAt !== null } : null;
 }
 
 export async function createClass(
