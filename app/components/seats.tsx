@@ -62,7 +62,8 @@ export function PurchaseList({ purchases }: { purchases: PurchaseView[] }) {
     <ul className="grid gap-3" data-testid="purchases">
       {purchases.map((p) => (
         <li key={p.id} className="card flex flex-wrap items-start justify-between gap-3" data-state={p.state}>
-          <div>
+          {/* min-w-0 and wrap-anywhere: a long purchase-order number breaks instead of widening the card. */}
+          <div className="min-w-0 wrap-anywhere">
             <p className="font-bold">
               {p.seats} {p.seats === 1 ? "seat" : "seats"} for {p.schoolYear} · {p.amount}
             </p>
