@@ -19,8 +19,12 @@ const characters = (s: string) => [...s.normalize("NFKC")].length;
 export function newPasswordSchema(context: { email?: string | null; username?: string | null } = {}) {
   return z
     .string({ error: "Choose a password." })
+    // Says what was wrong (the field's hint already says the rule and how to make a good one).
     .refine((p) => characters(p) >= MIN_PASSWORD_LENGTH, {
-      message: `Use at least ${MIN_PASSWORD_LENGTH} characters. A few ordinary words in a row make a good one.`,
+      error: (issue) => {
+        const length = typeof issue.input === "string" ? characters(issue.input) : 0;
+        return `That password has ${length} ${length === 1 ? "character" : "characters"}: use at least ${MIN_PASSWORD_LENGTH} characters.`;
+      },
     })
     .refine((p) => characters(p) <= MAX_PASSWORD_LENGTH, {
       message: `A password can be at most ${MAX_PASSWORD_LENGTH} characters long.`,
