@@ -204,7 +204,8 @@ function AssignForm({ lesson, errors, busy }: { lesson: LessonRow; errors: Recor
     <Form method="post" preventScrollReset noValidate key={a ? `${a.opensAt}|${a.dueAt}|${a.latePolicy}|${a.latePenaltyPercent}` : "new"}>
       <input type="hidden" name="intent" value="assign" />
       <input type="hidden" name="slug" value={lesson.slug} />
-      <div className="grid gap-x-4 sm:grid-cols-2 lg:grid-cols-4">
+      {/* The late-work menu gets the widest column, so its choices are read whole. */}
+      <div className="grid gap-x-4 sm:grid-cols-2 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)_minmax(0,1.4fr)_minmax(0,0.9fr)]">
         <div className="mb-3">
           <label htmlFor={id("opens")} className="mb-1 block font-bold">Opens</label>
           <input id={id("opens")} name="opensAt" type="datetime-local" className="field" required defaultValue={a?.opensAt ?? lesson.defaults.opensAt} aria-invalid={errors.opensAt ? true : undefined} aria-describedby={errors.opensAt ? id("opensAt-error") : undefined} />

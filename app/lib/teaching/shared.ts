@@ -168,7 +168,7 @@ export function readWholeNumber(raw: unknown, min: number, max: number, unit?: s
 
 export const LATE_POLICY_WORDS: Record<LatePolicy, string> = {
   accept: "Late work counts in full",
-  penalty: "Late work loses part of its credit each day",
+  penalty: "Late work loses credit each day",
   closed: "Closed at the due date",
 };
 
