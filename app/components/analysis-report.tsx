@@ -77,8 +77,18 @@ export function AnalysisReport({
   );
 }
 
-/** A point named plainly when the page has no words of its own: "Reading 4", "The unloaded reading". */
-export const readingPlace = (point: number | null) => (point === null ? "The unloaded reading" : `Reading ${point + 1}`);
+/**
+ * How a page names a point (by its index, null for the unloaded reading) in a caution: `word` and its
+ * number as the page counts it ("Row 4", "Line 5"; `numberOf` when the page's numbers are not the
+ * points' own), or "The unloaded reading".
+ */
+export const pointPlace =
+  (word: string, numberOf: (point: number) => number = (point) => point + 1) =>
+  (point: number | null) =>
+    point === null ? "The unloaded reading" : `${word} ${numberOf(point)}`;
+
+/** A point named plainly when the page has no words of its own: "Reading 4". */
+export const readingPlace = pointPlace("Reading");
 
 /**
  * Readings worth a second look (a slipped decimal point, a force that goes back down): a caution above

@@ -2,6 +2,7 @@
 import { Form, Link, NavLink, useLocation, useRouteLoaderData } from "react-router";
 import { BrandMark } from "./brand-mark";
 import { hasPendingSaves, sendPendingSaves } from "~/lib/pending-saves";
+import { forgetInTab } from "~/lib/tab-storage";
 
 /** What the root loader tells the header about the signed-in person. */
 export interface HeaderAccount {
@@ -38,17 +39,10 @@ function AccountNav({ account }: { account: HeaderAccount }) {
  */
 function beforeSigningOut(event: React.FormEvent<HTMLFormElement>) {
   const form = event.currentTarget;
-  const forget = () => {
-    try {
-      sessionStorage.clear();
-    } catch {
-      // storage turned off: nothing was kept
-    }
-  };
-  if (!hasPendingSaves()) return forget();
+  if (!hasPendingSaves()) return forgetInTab();
   event.preventDefault();
   void sendPendingSaves().then(() => {
-    forget();
+    forgetInTab();
     form.submit(); // the plain form post, as without JavaScript
   });
 }

@@ -145,8 +145,7 @@ export function parseReadingsText(text: string, secondColumn: "reading" | "defor
       const read = readCell(extra, "cm", split.decimalComma);
       if (BROKE_WORDS.has(extra.toLowerCase())) broke = true;
       else if (read.ok && back === undefined) back = read.value;
-      else if (!read.ok && read.unit !== undefined) extras.push(`Line ${row}: ${cellProblem("reading after unloading", extra, "cm", read)}`);
-      else if (!read.ok && read.tooLong) extras.push(`Line ${row}: ${cellProblem("reading after unloading", extra, "cm", read)}`);
+      else if (!read.ok && (read.unit !== undefined || read.tooLong)) extras.push(`Line ${row}: ${cellProblem("reading after unloading", extra, "cm", read)}`);
       else extras.push(`Line ${row}: “${echo(extra)}” is neither a reading nor “broke”.`);
     }
     for (const problem of [force.problem, second.problem, ...extras]) if (problem) problems.push(problem);

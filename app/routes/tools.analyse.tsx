@@ -5,7 +5,7 @@ import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/tools.analyse";
 import { db } from "~/db/client.server";
-import { AnalysisReport } from "~/components/analysis-report";
+import { AnalysisReport, pointPlace } from "~/components/analysis-report";
 import { assertSameOrigin } from "~/lib/auth.server";
 import { clientAddress } from "~/lib/auth/throttle.server";
 import { oneForceProblem, parseAnalysisRequest } from "~/lib/analysis-request";
@@ -13,6 +13,7 @@ import { hitRateLimit } from "~/lib/rate-limit.server";
 import { asSentence, cellProblem, echo, parseReadingsText, readCell } from "~/lib/readings-text";
 import { analyseReadings, implausibleReadings } from "~/lib/science";
 import { ANALYSIS_REQUESTS_PER_MINUTE } from "./api.analysis";
+import { keepInTab, readInTab } from "~/lib/tab-storage";
 import { SendButton } from "~/components/send-button";
 
 /**
@@ -152,21 +153,8 @@ const KEPT_FORM_KEY = "bendwise:analyse-form";
 
 /** The form kept in this tab, or null when there is none or it cannot be read (read without zod: zod stays on the server). */
 function keptForm(): FormValues | null {
-  try {
-    const kept: unknown = JSON.parse(window.sessionStorage.getItem(KEPT_FORM_KEY) ?? "null");
-    return typeof kept === "object" && kept !== null ? typedValues(kept as Record<string, unknown>) : null;
-  } catch {
-    return null;
-  }
-}
-
-function keepForm(values: FormValues | null) {
-  try {
-    if (values === null) window.sessionStorage.removeItem(KEPT_FORM_KEY);
-    else window.sessionStorage.setItem(KEPT_FORM_KEY, JSON.stringify(values));
-  } catch {
-    // Storage full or turned off: the form still works, it is only not kept across a reload.
-  }
+  const kept = readInTab(KEPT_FORM_KEY);
+  return typeof kept === "object" && kept !== null ? typedValues(kept as Record<string, unknown>) : null;
 }
 
 export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
@@ -179,7 +167,7 @@ export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
   const change = (patch: Partial<FormValues>) =>
     setValues((v) => {
       const next = { ...v, ...patch };
-      keepForm(next);
+      keepInTab(KEPT_FORM_KEY, next);
       return next;
     });
   const analysis = actionData?.analysis ?? null;
@@ -220,7 +208,7 @@ export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
               Fill in the example
             </button>
             <button type="button" className="btn btn-quiet" onClick={() => {
-                keepForm(null);
+                keepInTab(KEPT_FORM_KEY, null);
                 setValues(BLANK);
                 readingsBox.current?.focus();
               }}
@@ -277,7 +265,7 @@ export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
         <AnalysisReport
           analysis={analysis}
           resolutionCm={Number(actionData.values.resolutionCm.replace(",", ".")) || 0.1}
-          placeOf={(point) => (point === null ? "The unloaded reading" : `Line ${lines[point] ?? point + 1}`)}
+          placeOf={pointPlace("Line", (point) => lines[point] ?? point + 1)}
         />
       )}
     </div>

@@ -61,7 +61,7 @@ export function Exercise({ id }: { id: string }) {
         <fetcher.Form method="post" className="mt-4" aria-describedby={`${formId}-feedback`}>
           <input type="hidden" name="intent" value="answer" />
           <input type="hidden" name="exerciseId" value={id} />
-          <AnswerFields exercise={exercise} formId={formId} disabled={closed || !canAnswer} wrongCells={feedback?.right ? [] : feedback?.wrongCells ?? []} />
+          <AnswerFields exercise={exercise} formId={formId} disabled={closed || !canAnswer} wrongCells={feedback?.wrongCells ?? []} />
           {canAnswer && !closed && (
             <SendButton className="btn mt-3" busy={busy}>
               {busy ? "Checking…" : "Check my answer"}
@@ -176,7 +176,6 @@ function AnswerFields({ exercise, formId, disabled, wrongCells }: { exercise: Ex
     </>
   );
 }
-
 
 /**
  * The empty cells of a table exercise. The cells the last check found wrong or unreadable are marked

@@ -5,7 +5,7 @@ import { useFetcher } from "react-router";
 import type { SavedReadings } from "~/lib/course.server";
 import type { ReadingsCell } from "~/lib/analysis-request";
 import { analyseReadings, elasticLimitWords, formatForStudent, formatToResolution, type Mode } from "~/lib/science";
-import { ReadingCautions } from "~/components/analysis-report";
+import { pointPlace, ReadingCautions } from "~/components/analysis-report";
 import { ForceChartFromAnalysis } from "./force-chart";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
@@ -13,12 +13,12 @@ import { SLIDES_SIDEWAYS, useOverflows } from "~/components/use-overflows";
 
 /** A cell a problem is about: a red border and wash, besides aria-invalid (colour is not the only sign: the list names the row). */
 const BAD_CELL = "border-danger bg-ember-wash";
-/** Wide enough for "37.25 cm" as typed, with a little less padding than other fields. */
-const cellClass = (bad: boolean, worthALook = false) => `field w-24 px-2 sm:w-28 ${bad ? BAD_CELL : worthALook ? LOOK_CELL : ""}`;
 /** A saved reading a caution of the analysis names (worth a second look, not an error): amber, named in the list too. */
 const LOOK_CELL = "border-caution bg-caution-wash";
+/** Wide enough for "37.25 cm" as typed, with a little less padding than other fields. */
+const cellClass = (bad: boolean, worthALook = false) => `field w-24 px-2 sm:w-28 ${bad ? BAD_CELL : worthALook ? LOOK_CELL : ""}`;
 /** A saved point named as the table's row (the saved rows are the table's rows, closed up). */
-const rowPlace = (point: number | null) => (point === null ? "The unloaded reading" : `Row ${point + 1}`);
+const rowPlace = pointPlace("Row");
 
 interface Row {
   forceN: string;

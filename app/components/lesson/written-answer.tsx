@@ -7,6 +7,7 @@ import { useBlocker, useFetcher, useLocation } from "react-router";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
 import { owePendingSave } from "~/lib/pending-saves";
+import { keepInTab, readInTab } from "~/lib/tab-storage";
 import { isRubricScores, RUBRIC, rubricTotal, type RubricScores } from "~/lib/teaching/shared";
 
 /** Each part's limit (the action's too). The browser stops typing and cuts a paste there without a word, so the count shows near it. */
@@ -146,6 +147,9 @@ function RubricLevels({ scores }: { scores: RubricScores }) {
   );
 }
 
+/** What one part's box holds now. */
+const partText = (fields: HTMLFormControlsCollection, part: Part) => (fields.namedItem(part) as HTMLTextAreaElement | null)?.value ?? "";
+
 /** Why a draft that saved itself did not reach the server, in the student's words. */
 function draftProblem(status: number): string {
   if (status === 202 || status === 401 || status === 403) {
@@ -193,7 +197,7 @@ function useKeptDraft(answerId: string, autosave: boolean, ownSave: unknown) {
     const sending = [...changed.current];
     changed.current.clear();
     const body = new URLSearchParams({ intent: "written-answer", answerId, handIn: "0" });
-    for (const part of sending) body.set(part, (fields.namedItem(part) as HTMLTextAreaElement | null)?.value ?? "");
+    for (const part of sending) body.set(part, partText(fields, part));
     let status = 0;
     try {
       status = (await fetch(`${pathname}.data`, { method: "POST", body, keepalive: true, credentials: "same-origin" })).status;
@@ -235,7 +239,7 @@ function useKeptDraft(answerId: string, autosave: boolean, ownSave: unknown) {
       if (changed.current.size === 0) return;
       if (!canAutosave.current) return event.preventDefault(); // the browser asks before leaving
       const values = form.current?.elements;
-      if (values) keepTabCopy(copyKey, Object.fromEntries([...changed.current].map((part) => [part, (values.namedItem(part) as HTMLTextAreaElement | null)?.value ?? ""])));
+      if (values) keepInTab(copyKey, { at: Date.now(), parts: Object.fromEntries([...changed.current].map((part) => [part, partText(values, part)])) });
       void save.current();
     };
     window.addEventListener("beforeunload", onLeave);
@@ -262,25 +266,10 @@ function useKeptDraft(answerId: string, autosave: boolean, ownSave: unknown) {
 /** How long the tab's copy of a draft is good for: long enough for a reload, short for a shared computer. */
 const TAB_COPY_MS = 2 * 60_000;
 
-function keepTabCopy(key: string, parts: Record<string, string>) {
-  try {
-    sessionStorage.setItem(key, JSON.stringify({ at: Date.now(), parts }));
-  } catch {
-    // storage full or turned off: the save sent with the page still carries the draft
-  }
-}
-
-/** The tab's copy, once (it is removed as it is read), if it is recent. */
+/** The tab's copy, once (it is forgotten as it is read), if it is recent. */
 function takeTabCopy(key: string): Partial<Record<Part, string>> | null {
-  try {
-    const raw = sessionStorage.getItem(key);
-    if (!raw) return null;
-    sessionStorage.removeItem(key);
-    const { at, parts } = JSON.parse(raw) as { at: number; parts: Partial<Record<Part, string>> };
-    return Date.now() - at < TAB_COPY_MS ? parts : null;
-  } catch {
-    return null;
-  }
+  const copy = readInTab(key, { take: true }) as { at?: unknown; parts?: Partial<Record<Part, string>> } | null;
+  return copy && typeof copy.at === "number" && Date.now() - copy.at < TAB_COPY_MS && copy.parts ? copy.parts : null;
 }
 
 function CharactersLeft({ id, length }: { id: string; length: number }) {

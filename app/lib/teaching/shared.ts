@@ -130,7 +130,7 @@ export function filterRows(rows: GradebookRow[], filter: GradebookFilter): Grade
 /** The most a teacher can add for one student: tries per exercise, and days. */
 export const MAX_EXTRA_ATTEMPTS = 20;
 export const MAX_EXTRA_DAYS = 60;
-/** The most points late work can lose per day, in percent of the score. */
+/** The most credit a late answer can lose per day, in percent (lateCredit). */
 export const MAX_PENALTY_PERCENT = 100;
 
 /** The longest class name, counted after trimming and joining runs of spaces. */
