@@ -181,7 +181,7 @@ export default function AnalyseReadings({ actionData }: Route.ComponentProps) {
         Paste or type one loading step per line, from the smallest load up: the force in newtons, then the ruler reading in
         centimetres, and — if you took them — the reading after the load came off and the word “broke” where the piece broke.
         Nothing you type leaves this browser until you press Analyse, and nothing is saved on our side; this tab keeps what you
-        typed until you close it or press Clear.
+        typed until you close it, press Clear or sign out.
       </p>
       <Form method="post" className="card mb-8 grid gap-4 font-ui print:hidden md:grid-cols-2">
         <div className="md:row-span-4">
