@@ -119,13 +119,130 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
   const result = actionData as SignInActionData | undefined;
   const adult = result?.door === "adult" ? result : undefined;
   const student = result?.door === "student" ? result : undefined;
+  // Most who sign in are students, so their door comes first (on a phone, the first form seen). An
+  // adult's errand comes back here with the adults' door first: a wrong password, a notice after a
+  // password reset, a sign-in link that has expired.
+  const adultFirst = Boolean(adult || loaderData.notice || loaderData.authProblem);
+
+  const studentDoor = (
+    <section aria-labelledby="student-door" className="card" key="student">
+      <h2 id="student-door" className="mb-1 text-[length:var(--text-step-2)]">
+        Students
+      </h2>
+      <p className="mb-5 text-ink-soft">Use the code your teacher or parent gave you, your username and your password.</p>
+      {student?.problem ? (
+        <Notice tone="problem">
+          <p>{student.problem}</p>
+          {student.waitUntil ? (
+            <p className="mt-1">
+              You can try again from <ClockTime iso={student.waitUntil} />.
+            </p>
+          ) : null}
+        </Notice>
+      ) : null}
+      <Form method="post" noValidate>
+        <input type="hidden" name="door" value="student" />
+        <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
+        <Field
+          label="Class or family code"
+          hint="For example MAPLE7A. Capitals or not, it does not matter."
+          name="code"
+          autoComplete="off"
+          autoCapitalize="characters"
+          spellCheck={false}
+          required
+          defaultValue={student?.values.code ?? ""}
+          error={student?.fieldErrors.code}
+        />
+        <Field
+          label="Username"
+          name="username"
+          autoComplete="username"
+          autoCapitalize="none"
+          spellCheck={false}
+          required
+          defaultValue={student?.values.username ?? ""}
+          error={student?.fieldErrors.username}
+        />
+        <Field
+          label="Password"
+          name="password"
+          type="password"
+          autoComplete="current-password"
+          required
+          error={student?.fieldErrors.password}
+        />
+        <SendButton className="btn" busy={busyDoor === "student"}>
+          {busyDoor === "student" ? "Signing in…" : "Sign in"}
+        </SendButton>
+      </Form>
+      <p className="mt-5 text-[length:var(--text-step--1)] text-ink-soft">
+        Forgot your password? Ask your teacher, or the parent who made your account: they can set a new one for you.
+      </p>
+    </section>
+  );
+  const adultDoor = (
+    <section aria-labelledby="adult-door" className="card" key="adult">
+      <h2 id="adult-door" className="mb-1 text-[length:var(--text-step-2)]">
+        Adults
+      </h2>
+      <p className="mb-5 text-ink-soft">School administrators, teachers and parents: use your e-mail address.</p>
+      {adult?.problem ? (
+        <Notice tone="problem">
+          <p>{adult.problem}</p>
+          {adult.waitUntil ? (
+            <p className="mt-1">
+              You can try again from <ClockTime iso={adult.waitUntil} />.
+            </p>
+          ) : null}
+        </Notice>
+      ) : null}
+      <Form method="post" noValidate>
+        <input type="hidden" name="door" value="adult" />
+        <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
+        <Field
+          label="E-mail address"
+          name="email"
+          type="email"
+          autoComplete="username"
+          inputMode="email"
+          spellCheck={false}
+          required
+          defaultValue={adult?.values.email ?? ""}
+          error={adult?.fieldErrors.email}
+        />
+        <Field
+          label="Password"
+          name="password"
+          type="password"
+          autoComplete="current-password"
+          required
+          error={adult?.fieldErrors.password}
+        />
+        <SendButton className="btn" busy={busyDoor === "adult"}>
+          {busyDoor === "adult" ? "Signing in…" : "Sign in"}
+        </SendButton>
+      </Form>
+      <ul className="mt-5 space-y-1 text-[length:var(--text-step--1)]">
+        <li>
+          <Link to="/sign-in/link">E-mail me a sign-in link instead</Link>
+        </li>
+        <li>
+          <Link to="/reset-password">Forgot your password?</Link>
+        </li>
+        <li>
+          New here and teaching at home? <Link to="/join/family">Make a family account</Link>
+        </li>
+      </ul>
+    </section>
+  );
 
   return (
     <div className="mx-auto max-w-5xl px-5 py-12">
       <h1 className="mb-2 text-[length:var(--text-step-3)]">Sign in to Bendwise</h1>
       <p className="mb-8 text-ink-soft">
-        Grown-ups use their e-mail address, under “Adults”. Students use their class or family code, under{" "}
-        <a href="#student-door">“Students”</a>: no e-mail address needed.
+        Students use their class or family code: no e-mail address needed. Grown-ups use their e-mail address, under{" "}
+        <a href="#adult-door">“Adults”</a>.
       </p>
 
       {loaderData.signedInAs ? (
@@ -137,117 +254,7 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
       {loaderData.notice ? <Notice tone="done">{loaderData.notice}</Notice> : null}
       {loaderData.authProblem && !result ? <Notice tone="problem">{loaderData.authProblem}</Notice> : null}
 
-      <div className="grid gap-6 md:grid-cols-2">
-        <section aria-labelledby="adult-door" className="card">
-          <h2 id="adult-door" className="mb-1 text-[length:var(--text-step-2)]">
-            Adults
-          </h2>
-          <p className="mb-5 text-ink-soft">School administrators, teachers and parents: use your e-mail address.</p>
-          {adult?.problem ? (
-            <Notice tone="problem">
-              <p>{adult.problem}</p>
-              {adult.waitUntil ? (
-                <p className="mt-1">
-                  You can try again from <ClockTime iso={adult.waitUntil} />.
-                </p>
-              ) : null}
-            </Notice>
-          ) : null}
-          <Form method="post" noValidate>
-            <input type="hidden" name="door" value="adult" />
-            <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
-            <Field
-              label="E-mail address"
-              name="email"
-              type="email"
-              autoComplete="username"
-              inputMode="email"
-              spellCheck={false}
-              required
-              defaultValue={adult?.values.email ?? ""}
-              error={adult?.fieldErrors.email}
-            />
-            <Field
-              label="Password"
-              name="password"
-              type="password"
-              autoComplete="current-password"
-              required
-              error={adult?.fieldErrors.password}
-            />
-            <SendButton className="btn" busy={busyDoor === "adult"}>
-              {busyDoor === "adult" ? "Signing in…" : "Sign in"}
-            </SendButton>
-          </Form>
-          <ul className="mt-5 space-y-1 text-[length:var(--text-step--1)]">
-            <li>
-              <Link to="/sign-in/link">E-mail me a sign-in link instead</Link>
-            </li>
-            <li>
-              <Link to="/reset-password">Forgot your password?</Link>
-            </li>
-            <li>
-              New here and teaching at home? <Link to="/join/family">Make a family account</Link>
-            </li>
-          </ul>
-        </section>
-
-        <section aria-labelledby="student-door" className="card">
-          <h2 id="student-door" className="mb-1 text-[length:var(--text-step-2)]">
-            Students
-          </h2>
-          <p className="mb-5 text-ink-soft">Use the code your teacher or parent gave you, your username and your password.</p>
-          {student?.problem ? (
-            <Notice tone="problem">
-              <p>{student.problem}</p>
-              {student.waitUntil ? (
-                <p className="mt-1">
-                  You can try again from <ClockTime iso={student.waitUntil} />.
-                </p>
-              ) : null}
-            </Notice>
-          ) : null}
-          <Form method="post" noValidate>
-            <input type="hidden" name="door" value="student" />
-            <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
-            <Field
-              label="Class or family code"
-              hint="For example MAPLE7A. Capitals or not, it does not matter."
-              name="code"
-              autoComplete="off"
-              autoCapitalize="characters"
-              spellCheck={false}
-              required
-              defaultValue={student?.values.code ?? ""}
-              error={student?.fieldErrors.code}
-            />
-            <Field
-              label="Username"
-              name="username"
-              autoComplete="username"
-              autoCapitalize="none"
-              spellCheck={false}
-              required
-              defaultValue={student?.values.username ?? ""}
-              error={student?.fieldErrors.username}
-            />
-            <Field
-              label="Password"
-              name="password"
-              type="password"
-              autoComplete="current-password"
-              required
-              error={student?.fieldErrors.password}
-            />
-            <SendButton className="btn" busy={busyDoor === "student"}>
-              {busyDoor === "student" ? "Signing in…" : "Sign in"}
-            </SendButton>
-          </Form>
-          <p className="mt-5 text-[length:var(--text-step--1)] text-ink-soft">
-            Forgot your password? Ask your teacher, or the parent who made your account: they can set a new one for you.
-          </p>
-        </section>
-      </div>
+      <div className="grid gap-6 md:grid-cols-2">{adultFirst ? [adultDoor, studentDoor] : [studentDoor, adultDoor]}</div>
     </div>
   );
 }

@@ -88,6 +88,26 @@ describe("around sign-in", () => {
     await context.close();
   });
 
+  it("shows the students' door first on a phone, and the adults' door first when an adult comes back to it", async () => {
+    const { page, context, consoleErrors } = await openPage(browser, { viewport: { width: 375, height: 740 } });
+    const top = async (name: string) => (await page.getByRole("region", { name }).boundingBox())!.y;
+    await page.goto("/sign-in");
+    expect(await top("Students")).toBeLessThan(await top("Adults"));
+    // The intro's link jumps to the adults' door below.
+    await page.getByRole("link", { name: "“Adults”" }).click();
+    await page.waitForURL(/#adult-door$/);
+
+    await signInAsAdult(page, "no.such.adult@maplebrook.example", "not the password");
+    await page.getByRole("region", { name: "Adults" }).getByRole("alert").waitFor();
+    expect(await top("Adults")).toBeLessThan(await top("Students"));
+    await expect(page.getByRole("region", { name: "Adults" }).getByLabel("E-mail address").inputValue()).resolves.toBe("no.such.adult@maplebrook.example");
+    // After a password reset, the page that says so opens on the adults' door too.
+    await page.goto("/sign-in?notice=password-changed");
+    expect(await top("Adults")).toBeLessThan(await top("Students"));
+    expect(unexpected(consoleErrors)).toEqual([]);
+    await context.close();
+  });
+
   it("keeps the typed e-mail address and says what is wrong", async () => {
     const { page, context, consoleErrors } = await openPage(browser);
     await page.goto("/sign-in");
