@@ -13,7 +13,7 @@
 // (and the two take turns in short slices, so that a drift of the machine's speed moves both alike).
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
-import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { cpus, loadavg, tmpdir } from "node:os";
 import path from "node:path";
 import { gzipSync } from "node:zlib";
@@ -110,9 +110,59 @@ interface LoadResult {
   requests: number;
   non2xx: number;
   errors: number;
+  /** CPU time per request during this load's slices (and the floor's): see cpuReading */
+  cpuMsPerRequest: CpuPerRequest;
+  floorCpuMsPerRequest: CpuPerRequest;
 }
 
 type Req = { method: string; path: string; headers: Record<string, string>; body?: string };
+
+/**
+ * CPU time used so far, in ms, by the app server (all its threads: rendering, the compression pool,
+ * garbage collection), by PostgreSQL (the postmaster, its live backends and those that have ended)
+ * and by this process (autocannon, the load). Read from /proc, so a figure per request can be taken
+ * for each load beside its requests per second: unlike the rate, it does not move with the speed the
+ * shared machine happens to have, and it says which process a load is spending.
+ */
+type CpuPerRequest = { server: number; postgres: number; load: number };
+let cpuOf: { serverPid: number; postgresDataDir: string } | undefined;
+const CLOCK_TICKS_PER_MS = 100 / 1000; // USER_HZ is 100 on Linux
+
+function procTicks(pid: number, withEndedChildren = false): number {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, "utf8").split(") ")[1].split(" ");
+    // utime, stime, then cutime, cstime (fields 14–17 of proc(5); the split drops the first two)
+    const own = Number(fields[11]) + Number(fields[12]);
+    return withEndedChildren ? own + Number(fields[13]) + Number(fields[14]) : own;
+  } catch {
+    return 0; // the process ended between listing and reading
+  }
+}
+
+function cpuReading(): CpuPerRequest {
+  if (!cpuOf) return { server: NaN, postgres: NaN, load: NaN };
+  const postmaster = Number(readFileSync(path.join(cpuOf.postgresDataDir, "postmaster.pid"), "utf8").split("\n")[0]);
+  let postgresTicks = procTicks(postmaster, true);
+  for (const entry of readdirSync("/proc")) {
+    if (!/^\d+$/.test(entry)) continue;
+    try {
+      if (Number(readFileSync(`/proc/${entry}/stat`, "utf8").split(") ")[1].split(" ")[1]) === postmaster) postgresTicks += procTicks(Number(entry));
+    } catch {
+      // gone meanwhile
+    }
+  }
+  const own = process.cpuUsage();
+  return { server: procTicks(cpuOf.serverPid) / CLOCK_TICKS_PER_MS, postgres: postgresTicks / CLOCK_TICKS_PER_MS, load: (own.user + own.system) / 1000 };
+}
+
+const cpuSince = (before: CpuPerRequest, after: CpuPerRequest) => ({
+  server: after.server - before.server,
+  postgres: after.postgres - before.postgres,
+  load: after.load - before.load,
+});
+const addCpu = (a: CpuPerRequest, b: CpuPerRequest) => ({ server: a.server + b.server, postgres: a.postgres + b.postgres, load: a.load + b.load });
+const perRequest = (total: CpuPerRequest, requests: number) => ({ server: total.server / requests, postgres: total.postgres / requests, load: total.load / requests });
+const NO_CPU: CpuPerRequest = { server: 0, postgres: 0, load: 0 };
 
 /** Runs of autocannon whose requests are made by `next(i)`, with i counting on from one run to the next. */
 function loadRunner(appUrl: string, next: (i: number) => Req) {
@@ -139,7 +189,8 @@ async function pairedLoad(name: string, appUrl: string, next: (i: number) => Req
   // BENCH_ONLY=lesson,gradebook runs only the loads whose names contain one of those words.
   const only = process.env.BENCH_ONLY?.split(",");
   if (only && !only.some((word) => name.includes(word))) {
-    return { name, requestsPerSecond: NaN, floorRequestsPerSecond: NaN, ratioToFloor: NaN, latencyP50Ms: NaN, latencyP99Ms: NaN, requests: 0, non2xx: 0, errors: 0 };
+    const none = { server: NaN, postgres: NaN, load: NaN };
+    return { name, requestsPerSecond: NaN, floorRequestsPerSecond: NaN, ratioToFloor: NaN, latencyP50Ms: NaN, latencyP99Ms: NaN, requests: 0, non2xx: 0, errors: 0, cpuMsPerRequest: none, floorCpuMsPerRequest: none };
   }
   const measured = loadRunner(appUrl, next);
   const floor = loadRunner(appUrl, () => FLOOR);
@@ -149,11 +200,17 @@ async function pairedLoad(name: string, appUrl: string, next: (i: number) => Req
   const slices: AutocannonResult[] = [];
   let floorRequests = 0;
   let floorProblems = 0;
+  let floorCpu = NO_CPU;
+  let loadCpu = NO_CPU;
   for (let round = 0; round < ROUNDS; round++) {
+    let before = cpuReading();
     const f = await floor(slice);
+    floorCpu = addCpu(floorCpu, cpuSince(before, cpuReading()));
     floorRequests += f.requests.total;
     floorProblems += f.non2xx + f.errors + f.timeouts;
+    before = cpuReading();
     slices.push(await measured(slice));
+    loadCpu = addCpu(loadCpu, cpuSince(before, cpuReading()));
   }
   const requests = slices.reduce((n, r) => n + r.requests.total, 0);
   const p50s = slices.map((r) => r.latency.p50).sort((a, b) => a - b);
@@ -167,9 +224,13 @@ async function pairedLoad(name: string, appUrl: string, next: (i: number) => Req
     requests,
     non2xx: slices.reduce((n, r) => n + r.non2xx, 0),
     errors: slices.reduce((n, r) => n + r.errors + r.timeouts, 0) + floorProblems,
+    cpuMsPerRequest: perRequest(loadCpu, requests),
+    floorCpuMsPerRequest: perRequest(floorCpu, floorRequests),
   };
+  const cpu = outcome.cpuMsPerRequest;
   console.log(
-    `  ${name.padEnd(22)} ${outcome.requestsPerSecond.toFixed(0).padStart(6)} req/s  floor beside it ${outcome.floorRequestsPerSecond.toFixed(0).padStart(5)} req/s  share ${(100 * outcome.ratioToFloor).toFixed(0).padStart(3)}%  p50 ${outcome.latencyP50Ms} ms  p99 ${outcome.latencyP99Ms} ms  (${outcome.requests} requests, ${outcome.non2xx} not 2xx)`,
+    `  ${name.padEnd(22)} ${outcome.requestsPerSecond.toFixed(0).padStart(6)} req/s  floor beside it ${outcome.floorRequestsPerSecond.toFixed(0).padStart(5)} req/s  share ${(100 * outcome.ratioToFloor).toFixed(0).padStart(3)}%  p50 ${outcome.latencyP50Ms} ms  p99 ${outcome.latencyP99Ms} ms  (${outcome.requests} requests, ${outcome.non2xx} not 2xx)` +
+      `\n  ${"".padEnd(22)} CPU per request: server ${cpu.server.toFixed(2)} ms (floor ${outcome.floorCpuMsPerRequest.server.toFixed(2)} ms), PostgreSQL ${cpu.postgres.toFixed(2)} ms, load ${cpu.load.toFixed(2)} ms`,
   );
   return outcome;
 }
@@ -305,6 +366,7 @@ try {
       })
     : startAppServer({ buildDir, port: appPort, quiet: true, env: appEnv });
   await waitForHttp(`${appUrl}/healthz`, 60_000, app);
+  cpuOf = { serverPid: app.pid!, postgresDataDir: pg.dataDir };
 
   step("Client JavaScript (gzip) of every lesson page against the landing page");
   const landing = await pageScripts(appUrl, "/");
@@ -414,7 +476,16 @@ try {
     body: analysisBody,
   }));
 
-  const loads = [lessonPage, answer, gradebook, gradebookRefresh, analysis].filter((r) => r.requests > 0);
+  // The framework's own floor for a page: the sign-in page for someone not signed in (no session, no
+  // database, a form and the site's header and footer), rendered by the same entry as a lesson page.
+  // What any document costs before a lesson adds its student's data, exercises and math.
+  const smallestPage = await pairedLoad("smallest page: sign-in, not signed in", appUrl, () => ({
+    method: "GET",
+    path: "/sign-in",
+    headers: { accept: "text/html" },
+  }));
+
+  const loads = [lessonPage, answer, gradebook, gradebookRefresh, analysis, smallestPage].filter((r) => r.requests > 0);
   const floorFigures = loads.map((r) => r.floorRequestsPerSecond);
   const floor = floorFigures.reduce((a, b) => a + b, 0) / floorFigures.length;
   const ratio = (r: LoadResult) => r.ratioToFloor;
@@ -438,7 +509,7 @@ try {
     settings: { connections: CONNECTIONS, seconds: SECONDS, rounds: ROUNDS, warmUpSeconds: WARM_UP_SECONDS, tool: "autocannon 9.0.0" },
     inventedSchool: school.counts,
     floor: { requestsPerSecond: floor, lowest: Math.min(...floorFigures), highest: Math.max(...floorFigures) },
-    load: Object.fromEntries([lessonPage, answer, gradebook, gradebookRefresh, analysis].map((r) => [r.name, r])),
+    load: Object.fromEntries([lessonPage, answer, gradebook, gradebookRefresh, analysis, smallestPage].map((r) => [r.name, r])),
     sqlStatementsPerRequest: sql,
     responseSizes,
     clientJavaScript: { landingGzip: sum(landing), landingFiles: landing, lessons: lessonJs, largestLesson: worst.slug, ratio: jsRatio },
@@ -463,6 +534,7 @@ try {
       [gradebook, TARGETS.gradebookRatio],
       [gradebookRefresh, null],
       [analysis, null],
+      [smallestPage, null],
     ].map(([r, target]) => {
       const result = r as LoadResult;
       const t = target as number | null;
@@ -474,6 +546,18 @@ try {
         t === null ? "" : ratio(result) >= t ? "yes" : "NO",
       ]);
     }),
+    // CPU per request: the server's beside the floor's in the same turns, and PostgreSQL's.
+    ...[lessonPage, answer, gradebook, gradebookRefresh, analysis, smallestPage]
+      .filter((r) => r.requests > 0)
+      .map((r) =>
+        line([
+          `CPU per request: ${r.name} (server; PostgreSQL ${r.cpuMsPerRequest.postgres.toFixed(2)} ms)`,
+          `${r.cpuMsPerRequest.server.toFixed(2)} ms`,
+          `${(r.cpuMsPerRequest.server / r.floorCpuMsPerRequest.server).toFixed(1)}× the floor's ${r.floorCpuMsPerRequest.server.toFixed(2)} ms`,
+          "",
+          "",
+        ]),
+      ),
     ...(["lessonPage", "answer", "gradebook", "gradebookAfterChange", "analysis"] as const).map((k) => {
       const name = { lessonPage: "lesson page", answer: "answer check", gradebook: "gradebook JSON", gradebookAfterChange: "gradebook JSON after a change in the class", analysis: "POST /api/analysis" }[k];
       const targeted = k !== "analysis";
@@ -487,7 +571,7 @@ try {
   ];
   console.log(`\n${rows.join("\n")}\n\nThe same figures: ${path.relative(projectDir, path.join(artifacts, "bench.json"))}`);
   const missed = [...report.targets.ratios, ...report.targets.statements, report.targets.javaScript].filter((t) => !t.met).length;
-  const failures = [lessonPage, answer, gradebook, gradebookRefresh, analysis].filter((r) => r.non2xx > 0 || r.errors > 0);
+  const failures = [lessonPage, answer, gradebook, gradebookRefresh, analysis, smallestPage].filter((r) => r.non2xx > 0 || r.errors > 0);
   for (const f of failures) console.log(`warning: ${f.name} had ${f.non2xx} answers that were not 2xx and ${f.errors} errors`);
   console.log(missed === 0 ? "Every target is met." : `${missed} target(s) missed.`);
   exitCode = 0;
