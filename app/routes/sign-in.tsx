@@ -1,6 +1,7 @@
 // /sign-in: one page, two doors. Adults (school staff, teachers, parents) use their e-mail address;
 // students use the code from their teacher or parent, their username and their password.
 import { Form, Link, data, redirect, useNavigation } from "react-router";
+import type { ReactNode } from "react";
 import { z } from "zod";
 import type { Route } from "./+types/sign-in";
 import { ClockTime, Field, Notice } from "~/components/auth-forms";
@@ -125,81 +126,55 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
   const adultFirst = Boolean(adult || loaderData.notice || loaderData.authProblem);
 
   const studentDoor = (
-    <section aria-labelledby="student-door" className="card" key="student">
-      <h2 id="student-door" className="mb-1 text-[length:var(--text-step-2)]">
-        Students
-      </h2>
-      <p className="mb-5 text-ink-soft">Use the code your teacher or parent gave you, your username and your password.</p>
-      {student?.problem ? (
-        <Notice tone="problem">
-          <p>{student.problem}</p>
-          {student.waitUntil ? (
-            <p className="mt-1">
-              You can try again from <ClockTime iso={student.waitUntil} />.
-            </p>
-          ) : null}
-        </Notice>
-      ) : null}
-      <Form method="post" noValidate>
-        <input type="hidden" name="door" value="student" />
-        <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
-        <Field
-          label="Class or family code"
-          hint="For example MAPLE7A. Capitals or not, it does not matter."
-          name="code"
-          autoComplete="off"
-          autoCapitalize="characters"
-          spellCheck={false}
-          required
-          defaultValue={student?.values.code ?? ""}
-          error={student?.fieldErrors.code}
-        />
-        <Field
-          label="Username"
-          name="username"
-          autoComplete="username"
-          autoCapitalize="none"
-          spellCheck={false}
-          required
-          defaultValue={student?.values.username ?? ""}
-          error={student?.fieldErrors.username}
-        />
-        <Field
-          label="Password"
-          name="password"
-          type="password"
-          autoComplete="current-password"
-          required
-          error={student?.fieldErrors.password}
-        />
-        <SendButton className="btn" busy={busyDoor === "student"}>
-          {busyDoor === "student" ? "Signing in…" : "Sign in"}
-        </SendButton>
-      </Form>
+    <SignInDoor
+      key="student"
+      door="student"
+      title="Students"
+      intro="Use the code your teacher or parent gave you, your username and your password."
+      result={student}
+      busy={busyDoor === "student"}
+      redirectTo={loaderData.redirectTo}
+      fields={
+        <>
+          <Field
+            label="Class or family code"
+            hint="For example MAPLE7A. Capitals or not, it does not matter."
+            name="code"
+            autoComplete="off"
+            autoCapitalize="characters"
+            spellCheck={false}
+            required
+            defaultValue={student?.values.code ?? ""}
+            error={student?.fieldErrors.code}
+          />
+          <Field
+            label="Username"
+            name="username"
+            autoComplete="username"
+            autoCapitalize="none"
+            spellCheck={false}
+            required
+            defaultValue={student?.values.username ?? ""}
+            error={student?.fieldErrors.username}
+          />
+        </>
+      }
+    >
       <p className="mt-5 text-[length:var(--text-step--1)] text-ink-soft">
         Forgot your password? Ask your teacher, or the parent who made your account: they can set a new one for you.
       </p>
-    </section>
+    </SignInDoor>
   );
   const adultDoor = (
-    <section aria-labelledby="adult-door" className="card" key="adult">
-      <h2 id="adult-door" className="mb-1 text-[length:var(--text-step-2)]">
-        Adults
-      </h2>
-      <p className="mb-5 text-ink-soft">School administrators, teachers and parents: use your e-mail address.</p>
-      {adult?.problem ? (
-        <Notice tone="problem">
-          <p>{adult.problem}</p>
-          {adult.waitUntil ? (
-            <p className="mt-1">
-              You can try again from <ClockTime iso={adult.waitUntil} />.
-            </p>
-          ) : null}
-        </Notice>
-      ) : null}
-      <Form method="post" noValidate>
-        <input type="hidden" name="door" value="adult" />
-        <input type="hidden" name="redirectTo" value={loaderData.redirectTo} />
+    <SignInDoor
+      key="adult"
+      door="adult"
+      title="Adults"
+      intro="School administrators, teachers and parents: use your e-mail address."
+      result={adult}
+      busy={busyDoor === "adult"}
+      redirectTo={loaderData.redirectTo}
+      fields={
         <Field
           label="E-mail address"
           name="email"
@@ -211,18 +186,8 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
           defaultValue={adult?.values.email ?? ""}
           error={adult?.fieldErrors.email}
         />
-        <Field
-          label="Password"
-          name="password"
-          type="password"
-          autoComplete="current-password"
-          required
-          error={adult?.fieldErrors.password}
-        />
-        <SendButton className="btn" busy={busyDoor === "adult"}>
-          {busyDoor === "adult" ? "Signing in…" : "Sign in"}
-        </SendButton>
-      </Form>
+      }
+    >
       <ul className="mt-5 space-y-1 text-[length:var(--text-step--1)]">
         <li>
           <Link to="/sign-in/link">E-mail me a sign-in link instead</Link>
@@ -234,7 +199,7 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
           New here and teaching at home? <Link to="/join/family">Make a family account</Link>
         </li>
       </ul>
-    </section>
+    </SignInDoor>
   );
 
   return (
@@ -256,6 +221,51 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
 
       <div className="grid gap-6 md:grid-cols-2">{adultFirst ? [adultDoor, studentDoor] : [studentDoor, adultDoor]}</div>
     </div>
+  );
+}
+
+/**
+ * One door of the sign-in page: its heading (the region's name), what to use, the problem of the last
+ * try with when to try again, the form with its own fields and the password, and what follows it.
+ */
+function SignInDoor(props: {
+  door: "student" | "adult";
+  title: string;
+  intro: string;
+  result: SignInActionData | undefined;
+  busy: boolean;
+  redirectTo: string;
+  fields: ReactNode;
+  children: ReactNode;
+}) {
+  const { door, result } = props;
+  return (
+    <section aria-labelledby={`${door}-door`} className="card">
+      <h2 id={`${door}-door`} className="mb-1 text-[length:var(--text-step-2)]">
+        {props.title}
+      </h2>
+      <p className="mb-5 text-ink-soft">{props.intro}</p>
+      {result?.problem ? (
+        <Notice tone="problem">
+          <p>{result.problem}</p>
+          {result.waitUntil ? (
+            <p className="mt-1">
+              You can try again from <ClockTime iso={result.waitUntil} />.
+            </p>
+          ) : null}
+        </Notice>
+      ) : null}
+      <Form method="post" noValidate>
+        <input type="hidden" name="door" value={door} />
+        <input type="hidden" name="redirectTo" value={props.redirectTo} />
+        {props.fields}
+        <Field label="Password" name="password" type="password" autoComplete="current-password" required error={result?.fieldErrors.password} />
+        <SendButton className="btn" busy={props.busy}>
+          {props.busy ? "Signing in…" : "Sign in"}
+        </SendButton>
+      </Form>
+      {props.children}
+    </section>
   );
 }
 
