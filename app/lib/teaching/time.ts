@@ -84,7 +84,7 @@ export function formatDue(date: Date | string, timeZone: string, now: Date = new
     ...(sameYear ? {} : { year: "numeric" }),
     hour: "numeric",
     minute: "2-digit",
-    hour12: true,
+    hourCycle: "h12",
   }).format(instant);
 }
 
@@ -93,7 +93,8 @@ export function formatLongDate(date: Date): string {
   return formatter("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }).format(date);
 }
 
-// Times of day read the same everywhere: the 12-hour clock of the due dates ("5:00 pm").
+// Times of day read the same everywhere: the 12-hour clock of the due dates ("5:00 pm"). The cycle is
+// named (h12): `hour12: true` with en-GB counts from 0, so noon read "0:00 pm" and midnight "0:00 am".
 
 /** "11 Dec 2026, 4:05:09 pm" for lists of attempts (seconds: tries can come within a minute). */
 export function formatMoment(date: Date | string, timeZone: string): string {
@@ -105,13 +106,13 @@ export function formatMoment(date: Date | string, timeZone: string): string {
     hour: "numeric",
     minute: "2-digit",
     second: "2-digit",
-    hour12: true,
+    hourCycle: "h12",
   }).format(new Date(date));
 }
 
 /** "2:05:09 pm" in the zone: the time of day a page was brought up to date. */
 export function formatClockTime(date: Date | string, timeZone: string): string {
-  return formatter("en-GB", { timeZone, hour: "numeric", minute: "2-digit", second: "2-digit", hour12: true }).format(new Date(date));
+  return formatter("en-GB", { timeZone, hour: "numeric", minute: "2-digit", second: "2-digit", hourCycle: "h12" }).format(new Date(date));
 }
 
 export const DAY_MS = 24 * 60 * 60 * 1000;
