@@ -4,7 +4,7 @@ import { data } from "react-router";
 import { z } from "zod";
 import { db } from "~/db/client.server";
 import type { TeacherClass } from "./classes.server";
-import { REVIEW_COMMENT_MAX, RUBRIC } from "./shared";
+import { REVIEW_COMMENT_MAX, RUBRIC, withoutControlCharacters } from "./shared";
 import { saveReview } from "./review.server";
 import { findClassStudent } from "./roster.server";
 
@@ -23,6 +23,7 @@ export const reviewSchema = z.object({
   reasoning: points,
   comment: z
     .string()
+    .transform(withoutControlCharacters)
     .refine((c) => c.length <= REVIEW_COMMENT_MAX, {
       error: (issue) =>
         `It can be at most ${REVIEW_COMMENT_MAX.toLocaleString("en-US")} characters; this one has ${String(issue.input).length.toLocaleString("en-US")}. Nothing was saved, and your text is still in the box to shorten.`,

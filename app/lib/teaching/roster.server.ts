@@ -15,7 +15,7 @@ import { checkNewPassword } from "~/lib/auth/password-rules.server";
 import { hashPassword } from "~/lib/passwords.server";
 import { enrollStudentUsingSeat, releaseSeat, seatLedgerForYear, type SeatRefusal } from "~/lib/seats.server";
 import type { TeacherClass } from "./classes.server";
-import { USERNAME_CHARACTERS, USERNAME_ENDS, USERNAME_MAX, USERNAME_MIN, USERNAME_PATTERN, type RosterProblem } from "./shared";
+import { USERNAME_CHARACTERS, USERNAME_ENDS, USERNAME_MAX, USERNAME_MIN, USERNAME_PATTERN, USERNAME_RULE, withoutControlCharacters, type RosterProblem } from "./shared";
 
 export { problemPlace, type RosterProblem } from "./shared";
 
@@ -337,6 +337,8 @@ export async function addExistingStudent(
   username: string,
 ): Promise<{ ok: true; displayName: string } | { ok: false; message: string; refusal?: SeatRefusal }> {
   const name = username.trim().toLowerCase();
+  // Not a username at all (a space, an accent, a pasted control character): said as such, never looked up.
+  if (!USERNAME_PATTERN.test(name)) return { ok: false, message: `No student can have the username “${withoutControlCharacters(name)}”: a username is ${USERNAME_RULE}.` };
   const [student] = await db
     .select({ id: users.id, displayName: users.displayName })
     .from(users)

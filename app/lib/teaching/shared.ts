@@ -136,8 +136,14 @@ export const MAX_PENALTY_PERCENT = 100;
 /** The longest class name, counted after trimming and joining runs of spaces. */
 export const CLASS_NAME_MAX = 80;
 
-/** A class name as it is kept and compared: trimmed, each run of spaces one space. */
-export const tidyClassName = (name: string) => name.trim().replace(/\s+/g, " ");
+/**
+ * Text without the invisible control characters a paste can carry (NUL, backspace, escape…), which
+ * PostgreSQL refuses to store and nobody can see or mean; tabs and line ends stay.
+ */
+export const withoutControlCharacters = (text: string) => text.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/g, "");
+
+/** A class name as it is kept and compared: no control characters, trimmed, each run of spaces one space. */
+export const tidyClassName = (name: string) => withoutControlCharacters(name).trim().replace(/\s+/g, " ");
 
 /** What is wrong with a typed class name, for beside the field, or null; nothing is cut. */
 export function classNameProblem(typed: string, empty: string): string | null {
