@@ -9,6 +9,7 @@ import { and, eq } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
 import { photos } from "~/db/schema.server";
 import { serverEnv } from "~/env.server";
+import { stripPhotoMetadata } from "./photo-metadata";
 import { notAPhotoMessage, PHOTO_MAX_BYTES, sniffImageType } from "./photo-rules";
 
 let storage: FileStorage | undefined;
@@ -25,6 +26,7 @@ export type PhotoUploadResult =
 /**
  * Reads a multipart form with at most one photo. The file is refused, and nothing stored, when it is
  * too large or its bytes are not a JPEG, PNG or WebP image (whatever its name or claimed type says).
+ * A photo is stored without its metadata (stripPhotoMetadata: no GPS position, camera or time).
  */
 export async function readPhotoForm(request: Request): Promise<PhotoUploadResult> {
   let photo: { key: string; contentType: string; bytes: number } | null = null;
@@ -43,9 +45,11 @@ export async function readPhotoForm(request: Request): Promise<PhotoUploadResult
         refusal = notAPhotoMessage({ bytes, name: upload.name, type: upload.type });
         return null;
       }
+      // Kept without the camera's metadata: a phone writes where the photo was taken into it.
+      const picture = stripPhotoMetadata(bytes, realType);
       const key = `${randomUUID()}.${realType.split("/")[1]}`;
-      await photoStorage().set(key, new File([bytes], key, { type: realType }));
-      photo = { key, contentType: realType, bytes: bytes.length };
+      await photoStorage().set(key, new File([picture as Uint8Array<ArrayBuffer>], key, { type: realType }));
+      photo = { key, contentType: realType, bytes: picture.length };
       return key;
     });
   } catch (error) {

@@ -5,7 +5,7 @@
 // name or the browser's claim, so a real photo with a misleading name is kept under its real type.
 import { readdirSync, type Dirent } from "node:fs";
 import path from "node:path";
-import { eq } from "drizzle-orm";
+import { desc, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it, vi } from "vitest";
 import { db } from "~/db/client.server";
 import { serverEnv } from "~/env.server";
@@ -91,6 +91,20 @@ describe("set-up photos", () => {
     expect(served.status).toBe(200);
     expect(served.headers.get("content-type")).toBe("image/jpeg");
     expect(served.headers.get("x-content-type-options")).toBe("nosniff");
+  });
+
+  it("keeps a phone's JPEG without where it was taken or which phone took it (the child's home stays private)", async () => {
+    const exif = bytesOf("Exif\0\0MM\0*\0\0\0\x08\0\0\0\0\0\0GPS 59.3293N 18.0686E PhoneMaker");
+    const withPosition = new Uint8Array([0xff, 0xd8, 0xff, 0xe1, 0, exif.length + 2, ...exif, 0xff, 0xda, 0, 8, 1, 1, 0, 0, 0x3f, 0, 0x12, 0x34, 0xff, 0xd9]);
+    const result = await sendPhoto([{ name: "IMG_2048.jpg", type: "image/jpeg", bytes: withPosition }], { intent: "photo", photoId: "setup-photo" });
+    expect(result.status).toBe(200);
+    const [row] = await db.select().from(photos).where(eq(photos.photoId, PHOTO_ID)).orderBy(desc(photos.createdAt)).limit(1);
+    const stored = new Uint8Array(await (await photoStorage().get(row.storageKey))!.arrayBuffer());
+    const storedText = Buffer.from(stored).toString("latin1");
+    expect(storedText).not.toContain("GPS");
+    expect(storedText).not.toContain("PhoneMaker");
+    expect(Array.from(stored)).toEqual([0xff, 0xd8, 0xff, 0xda, 0, 8, 1, 1, 0, 0, 0x3f, 0, 0x12, 0x34, 0xff, 0xd9]);
+    expect(row.bytes).toBe(stored.length);
   });
 
   it("answers an address with no photo as a plain sentence, not a quoted JSON string", async () => {
