@@ -30,7 +30,7 @@ export function AnalysisReport({
         <h2 id="results" className="text-[length:var(--text-step-2)]">What the readings say</h2>
         <PrintButton />
       </div>
-      <ReadingCautions cautions={analysis.cautions} placeOf={placeOf} resolutionCm={resolutionCm} />
+      <ReadingCautions cautions={analysis.cautions} placeOf={placeOf} resolutionCm={resolutionCm} then="check it first, then analyse again" />
       <div className="grid gap-6 md:grid-cols-2">
         <div className="min-w-0">
           <EachReadingTable analysis={analysis} resolutionCm={resolutionCm} caption="Each reading" />
@@ -92,22 +92,26 @@ export const readingPlace = pointPlace("Reading");
 
 /**
  * Readings worth a second look (a slipped decimal point, a force that goes back down): a caution above
- * the results, which still use those readings.
+ * the results, which still use those readings. `then`: what the reader does about it on this page
+ * ("check it first, then save again" in a lesson, "… analyse again" in the analyser); none for an
+ * adult reading a child's saved readings, who can neither save nor analyse them.
  */
 export function ReadingCautions({
   cautions,
   placeOf,
   resolutionCm,
+  then,
 }: {
   cautions: readonly ReadingCaution[];
   placeOf: (point: number | null) => string;
   resolutionCm: number;
+  then?: string;
 }) {
   if (cautions.length === 0) return null;
   return (
     <div className="mb-4 rounded border-l-4 border-caution bg-caution-wash p-3 text-ink" data-testid="reading-cautions">
       <p className="font-bold text-caution">Worth a second look</p>
-      <p className="mb-1">The results below still use these readings, so one typed wrong pulls the line and every figure after it: check it first, then save again.</p>
+      <p className="mb-1">The results below still use these readings, so one typed wrong pulls the line and every figure after it{then ? `: ${then}.` : "."}</p>
       <ul className="list-disc pl-5">
         {cautions.map((c) => {
           const words = cautionWords(c, placeOf(c.point), resolutionCm);

@@ -139,6 +139,17 @@ describe("cautions in both displays (a slipped decimal point: 3.69 typed for 36.
     expect(text(html)).toContain("Line 5 (3.69 cm) is far from the other readings: was it typed right?");
   });
 
+  it("the caution says what to do on each page: save in a lesson, analyse in the analyser, nothing for an adult reading a child's readings", () => {
+    const lesson = text(renderToStaticMarkup(createElement(ReadingsAnalysis, { analysis: analyseReadings(slipped), title: "Your readings", resolutionCm: 0.1 })));
+    expect(lesson).toContain("every figure after it: check it first, then save again.");
+    const analyser = text(renderToStaticMarkup(createElement(AnalysisReport, { analysis: analyseReadings(slipped), resolutionCm: 0.1 })));
+    expect(analyser).toContain("every figure after it: check it first, then analyse again.");
+    expect(analyser).not.toMatch(/\bsave/i);
+    const parent = text(renderToStaticMarkup(createElement(ReadingsAnalysis, { analysis: analyseReadings(slipped), title: "Juno's readings", whose: "Juno's" })));
+    expect(parent).toContain("pulls the line and every figure after it.");
+    expect(parent).not.toMatch(/save again|analyse again/);
+  });
+
   it("ordinary readings show no caution box", () => {
     expect(renderToStaticMarkup(createElement(ReadingsAnalysis, { analysis: analyseReadings(ordinary), title: "Your readings" }))).not.toContain("reading-cautions");
     expect(renderToStaticMarkup(createElement(AnalysisReport, { analysis: analyseReadings(ordinary), resolutionCm: 0.1 }))).not.toContain("reading-cautions");

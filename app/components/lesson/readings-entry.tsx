@@ -246,7 +246,7 @@ export function ReadingsAnalysis({
           These results are worked out from the readings you last saved, not from the numbers in the table above. Save to update them.
         </p>
       )}
-      <ReadingCautions cautions={analysis.cautions} placeOf={rowPlace} resolutionCm={resolutionCm} />
+      <ReadingCautions cautions={analysis.cautions} placeOf={rowPlace} resolutionCm={resolutionCm} then={whose === "your" ? "check it first, then save again" : undefined} />
       <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1">
         <dt>Stiffness (best line through the origin)</dt>
         <dd data-testid="stiffness-through-origin">{origin.slope !== null ? `${formatForStudent(origin.slope)} N/cm` : "—"}</dd>
