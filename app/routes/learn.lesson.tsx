@@ -20,6 +20,7 @@ import {
   type Submission,
 } from "~/lib/course.server";
 import { lessonCodeUrl, registerLessonOnServer } from "~/lib/lesson-code.server";
+import { lessonProgressWords } from "~/lib/lesson-progress";
 import { lessonComponent, loadLessonScript } from "~/lib/lesson-scope";
 import { compiledLesson, findLesson, listLessons } from "~/lib/lessons.server";
 import { closedForAnswers, closedMessage, lessonPolicies } from "~/lib/teaching/policy.server";
@@ -194,7 +195,7 @@ async function lessonAction(request: Request, form: FormData | null, slugParam: 
       const outcome = await saveWrittenAnswer({ db }, user.id, slug, input.answerId, handIn ? text : sent, handIn);
       if (outcome === "already-handed-in") {
         return data(
-          { answerId: input.answerId, errors: { claim: "This answer is handed in. To change it, use “Hand in again”; your teacher then reads the new version." } },
+          { answerId: input.answerId, errors: { claim: `This answer is handed in. To change it, use “Hand in again”; your ${reader} then reads the new version.` } },
           { status: 409 },
         );
       }
@@ -261,7 +262,7 @@ export default function LessonPage({ loaderData }: Route.ComponentProps) {
         <h1 className="mt-1 mb-3 text-[length:var(--text-step-3)]">{lesson.title}</h1>
         <p className="prose-reading text-[length:var(--text-step-1)] text-ink-soft">{lesson.summary}</p>
         <p className="mt-3 font-ui text-[length:var(--text-step--1)] text-ink-soft" data-testid="lesson-progress">
-          {asAdult ? "You see the lesson as a student does; parts done count for students only" : `${state.requiredDone} of ${state.requiredTotal} parts done${state.complete ? " · lesson complete" : ""}`}
+          {asAdult ? "You see the lesson as a student does; parts done count for students only" : lessonProgressWords(state)}
           {state.assignment ? <span data-testid="lesson-due"> · due {state.assignment.dueText}</span> : null}
         </p>
         {state.assignment?.closed ? (

@@ -257,6 +257,26 @@ describe("progress", () => {
     expect(row.handedInAt!.getTime()).toBeGreaterThan(first.handedInAt!.getTime());
   });
 
+  it("tells a child at home who reads a handed-in answer that a draft cannot change: their parent, not a teacher", async () => {
+    const cookie = await sessionCookieFor("child");
+    const send = (handIn: "0" | "1", claim: string) =>
+      runRoute(
+        lessonRoute.action as never,
+        new Request(`${appUrl}/learn/07-home-lab`, {
+          method: "POST",
+          headers: { "content-type": "application/x-www-form-urlencoded", origin: appUrl, "sec-fetch-site": "same-origin", cookie },
+          body: new URLSearchParams({ intent: "written-answer", answerId: "cer-home-lab", claim, evidence: "2.6 and 6.8 N/cm", reasoning: "It bent less.", handIn }),
+        }),
+        { slug: "07-home-lab" },
+      );
+    expect((await send("1", "The stirrer is stiffer.")).status).toBe(200);
+    const draft = await send("0", "A draft from another tab");
+    expect(draft.status).toBe(409);
+    const message = (draft.body as { errors: { claim: string } }).errors.claim;
+    expect(message).toContain("your parent then reads the new version");
+    expect(message).not.toContain("teacher");
+  });
+
   it("continues where the student stopped", async () => {
     const student = await studentId("grace.w");
     const definition = findExercise(LESSON, "stiffness-one-reading")!;
