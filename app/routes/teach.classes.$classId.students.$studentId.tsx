@@ -1,6 +1,7 @@
 // /teach/classes/:classId/students/:studentId: one student's work, lesson by lesson (every attempt,
 // their own readings with charts, written answers with the review form, photos of set-ups), and what
 // the teacher can do for them: more tries or time (applied quietly), a new password, another class.
+import { useState } from "react";
 import { Form, Link, data, useNavigation, type ShouldRevalidateFunctionArgs } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/teach.classes.$classId.students.$studentId";
@@ -163,7 +164,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     case "accommodation": {
       const assignmentId = input.scope === "class" ? null : z.uuid().safeParse(input.scope).data;
       if (assignmentId === undefined) return data({ intent: input.intent, error: "Choose which lessons this is for." }, { status: 400 });
-      const values = { extraAttempts: input.extraAttempts, extraDays: input.extraDays };
+      const values = { scope: input.scope, extraAttempts: input.extraAttempts, extraDays: input.extraDays };
       const tries = readWholeNumber(input.extraAttempts, 0, MAX_EXTRA_ATTEMPTS);
       const days = readWholeNumber(input.extraDays, 0, MAX_EXTRA_DAYS);
       if (!tries.ok || !days.ok) {
@@ -191,7 +192,7 @@ type Answer = {
   movedTo?: string;
   removed?: boolean;
   fieldErrors?: { extraAttempts?: string; extraDays?: string };
-  values?: { extraAttempts: string; extraDays: string };
+  values?: { scope: string; extraAttempts: string; extraDays: string };
 };
 
 /**
@@ -209,6 +210,14 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
   const busy = useNavigation().state === "submitting";
   const answer = actionData as Answer | undefined;
   const accommodationAnswer = answer?.intent === "accommodation" ? answer : undefined;
+  // The tries and days fields start from what the chosen lessons have now, so changing one of them
+  // never quietly sets the other back to 0; after a refusal they keep what was typed.
+  const [scope, setScope] = useState(accommodationAnswer?.values?.scope ?? "class");
+  const own = accommodations.find((a) => a.scope === scope);
+  const classWide = accommodations.find((a) => a.scope === "class");
+  // A lesson without its own setting follows the class-wide one.
+  const current = own ?? (scope === "class" ? undefined : classWide);
+  const typed = accommodationAnswer?.values?.scope === scope ? accommodationAnswer.values : undefined;
   const about = (intent: string) =>
     answer?.intent === intent ? (
       answer.error ? (
@@ -359,15 +368,20 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
             <ul className="mb-3 list-disc pl-5">
               {accommodations.map((a) => (
                 <li key={a.scope}>
-                  {a.label}: {a.extraAttempts} more {a.extraAttempts === 1 ? "try" : "tries"}, {a.extraDays} more {a.extraDays === 1 ? "day" : "days"}
+                  {a.label}: {countOf(a.extraAttempts, "more try", "more tries")}, {countOf(a.extraDays, "more day", "more days")}
                 </li>
               ))}
             </ul>
           ) : null}
           <Form method="post" preventScrollReset noValidate>
             <input type="hidden" name="intent" value="accommodation" />
-            <SelectField label="For" name="scope" options={scopes} />
-            <div className="grid grid-cols-2 gap-3">
+            <SelectField label="For" name="scope" options={scopes} value={scope} onChange={(e) => setScope(e.currentTarget.value)} />
+            <p className="mb-3 text-[length:var(--text-step--1)]" data-testid="accommodation-now">
+              {current
+                ? `Now: ${countOf(current.extraAttempts, "more try", "more tries")} per exercise and ${countOf(current.extraDays, "more day", "more days")}${own ? "" : ", from the setting for every lesson"}.`
+                : "Now: the class's usual tries and due dates."}
+            </p>
+            <div className="grid grid-cols-2 gap-3" key={`${scope}|${current?.extraAttempts ?? 0}|${current?.extraDays ?? 0}`}>
               {(
                 [
                   { name: "extraAttempts", label: "More tries per exercise", max: MAX_EXTRA_ATTEMPTS },
@@ -382,7 +396,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
                   type="text"
                   inputMode="numeric"
                   autoComplete="off"
-                  defaultValue={accommodationAnswer?.values?.[f.name] ?? "0"}
+                  defaultValue={typed?.[f.name] ?? String(current?.[f.name] ?? 0)}
                   error={accommodationAnswer?.fieldErrors?.[f.name]}
                 />
               ))}
@@ -433,6 +447,11 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
       </div>
     </div>
   );
+}
+
+/** "1 more try", "3 more tries". */
+function countOf(n: number, one: string, many: string): string {
+  return `${n} ${n === 1 ? one : many}`;
 }
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.student.displayName ?? "Student"} · ${data?.klass.name ?? "Class"} — Bendwise` }];
