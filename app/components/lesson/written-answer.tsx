@@ -5,6 +5,7 @@
 import { useEffect, useRef, useState } from "react";
 import { useBlocker, useFetcher, useLocation } from "react-router";
 import { useLesson } from "./lesson-context";
+import { LeavingQuestion } from "~/components/leaving-question";
 import { SendButton } from "~/components/send-button";
 import { owePendingSave } from "~/lib/pending-saves";
 import { keepInTab, readInTab } from "~/lib/tab-storage";
@@ -94,21 +95,13 @@ export function WrittenAnswer({ id, prompt }: { id: string; prompt: string }) {
           </div>
         )}
       </fetcher.Form>
-      {leaving.state === "blocked" && (
-        <div className="mt-3 rounded bg-ember-wash p-3" role="alertdialog" aria-labelledby={`answer-${id}-leaving`}>
-          <p id={`answer-${id}-leaving`} className="mb-2 font-bold">
-            Your changes to this handed-in answer are not handed in yet. Leave without them?
-          </p>
-          <div className="flex flex-wrap gap-3">
-            <button type="button" className="btn" onClick={() => leaving.reset()} autoFocus>
-              Stay and hand in again
-            </button>
-            <button type="button" className="btn btn-quiet" onClick={() => leaving.proceed()}>
-              Leave without the changes
-            </button>
-          </div>
-        </div>
-      )}
+      <LeavingQuestion
+        leaving={leaving}
+        className="mt-3"
+        question="Your changes to this handed-in answer are not handed in yet. Leave without them?"
+        stay="Stay and hand in again"
+        leave="Leave without the changes"
+      />
       {mine?.error && (
         <p className="mt-2 rounded bg-ember-wash p-3 text-danger" role="alert">
           {mine.error}

@@ -1,0 +1,24 @@
+// The question a page asks when a link would leave behind something kept nowhere else (a handed-in
+// answer's changes, new students' first passwords): stay (the default, focused) or leave anyway.
+import { useId } from "react";
+import type { Blocker } from "react-router";
+
+export function LeavingQuestion({ leaving, question, stay, leave, className = "" }: { leaving: Blocker; question: string; stay: string; leave: string; className?: string }) {
+  const id = useId();
+  if (leaving.state !== "blocked") return null;
+  return (
+    <div className={`rounded bg-ember-wash p-3 ${className}`} role="alertdialog" aria-labelledby={id}>
+      <p id={id} className="mb-2 font-bold">
+        {question}
+      </p>
+      <div className="flex flex-wrap gap-3">
+        <button type="button" className="btn" onClick={() => leaving.reset()} autoFocus>
+          {stay}
+        </button>
+        <button type="button" className="btn btn-quiet" onClick={() => leaving.proceed()}>
+          {leave}
+        </button>
+      </div>
+    </div>
+  );
+}
