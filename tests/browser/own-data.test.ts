@@ -161,6 +161,50 @@ describe("own readings in the home lab", () => {
     await context.close();
   });
 
+  it("keeps readings typed but not saved across a reload and a trip through the course, until they are saved", { timeout: 60_000 }, async () => {
+    const { page, context, consoleErrors } = await openPage(browser, { viewport: { width: 375, height: 740 } });
+    await openAsStudent(page, { ...demoSignIns.student, code: "MAPLE7B", username: "tara.c" });
+    await page.goto(`/learn/${LESSON}`);
+    const table = () => page.locator("#readings-ruler-readings");
+    await table().getByLabel("What you tested").fill("blue ruler");
+    await table().getByLabel(/Unloaded reading/).fill("38,0");
+    await table().getByRole("button", { name: "Add a row" }).click();
+    await table().getByLabel("Force, row 7").fill("6.87");
+    await table().getByLabel(/Loaded reading \(cm\), row 7/).fill("35.2");
+    await table().getByLabel("Force, row 1").fill("0.98");
+    await table().getByLabel(/Loaded reading \(cm\), row 1/).fill("37.6");
+    await table().getByLabel(/Broke at this load, row 7/).check();
+
+    // The phone drops the page (a reload): every cell comes back, and the page says they are not saved yet.
+    await page.reload();
+    await table().getByTestId("readings-put-back").waitFor();
+    expect(await table().getByLabel("What you tested").inputValue()).toBe("blue ruler");
+    expect(await table().getByLabel(/Unloaded reading/).inputValue()).toBe("38,0");
+    expect(await table().getByLabel("Force, row 7").inputValue()).toBe("6.87");
+    expect(await table().getByLabel(/Broke at this load, row 7/).isChecked()).toBe(true);
+    expect(await table().getByLabel(/Loaded reading \(cm\), row 1/).inputValue()).toBe("37.6");
+
+    // Away through the course and back: still there.
+    await page.getByRole("link", { name: "← Your course" }).click();
+    await page.waitForURL(/\/learn$/);
+    await page.goBack();
+    await table().getByTestId("readings-put-back").waitFor();
+    expect(await table().getByLabel(/Loaded reading \(cm\), row 7/).inputValue()).toBe("35.2");
+
+    // Saved: the copy has done its work; a reload shows the saved readings and no note.
+    await table().getByLabel(/Broke at this load, row 7/).uncheck();
+    await table().getByRole("button", { name: "Save and analyse" }).click();
+    await table().getByText("Saved.").waitFor();
+    await page.reload();
+    await table().getByTestId("readings-analysis").waitFor();
+    await page.waitForTimeout(300);
+    expect(await table().getByTestId("readings-put-back").count()).toBe(0);
+    expect(await table().getByLabel(/Unloaded reading/).inputValue()).toBe("38.0");
+    expect(await table().getByLabel("Force, row 2").inputValue()).toBe("6.87");
+    expect(consoleErrors).toEqual([]);
+    await context.close();
+  });
+
   it("stores a real photo and refuses a file that only pretends to be one", { timeout: 60_000 }, async () => {
     const { page, context } = await openPage(browser);
     await openAsStudent(page, { ...demoSignIns.student, username: "ines.r" });

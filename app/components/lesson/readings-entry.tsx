@@ -10,6 +10,7 @@ import { ForceChartFromAnalysis } from "./force-chart";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
 import { SLIDES_SIDEWAYS, useOverflows } from "~/components/use-overflows";
+import { keepInTab, readInTab } from "~/lib/tab-storage";
 
 /** A cell a problem is about: a red border and wash, besides aria-invalid (colour is not the only sign: the list names the row). */
 const BAD_CELL = "border-danger bg-ember-wash";
@@ -47,6 +48,28 @@ export function rowsFrom(saved: SavedReadings | undefined): Row[] {
 }
 
 /**
+ * A table typed but not saved yet, kept in the tab: a phone can drop the page while the child takes
+ * the set-up photo or reads the next mark, and a reload or the way back through the course brings it
+ * back. It is kept with the saved readings it started from, so a save made since (another tab) wins.
+ */
+interface TabCopy {
+  from: string;
+  material: string;
+  unloaded: string;
+  rows: Row[];
+}
+const copyKey = (slug: string, id: string) => `bendwise-readings:${slug}:${id}`;
+const savedFingerprint = (saved: SavedReadings | undefined) => (saved ? JSON.stringify([saved.material, saved.unloadedCm, saved.points]) : "");
+
+function readCopy(key: string, saved: SavedReadings | undefined): TabCopy | null {
+  const copy = readInTab(key) as Partial<TabCopy> | null;
+  const isRow = (r: unknown): r is Row => typeof r === "object" && r !== null && ["forceN", "readingCm", "returnReadingCm"].every((k) => typeof (r as Record<string, unknown>)[k] === "string");
+  if (!copy || copy.from !== savedFingerprint(saved) || typeof copy.material !== "string" || typeof copy.unloaded !== "string") return null;
+  if (!Array.isArray(copy.rows) || copy.rows.length > 40 || !copy.rows.every(isRow)) return null;
+  return { from: copy.from, material: copy.material, unloaded: copy.unloaded, rows: copy.rows.map((r) => ({ ...r, broke: Boolean(r.broke) })) };
+}
+
+/**
  * `example`: what the lesson has the student test here, shown as the example in "What you tested".
  * `title`: the table's heading; a lesson with two tables gives each its own (screen readers list them by it).
  */
@@ -63,7 +86,7 @@ export function ReadingsEntry({
   example?: string;
   title?: string;
 }) {
-  const { state, canAnswer } = useLesson();
+  const { state, canAnswer, slug } = useLesson();
   const saved = state.readings[id];
   const fetcher = useFetcher<{ readingsId?: string; errors?: string[]; cells?: ReadingsCell[]; saved?: boolean }>();
   const [rows, setRows] = useState<Row[]>(() => rowsFrom(saved));
@@ -97,6 +120,24 @@ export function ReadingsEntry({
       setUnloaded(readingText(saved.unloadedCm, saved.resolutionCm));
     }
   }, [savedNow, fetcher.data, saved]);
+  // What was typed and not saved is kept in the tab, and put back when the page opens again.
+  const tabKey = copyKey(slug, id);
+  const [putBack, setPutBack] = useState(false);
+  useEffect(() => {
+    if (!canAnswer) return;
+    const copy = readCopy(tabKey, saved);
+    if (!copy) return keepInTab(tabKey, null);
+    setMaterial(copy.material);
+    setUnloaded(copy.unloaded);
+    setRows(copy.rows);
+    setEdited(true);
+    setPutBack(true);
+  }, []); // once, when the table opens (after hydration, so the server's page and the first render agree)
+  useEffect(() => {
+    if (!canAnswer) return;
+    if (edited) keepInTab(tabKey, { from: savedFingerprint(saved), material, unloaded, rows } satisfies TabCopy);
+    else if (savedNow) keepInTab(tabKey, null);
+  }, [edited, material, unloaded, rows, savedNow, tabKey, saved, canAnswer]);
   // On a narrow screen the table may be wider than its box: then a line says it slides sideways.
   const { ref: scroller, overflows: slides } = useOverflows<HTMLDivElement>();
   const update = (i: number, patch: Partial<Row>) => {
@@ -208,7 +249,13 @@ export function ReadingsEntry({
             </ul>
           </div>
         )}
-        {fetcher.data?.saved && fetcher.data.readingsId === id && <p className="mt-3 text-ok font-bold">Saved.</p>}
+        {savedNow ? (
+          <p className="mt-3 text-ok font-bold">Saved.</p>
+        ) : putBack && edited ? (
+          <p className="mt-3 rounded bg-caution-wash p-3 text-ink" data-testid="readings-put-back">
+            We put back the readings you typed here before, which were not saved yet. Check them, then press “Save and analyse” to keep them.
+          </p>
+        ) : null}
       </div>
       {analysis && saved && (
         <ReadingsAnalysis analysis={analysis} title={title} resolutionCm={saved.resolutionCm} stale={edited || (errors !== undefined && errors.length > 0)} />
