@@ -3,6 +3,7 @@
 // at the end of the school's agreement).
 import { and, asc, eq } from "drizzle-orm";
 import { Link } from "react-router";
+import { SlidingBox } from "~/components/sliding-box";
 import type { Route } from "./+types/school.students";
 import { db } from "~/db/client.server";
 import { classes, enrollments, memberships, users } from "~/db/schema.server";
@@ -43,27 +44,28 @@ export default function SchoolStudents({ loaderData }: Route.ComponentProps) {
         {students.length} {students.length === 1 ? "student has" : "students have"} an account at {school}. Teachers add students to their classes; here you can
         delete an account with everything recorded for it.
       </p>
-      <div className="overflow-x-auto rounded-lg border border-rule bg-card">
+      {/* Narrow cells on a phone, and a username may break, so the table fits 375 px with its Delete links whole. */}
+      <SlidingBox label={`Student accounts of ${school}`} className="rounded-lg border border-rule bg-card">
         <table className="w-full border-collapse text-left text-[length:var(--text-step--1)]" data-testid="school-students">
           <caption className="sr-only">Student accounts of {school}</caption>
           <thead>
             <tr className="border-b-2 border-rule">
-              <th scope="col" className="px-3 py-2">Name</th>
-              <th scope="col" className="px-3 py-2">Username</th>
-              <th scope="col" className="px-3 py-2">Classes</th>
-              <th scope="col" className="px-3 py-2"><span className="sr-only">Delete</span></th>
+              <th scope="col" className="px-2 py-2 sm:px-3">Name</th>
+              <th scope="col" className="px-2 py-2 sm:px-3">Username</th>
+              <th scope="col" className="px-2 py-2 sm:px-3">Classes</th>
+              <th scope="col" className="px-2 py-2 sm:px-3"><span className="sr-only">Delete</span></th>
             </tr>
           </thead>
           <tbody>
             {students.map((s) => (
               <tr key={s.id} className="border-b border-rule align-top" data-student={s.username ?? s.id}>
-                <th scope="row" className="px-3 py-2 font-normal">
+                <th scope="row" className="px-2 py-2 sm:px-3 font-normal">
                   {s.displayName}
                   {s.studentNumber ? <span className="block text-ink-soft">no. {s.studentNumber}</span> : null}
                 </th>
-                <td className="px-3 py-2 font-mono">{s.username}</td>
-                <td className="px-3 py-2">{s.classes.length === 0 ? <span className="text-ink-soft">none</span> : s.classes.join(", ")}</td>
-                <td className="px-3 py-2">
+                <td className="px-2 py-2 sm:px-3 font-mono [overflow-wrap:anywhere]">{s.username}</td>
+                <td className="px-2 py-2 sm:px-3">{s.classes.length === 0 ? <span className="text-ink-soft">none</span> : s.classes.join(", ")}</td>
+                <td className="px-2 py-2 sm:px-3">
                   <Link to={`/school/students/${s.id}/delete`} className="font-bold text-danger">
                     Delete<span className="sr-only"> {s.displayName}'s account and data</span>
                   </Link>
@@ -72,7 +74,7 @@ export default function SchoolStudents({ loaderData }: Route.ComponentProps) {
             ))}
           </tbody>
         </table>
-      </div>
+      </SlidingBox>
     </div>
   );
 }

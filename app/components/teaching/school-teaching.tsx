@@ -1,5 +1,6 @@
 // The school's classes and teachers with how their students are doing: the administrator's view of
 // teaching (on /school/classes). Summaries only: a class's gradebook stays with its teacher.
+import { SlidingBox } from "~/components/sliding-box";
 import type { SchoolTeaching } from "~/lib/teaching/school.server";
 
 const pct = (v: number | null) => (v === null ? "—" : `${v}%`);
@@ -11,7 +12,7 @@ export function SchoolTeachingSection({ school }: { school: SchoolTeaching }) {
       {school.classes.length === 0 ? (
         <p className="mb-6 text-ink-soft">No classes yet. Teachers make them on their teaching page.</p>
       ) : (
-        <div className="mb-8 overflow-x-auto rounded-lg border border-rule bg-card">
+        <SlidingBox label="Every class of the school with its progress" className="mb-8 rounded-lg border border-rule bg-card">
           {/* Wide enough that a class's name breaks between words; a phone scrolls the table in its box. */}
           <table className="w-full min-w-[46rem] border-collapse text-left text-[length:var(--text-step--1)]">
             <caption className="sr-only">Every class of the school with its progress</caption>
@@ -44,13 +45,13 @@ export function SchoolTeachingSection({ school }: { school: SchoolTeaching }) {
               ))}
             </tbody>
           </table>
-        </div>
+        </SlidingBox>
       )}
       <h3 className="mb-2 font-reading text-[length:var(--text-step-1)]">Teachers</h3>
       {school.teachers.length === 0 ? (
         <p className="text-ink-soft">No teachers yet.</p>
       ) : (
-        <div className="overflow-x-auto rounded-lg border border-rule bg-card">
+        <SlidingBox label="Every teacher of the school with their classes" className="rounded-lg border border-rule bg-card">
           <table className="w-full border-collapse text-left text-[length:var(--text-step--1)]">
             <caption className="sr-only">Every teacher of the school with their classes</caption>
             <thead>
@@ -74,7 +75,7 @@ export function SchoolTeachingSection({ school }: { school: SchoolTeaching }) {
               ))}
             </tbody>
           </table>
-        </div>
+        </SlidingBox>
       )}
     </section>
   );
