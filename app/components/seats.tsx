@@ -56,6 +56,9 @@ export interface PurchaseView {
   unfinishedUrl: string | null;
 }
 
+const seatsWord = (n: number) => `${n} ${n === 1 ? "seat" : "seats"}`;
+
+/** Every purchase with its receipt, invoice or unfinished payment; each link names its purchase for a screen reader's list of links. */
 export function PurchaseList({ purchases }: { purchases: PurchaseView[] }) {
   if (purchases.length === 0) return <p className="text-ink-soft">No purchases yet.</p>;
   return (
@@ -65,7 +68,7 @@ export function PurchaseList({ purchases }: { purchases: PurchaseView[] }) {
           {/* min-w-0 and wrap-anywhere: a long purchase-order number breaks instead of widening the card. */}
           <div className="min-w-0 wrap-anywhere">
             <p className="font-bold">
-              {p.seats} {p.seats === 1 ? "seat" : "seats"} for {p.schoolYear} · {p.amount}
+              {seatsWord(p.seats)} for {p.schoolYear} · {p.amount}
             </p>
             <p className="text-[length:var(--text-step--1)] text-ink-soft">
               Ordered {p.orderedOn} · {p.howPaid}
@@ -78,17 +81,17 @@ export function PurchaseList({ purchases }: { purchases: PurchaseView[] }) {
           <div className="flex flex-wrap gap-2">
             {p.receiptUrl ? (
               <Link className="btn btn-quiet" to={p.receiptUrl}>
-                Receipt<span className="sr-only"> for {p.seats} seats, {p.schoolYear}</span>
+                Receipt<span className="sr-only"> for {seatsWord(p.seats)}, {p.schoolYear}</span>
               </Link>
             ) : null}
             {p.invoiceUrl ? (
               <a className="btn btn-quiet" href={p.invoiceUrl}>
-                Read the invoice
+                Read the invoice<span className="sr-only"> for {seatsWord(p.seats)}, {p.schoolYear}</span>
               </a>
             ) : null}
             {p.unfinishedUrl ? (
               <Link className="btn btn-quiet" to={p.unfinishedUrl}>
-                Finish or drop
+                Finish or drop<span className="sr-only"> the order of {seatsWord(p.seats)} for {p.schoolYear}, ordered {p.orderedOn}</span>
               </Link>
             ) : null}
           </div>

@@ -6,7 +6,6 @@ import { useEffect, useState } from "react";
 import { Link, data, useFetcher } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/payments.confirming";
-import { Notice } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
 import { organisations } from "~/db/schema.server";
 import { requireUser } from "~/lib/auth.server";
@@ -57,12 +56,21 @@ export default function PaymentConfirming({ loaderData }: Route.ComponentProps) 
   }, [status, polls, fetcher.state, fetcher, purchase.id]);
 
   const seatsWord = purchase.seats === 1 ? "seat" : "seats";
+  const family = backTo === "/family/seats";
+  const heading = status === "paid" ? "Payment confirmed" : status === "void" ? "This payment did not go through" : "Thank you, the payment is being confirmed";
+  const box = {
+    paid: "rounded-lg border-l-4 border-ok bg-[#e7f3ea] px-4 py-3",
+    void: "rounded-lg border-l-4 border-danger bg-[#fdecee] px-4 py-3",
+    pending: "card",
+  }[status];
   return (
     <div className="mx-auto max-w-2xl px-5 py-12">
-      {status === "paid" ? (
-        <>
-          <h1 className="mb-4 text-[length:var(--text-step-3)]">Payment confirmed</h1>
-          <Notice tone="done">
+      <h1 className="mb-4 text-[length:var(--text-step-3)]">{heading}</h1>
+      {/* One live region for every state, there from the first render: a screen reader reads the change
+          to "confirmed" in the region it was already following (a region put in new is often not read). */}
+      <div role="status" aria-live="polite" className={`mb-4 text-ink ${box}`} data-testid="payment-state">
+        {status === "paid" ? (
+          <>
             <p className="font-bold" data-testid="confirmed">
               {purchase.seats} {seatsWord} for {purchase.schoolYear} {purchase.seats === 1 ? "has" : "have"} been added.
             </p>
@@ -70,42 +78,41 @@ export default function PaymentConfirming({ loaderData }: Route.ComponentProps) 
               Seats for {purchase.schoolYear} now: {ledger.bought} bought, {ledger.inUse} in use, {ledger.free} free. A receipt is on its way by
               e-mail.
             </p>
-          </Notice>
-        </>
-      ) : status === "void" ? (
-        <>
-          <h1 className="mb-4 text-[length:var(--text-step-3)]">This payment did not go through</h1>
-          <Notice tone="problem">No money was taken and no seats were added.</Notice>
-        </>
-      ) : (
-        <>
-          <h1 className="mb-4 text-[length:var(--text-step-3)]">Thank you, the payment is being confirmed</h1>
-          <div role="status" aria-live="polite" className="card mb-4">
+          </>
+        ) : status === "void" ? (
+          <p>No money was taken and no seats were added.</p>
+        ) : (
+          <>
             <p className="mb-2">
               You paid {purchase.amount} for {purchase.seats} {seatsWord} for {purchase.schoolYear}.{" "}
               <strong>The seats appear as soon as the payment service confirms the payment</strong>, usually within a few seconds. This page
               checks by itself.
             </p>
             {polls >= POLL_AT_MOST ? (
-              <p className="font-bold">
-                Still waiting. It can take a few minutes; you will get a receipt by e-mail once the seats are added.
-              </p>
+              <p className="font-bold">Still waiting. It can take a few minutes; you will get a receipt by e-mail once the seats are added.</p>
             ) : (
               <p className="text-ink-soft">Waiting for the confirmation…</p>
             )}
-          </div>
-          <p className="mb-4">
-            <a href={`/payments/confirming?purchase=${purchase.id}`}>Check again now</a>
-          </p>
-        </>
-      )}
+          </>
+        )}
+      </div>
+      {status === "pending" ? (
+        <p className="mb-4">
+          <a href={`/payments/confirming?purchase=${purchase.id}`}>Check again now</a>
+        </p>
+      ) : null}
       <div className="flex flex-wrap gap-3">
-        {status === "paid" && backTo === "/family/seats" ? (
+        {status === "paid" && family ? (
           <Link className="btn" to="/family/children/new">
             Add a child
           </Link>
         ) : null}
-        <Link className={status === "paid" && backTo === "/family/seats" ? "btn btn-quiet" : "btn"} to={backTo}>
+        {status === "paid" ? (
+          <Link className={family ? "btn btn-quiet" : "btn"} to={`/receipts/${purchase.id}`}>
+            Open the receipt
+          </Link>
+        ) : null}
+        <Link className={status === "paid" ? "btn btn-quiet" : "btn"} to={backTo}>
           Back to your seats
         </Link>
       </div>
