@@ -1,5 +1,5 @@
 // Small pieces shared by the sign-in, sign-in link and password pages.
-import { useEffect, useId, useState } from "react";
+import { useEffect, useId, useRef, useState } from "react";
 
 /** A labelled input with its error message tied to it for screen readers. */
 export function Field({
@@ -30,6 +30,19 @@ export function Field({
       ) : null}
     </div>
   );
+}
+
+/**
+ * When a form comes back with problems, the keyboard goes to its first field marked wrong, so a screen
+ * reader reads that field's label and message and the fix is typed there (the send button that had the
+ * keyboard says nothing). Give it the action's answer: each new answer moves the keyboard again.
+ */
+export function useFocusFirstProblem<T extends HTMLElement = HTMLFormElement>(answer: unknown) {
+  const ref = useRef<T>(null);
+  useEffect(() => {
+    if (answer) ref.current?.querySelector<HTMLElement>('[aria-invalid="true"]')?.focus();
+  }, [answer]);
+  return ref;
 }
 
 /** A message box: "problem" for refusals, "done" for confirmations. */

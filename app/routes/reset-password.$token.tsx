@@ -4,7 +4,7 @@ import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { eq, sql } from "drizzle-orm";
 import { useState } from "react";
 import type { Route } from "./+types/reset-password.$token";
-import { Field, Notice } from "~/components/auth-forms";
+import { Field, Notice, useFocusFirstProblem } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
 import { signInFailures, users } from "~/db/schema.server";
 import { homePathFor } from "~/lib/auth.server";
@@ -62,6 +62,7 @@ export default function ChooseNewPassword({ loaderData, actionData }: Route.Comp
   const busy = useNavigation().state !== "idle";
   const [shown, setShown] = useState(false);
   const result = actionData as ActionData | undefined;
+  const form = useFocusFirstProblem(result);
 
   if (!loaderData.valid || result?.spent) {
     return (
@@ -85,7 +86,7 @@ export default function ChooseNewPassword({ loaderData, actionData }: Route.Comp
         easy to remember and hard to guess. No special characters needed.
       </p>
       <div className="card">
-        <Form method="post" noValidate>
+        <Form method="post" noValidate ref={form}>
           <Field
             label="New password"
             name="password"

@@ -3,7 +3,7 @@
 import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/reset-password";
-import { Field, Notice } from "~/components/auth-forms";
+import { Field, Notice, useFocusFirstProblem } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
 import { sendEmailLink } from "~/lib/auth/email-links.server";
 import { EMAIL_TOKEN_MINUTES } from "~/lib/auth/email-tokens.server";
@@ -47,6 +47,7 @@ export async function action({ request }: Route.ActionArgs) {
 export default function ResetPassword({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
   const result = actionData as ActionData | undefined;
+  const form = useFocusFirstProblem(result);
   return (
     <div className="mx-auto max-w-xl px-5 py-12">
       <h1 className="mb-2 text-[length:var(--text-step-3)]">Forgot your password?</h1>
@@ -62,7 +63,7 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
       ) : null}
       {result?.problem ? <Notice tone="problem">{result.problem}</Notice> : null}
       <div className="card">
-        <Form method="post" noValidate>
+        <Form method="post" noValidate ref={form}>
           <Field
             label="E-mail address"
             name="email"

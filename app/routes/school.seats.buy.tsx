@@ -5,7 +5,7 @@ import { useState } from "react";
 import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/school.seats.buy";
-import { Field, Notice } from "~/components/auth-forms";
+import { Field, Notice, useFocusFirstProblem } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
 import { serverEnv } from "~/env.server";
 import { assertSameOrigin, requireRole } from "~/lib/auth.server";
@@ -114,6 +114,7 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
   const { school, years, price, purchaseOrderMax, defaults } = loaderData;
   const values = actionData?.values ?? defaults;
   const errors = actionData?.fieldErrors ?? {};
+  const form = useFocusFirstProblem(actionData);
   const [seats, setSeats] = useState(values.seats);
   const [method, setMethod] = useState(values.method);
   const navigation = useNavigation();
@@ -134,7 +135,7 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
         </Notice>
       ) : null}
 
-      <Form method="post" className="card" noValidate>
+      <Form method="post" className="card" noValidate ref={form}>
         <Field
           label="How many seats?"
           hint={`One seat is one student for one school year, ${formatPrice(price)} each. In digits, ${rangeWords(MIN_SEATS_PER_ORDER, MAX_SEATS_PER_ORDER)} in one order.`}

@@ -1,6 +1,7 @@
 // /school/students/:studentId/delete: a school administrator deletes a student's account and
 // everything recorded for it, for good; the seat is freed. The administrator types the student's
 // name to confirm. Another school's student is simply not found.
+import { useEffect, useRef } from "react";
 import { Link, data, useNavigation, type ShouldRevalidateFunctionArgs } from "react-router";
 import { Notice } from "~/components/auth-forms";
 import { z } from "zod";
@@ -50,22 +51,29 @@ export default function DeleteStudent({ loaderData, actionData }: Route.Componen
   const { student } = loaderData;
   const busy = useNavigation().state !== "idle";
   const answer = actionData as { typed?: string; error?: string; deleted?: string; seatsFreed?: number } | undefined;
-  if (answer?.deleted) {
-    return (
-      <div className="mx-auto max-w-2xl px-5 py-10">
-        <h1 className="mb-4 text-[length:var(--text-step-3)]">Deleted</h1>
-        <Notice tone="done">
-          {answer.deleted}'s account and everything recorded for it are gone.{answer.seatsFreed ? " Their seat is free for another student." : ""}
-        </Notice>
-        <Link to="/school/students" className="btn">
-          Back to the student accounts
-        </Link>
-      </div>
-    );
-  }
+  if (answer?.deleted) return <Deleted name={answer.deleted} seatFreed={Boolean(answer.seatsFreed)} />;
   return (
     <div className="mx-auto max-w-2xl px-5 py-10">
       <DeleteStudentForm name={student.displayName} username={student.username} who="this student" busy={busy} typed={answer?.typed} error={answer?.error} back="/school/students" />
+    </div>
+  );
+}
+
+/** The answer replaces the form that had the keyboard, so the keyboard goes to its heading and the page is read from there. */
+function Deleted({ name, seatFreed }: { name: string; seatFreed: boolean }) {
+  const heading = useRef<HTMLHeadingElement>(null);
+  useEffect(() => heading.current?.focus(), []);
+  return (
+    <div className="mx-auto max-w-2xl px-5 py-10">
+      <h1 ref={heading} tabIndex={-1} className="mb-4 text-[length:var(--text-step-3)]">
+        Deleted
+      </h1>
+      <Notice tone="done">
+        {name}'s account and everything recorded for it are gone.{seatFreed ? " Their seat is free for another student." : ""}
+      </Notice>
+      <Link to="/school/students" className="btn">
+        Back to the student accounts
+      </Link>
     </div>
   );
 }

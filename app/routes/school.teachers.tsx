@@ -1,10 +1,11 @@
 // /school/teachers: a school administrator's teachers, and invitations by e-mail. An invitation's link
 // works for a week; it can be sent again (a new link; the old one stops working) or withdrawn.
+import { useEffect, useRef } from "react";
 import { Form, Link, data, useNavigation } from "react-router";
 import { and, asc, eq, inArray } from "drizzle-orm";
 import { z } from "zod";
 import type { Route } from "./+types/school.teachers";
-import { Field, Notice } from "~/components/auth-forms";
+import { Field, Notice, useFocusFirstProblem } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
 import { memberships, users } from "~/db/schema.server";
 import { serverEnv } from "~/env.server";
@@ -77,14 +78,23 @@ export default function SchoolTeachers({ loaderData, actionData }: Route.Compone
   const busy = useNavigation().state !== "idle";
   const answer = actionData as Answer | undefined;
   const invite = answer?.intent === "invite" ? answer : undefined;
+  const inviteForm = useFocusFirstProblem(invite);
+  // A sent invitation empties the form, and a withdrawn one takes its buttons away: the keyboard goes
+  // to the answer (read out there), and the next Tab goes on into the form.
+  const said = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (answer?.done || answer?.problem) said.current?.focus();
+  }, [answer]);
   return (
     <div className="mx-auto max-w-4xl px-5 py-10">
       <p className="mb-1">
         <Link to="/school">{school}</Link>
       </p>
       <h1 className="mb-6 text-[length:var(--text-step-3)]">Teachers</h1>
-      {answer?.done ? <Notice tone="done">{answer.done}</Notice> : null}
-      {answer?.problem ? <Notice tone="problem">{answer.problem}</Notice> : null}
+      <div ref={said} tabIndex={-1}>
+        {answer?.done ? <Notice tone="done">{answer.done}</Notice> : null}
+        {answer?.problem ? <Notice tone="problem">{answer.problem}</Notice> : null}
+      </div>
 
       <section aria-labelledby="invite-heading" className="card mb-8">
         <h2 id="invite-heading" className="mb-1 text-[length:var(--text-step-2)]">
@@ -94,7 +104,7 @@ export default function SchoolTeachers({ loaderData, actionData }: Route.Compone
           We e-mail them a link that works for {days} days. New to Bendwise, they choose a password; with an account already, your school is added to it.
         </p>
         {/* A new key after each invitation sent empties the form, ready for the next teacher. */}
-        <Form method="post" noValidate key={invite?.done ?? "invite"}>
+        <Form method="post" noValidate key={invite?.done ?? "invite"} ref={inviteForm}>
           <input type="hidden" name="intent" value="invite" />
           <div className="grid gap-x-4 sm:grid-cols-2">
             <Field label="Name" name="displayName" autoComplete="off" required defaultValue={invite?.values?.displayName ?? ""} error={invite?.fieldErrors?.displayName} />

@@ -5,7 +5,7 @@ import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { eq } from "drizzle-orm";
 import { z } from "zod";
 import type { Route } from "./+types/sign-in.link";
-import { Field, Notice } from "~/components/auth-forms";
+import { Field, Notice, useFocusFirstProblem } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
 import { users } from "~/db/schema.server";
 import { homePathFor } from "~/lib/auth.server";
@@ -77,6 +77,7 @@ export default function SignInLink({ loaderData, actionData }: Route.ComponentPr
   const navigation = useNavigation();
   const busy = navigation.state !== "idle";
   const result = actionData as ActionData | undefined;
+  const form = useFocusFirstProblem(result);
 
   if (loaderData.mode === "use" && result?.intent !== "use") {
     return (
@@ -118,7 +119,7 @@ export default function SignInLink({ loaderData, actionData }: Route.ComponentPr
       ) : null}
       {send?.problem ? <Notice tone="problem">{send.problem}</Notice> : null}
       <div className="card">
-        <Form method="post" noValidate>
+        <Form method="post" noValidate ref={form}>
           <input type="hidden" name="intent" value="send" />
           <Field
             label="E-mail address"

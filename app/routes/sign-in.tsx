@@ -4,7 +4,7 @@ import { Form, Link, data, redirect, useNavigation } from "react-router";
 import type { ReactNode } from "react";
 import { z } from "zod";
 import type { Route } from "./+types/sign-in";
-import { ClockTime, Field, Notice } from "~/components/auth-forms";
+import { ClockTime, Field, Notice, useFocusFirstProblem } from "~/components/auth-forms";
 import { getUser, homePathFor, safeRedirectTo } from "~/lib/auth.server";
 import { adultCredentials, signInThroughAuth, studentCredentials, SignInPaused } from "~/lib/auth/auth-config.server";
 import { assertSameOrigin } from "~/lib/auth/same-origin.server";
@@ -239,6 +239,7 @@ function SignInDoor(props: {
   children: ReactNode;
 }) {
   const { door, result } = props;
+  const form = useFocusFirstProblem(result);
   return (
     <section aria-labelledby={`${door}-door`} className="card">
       <h2 id={`${door}-door`} className="mb-1 text-[length:var(--text-step-2)]">
@@ -255,7 +256,7 @@ function SignInDoor(props: {
           ) : null}
         </Notice>
       ) : null}
-      <Form method="post" noValidate>
+      <Form method="post" noValidate ref={form}>
         <input type="hidden" name="door" value={door} />
         <input type="hidden" name="redirectTo" value={props.redirectTo} />
         {props.fields}
