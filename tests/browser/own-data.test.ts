@@ -230,6 +230,13 @@ describe("own readings in the home lab", () => {
     }, src);
     expect(photo).toEqual({ status: 200, type: "image/png" });
 
+    // Saved: the box no longer holds the file, so a second press does not send the same photo again.
+    await box.getByText("Photo saved.").waitFor();
+    expect(await box.locator('input[type="file"]').evaluate((input: HTMLInputElement) => input.files?.length ?? 0)).toBe(0);
+    await box.getByRole("button", { name: "Upload the photo" }).click();
+    expect(await box.getByRole("alert").innerText()).toMatch(/Choose a photo first/);
+    await expect(box.locator("img").count()).resolves.toBe(1);
+
     // Another student cannot open it.
     const other = await openPage(browser);
     await openAsStudent(other.page, { ...demoSignIns.student, username: "jonah.b" });

@@ -1,5 +1,5 @@
 // A photo of the student's set-up: a JPEG, PNG or WebP file of at most 5 MB, checked on the server.
-import { useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import { CHOOSE_A_PHOTO_FIRST, HEIC_PHOTO, looksLikeHeic, PHOTO_MAX_BYTES } from "~/lib/photo-rules";
 import { useLesson } from "./lesson-context";
@@ -18,6 +18,11 @@ export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id
     setEarly(problem);
     if (problem) event.preventDefault();
   };
+  // A saved photo leaves the box: pressing "Upload the photo" again would send the same picture twice.
+  const form = useRef<HTMLFormElement>(null);
+  useEffect(() => {
+    if (fetcher.state === "idle" && mine?.saved) form.current?.reset();
+  }, [fetcher.state, mine]);
   const photos = state.photos[id] ?? [];
   return (
     <section id={`photo-${id}`} className="card my-8 scroll-mt-6 font-ui" aria-labelledby={`photo-${id}-title`}>
@@ -26,7 +31,7 @@ export function PhotoUpload({ id, prompt = "Add a photo of your set-up." }: { id
       </h3>
       <p className="mb-3">{prompt} Keep faces out of the picture.</p>
       {canAnswer && (
-        <fetcher.Form method="post" encType="multipart/form-data" noValidate onSubmit={checkBeforeSending}>
+        <fetcher.Form ref={form} method="post" encType="multipart/form-data" noValidate onSubmit={checkBeforeSending}>
           <input type="hidden" name="intent" value="photo" />
           <input type="hidden" name="photoId" value={id} />
           <label className="block">
