@@ -7,6 +7,7 @@ import { assertSameOrigin } from "~/lib/auth.server";
 import { classHeading, renameClass, renewClassCode, setArchived, setClassTimeZone, spacedCode, tidyClassName } from "~/lib/teaching/classes.server";
 import { CLASS_NAME_MAX, classNameProblem } from "~/lib/teaching/shared";
 import { requireTeacherClass } from "~/lib/teaching/guard.server";
+import { classAssignments, timeZoneChangedMessage } from "~/lib/teaching/assignments.server";
 import { timeZoneMenu } from "~/lib/teaching/time";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
 import { SendButton } from "~/components/send-button";
@@ -42,7 +43,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     case "time-zone": {
       const done = await setClassTimeZone({ db }, klass, input.timeZone);
-      return done.ok ? { intent: input.intent, done: `Due dates now use ${input.timeZone}.` } : data({ intent: input.intent, field: done.field, message: done.message }, { status: 400 });
+      if (!done.ok) return data({ intent: input.intent, field: done.field, message: done.message }, { status: 400 });
+      return { intent: input.intent, done: timeZoneChangedMessage(await classAssignments({ db }, klass.id), klass.timeZone, input.timeZone) };
     }
     case "renew-code": {
       const code = await renewClassCode({ db }, klass);

@@ -145,7 +145,7 @@ describe("assigning a lesson", () => {
     expect(row.dueAt.getTime()).toBeLessThan(now);
 
     const penalty = await assign({ ...past, latePolicy: "penalty", latePenaltyPercent: "10" });
-    expect((penalty.body as { caution?: string }).caution).toMatch(/work done after it is late and loses 10 points for each day after it/);
+    expect((penalty.body as { caution?: string }).caution).toMatch(/work done after it is late and loses 10% of its credit for each day late/);
     const accept = await assign({ ...past, latePolicy: "accept" });
     expect((accept.body as { caution?: string }).caution).toMatch(/work done after it is late \(late work counts in full\)/);
 

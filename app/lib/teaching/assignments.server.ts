@@ -51,10 +51,26 @@ export function assignedMessage(input: Pick<AssignInput, "dueAt" | "latePolicy" 
   if (input.dueAt.getTime() > now.getTime()) return { done };
   const consequence = {
     accept: "work done after it is late (late work counts in full)",
-    penalty: `work done after it is late and loses ${input.latePenaltyPercent} points for each day after it`,
+    penalty: `work done after it is late and loses ${input.latePenaltyPercent}% of its credit for each day late`,
     closed: "the lesson is closed: students can read it but their answers are not taken",
   }[input.latePolicy];
   return { done, caution: `That due date has already passed, so ${consequence}. If that is not what you meant, choose a later due date.` };
+}
+
+/**
+ * What the teacher reads after changing the class's time zone. Assigned lessons keep their moment, so
+ * their due dates now read another time of day: each is named with its time in the new zone, so a
+ * "5:00 pm" that became "11:00 am" is seen, not found out later.
+ */
+export function timeZoneChangedMessage(assigned: Pick<ClassAssignment, "lessonSlug" | "dueAt">[], from: string, to: string, now: Date = new Date()): string {
+  const done = `Due dates now use ${to}.`;
+  if (from === to || assigned.length === 0) return done;
+  const lessons = listLessons();
+  const dues = assigned.map((a) => {
+    const lesson = lessons.find((l) => l.slug === a.lessonSlug);
+    return `${lesson ? `lesson ${lesson.number}` : a.lessonSlug} is now due ${formatDue(a.dueAt, to, now)} (it read ${formatDue(a.dueAt, from, now)} in ${from})`;
+  });
+  return `${done} Lessons already assigned keep the same moment, so their times read differently: ${dues.join("; ")}. If you meant the times as typed, change them under Lessons assigned.`;
 }
 
 /** How far from today an opening or a due date may be (a school year and a summer, either way). */
