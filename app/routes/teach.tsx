@@ -6,6 +6,7 @@ import type { Route } from "./+types/teach";
 import { db } from "~/db/client.server";
 import { classes, enrollments, organisations } from "~/db/schema.server";
 import { requireRole } from "~/lib/auth.server";
+import { spacedCode } from "~/lib/teaching/classes.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const { user } = await requireRole(request, ["teacher"]);
@@ -26,7 +27,8 @@ export async function loader({ request }: Route.LoaderArgs) {
     .groupBy(classes.id, organisations.name)
     .orderBy(asc(organisations.name), asc(classes.name));
   const schools = user.memberships.filter((m) => m.role === "teacher").map((m) => m.organisationName);
-  return { displayName: user.displayName, schools, classes: rows };
+  // The code as every other page writes it: in two groups, read aloud more easily.
+  return { displayName: user.displayName, schools, classes: rows.map(({ signInCode, ...c }) => ({ ...c, code: spacedCode(signInCode) })) };
 }
 
 export default function Teach({ loaderData }: Route.ComponentProps) {
@@ -73,7 +75,7 @@ export default function Teach({ loaderData }: Route.ComponentProps) {
                   {schools.length > 1 ? <span className="block text-[length:var(--text-step--1)] text-ink-soft">{c.school}</span> : null}
                 </td>
                 <td className="py-2 pr-4">{c.schoolYear}</td>
-                <td className="py-2 pr-4 font-mono">{c.signInCode}</td>
+                <td className="py-2 pr-4 font-mono">{c.code}</td>
                 <td className="py-2 pr-4 text-right">{c.students}</td>
               </tr>
             ))}

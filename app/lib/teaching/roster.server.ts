@@ -359,13 +359,14 @@ export interface RosterStudent {
   studentNumber: string | null;
 }
 
+/** The class's students in the gradebook's order: by name as people read it (Émile among the E's, not after Z). */
 export async function classRoster({ db }: Db, classId: string): Promise<RosterStudent[]> {
-  return db
+  const students = await db
     .select({ id: users.id, displayName: users.displayName, username: users.username, gradeBand: users.gradeBand, studentNumber: users.studentNumber })
     .from(enrollments)
     .innerJoin(users, eq(users.id, enrollments.studentId))
-    .where(eq(enrollments.classId, classId))
-    .orderBy(asc(users.displayName), asc(users.username));
+    .where(eq(enrollments.classId, classId));
+  return students.sort((a, b) => a.displayName.localeCompare(b.displayName) || (a.username ?? "").localeCompare(b.username ?? ""));
 }
 
 /** The student, if they are in this class. */
