@@ -9,6 +9,8 @@ export interface ProgressState {
   complete: boolean;
   exercises: Record<string, { prompt: { waitingForReadings?: boolean } }>;
   readings: Record<string, unknown>;
+  /** the lesson closed at its due date: nothing more can be saved, so no hint to save */
+  assignment?: { closed: boolean } | null;
 }
 
 const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
@@ -16,6 +18,7 @@ const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one :
 export function lessonProgressWords(state: ProgressState): string {
   const parts = `${state.requiredDone} of ${state.requiredTotal} parts done`;
   if (state.complete) return `${parts} · lesson complete`;
+  if (state.assignment?.closed) return parts;
   const waiting = Object.values(state.exercises).filter((e) => e.prompt.waitingForReadings).length;
   const saved = Object.keys(state.readings).length;
   if (waiting > 0) {

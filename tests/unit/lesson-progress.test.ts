@@ -29,6 +29,11 @@ describe("the lesson's progress line", () => {
     expect(lessonProgressWords(state)).toBe("0 of 8 parts done · your readings are saved (2 tables); the parts are the questions on them and the write-up");
   });
 
+  it("a lesson closed at its due date takes no readings, so the line does not ask for them", () => {
+    expect(lessonProgressWords(homeLab({ assignment: { closed: true } }))).toBe("0 of 8 parts done");
+    expect(lessonProgressWords(homeLab({ assignment: { closed: false } }))).toBe("0 of 8 parts done · 5 questions wait for your readings");
+  });
+
   it("a lesson without readings, and a finished one, read as before", () => {
     expect(lessonProgressWords({ requiredDone: 3, requiredTotal: 8, complete: false, exercises: { a: exercise() }, readings: {} })).toBe("3 of 8 parts done");
     expect(lessonProgressWords(homeLab({ requiredDone: 8, complete: true, readings: { x: {} } }))).toBe("8 of 8 parts done · lesson complete");
