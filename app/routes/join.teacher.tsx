@@ -5,7 +5,7 @@
 import { Form, Link, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/join.teacher";
-import { Field, Notice } from "~/components/auth-forms";
+import { Field, Notice, useFocusFirstProblem } from "~/components/auth-forms";
 import { db } from "~/db/client.server";
 import { assertSameOrigin, getUser } from "~/lib/auth.server";
 import { signInThroughAuth } from "~/lib/auth/auth-config.server";
@@ -63,6 +63,7 @@ export async function action({ request }: Route.ActionArgs) {
 export default function JoinTeacher({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
   const answer = actionData as { problem?: string; displayName?: string; fieldErrors?: Record<string, string> } | undefined;
+  const form = useFocusFirstProblem(answer);
   if (loaderData.mode === "accepted") {
     return (
       <div className="mx-auto max-w-xl px-5 py-12">
@@ -93,7 +94,7 @@ export default function JoinTeacher({ loaderData, actionData }: Route.ComponentP
       <p className="mb-6 text-ink-soft">
         You are invited to teach with Bendwise as <strong className="text-ink">{loaderData.email}</strong>.
       </p>
-      <Form method="post" noValidate className="card">
+      <Form method="post" noValidate className="card" ref={form}>
         <input type="hidden" name="token" value={loaderData.token} />
         {loaderData.hasAccount ? (
           <p className="mb-5">This address already has a Bendwise account: accepting adds {loaderData.school} to it, and you can use your usual password.</p>

@@ -6,9 +6,11 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { demoSignIns } from "../../drizzle/scripts/seed";
+import { listCaughtMail } from "../fakes/mail-catcher";
 import { axeViolations, launchBrowser, openPage, signInAsAdult, signInAsStudent } from "./browser";
 
 const paymentsUrl = process.env.PAYMENTS_API_URL!;
+const mailWebPort = Number(process.env.BENDWISE_MAIL_WEB_PORT);
 const phone = { width: 375, height: 740 };
 
 let browser: Browser;
@@ -85,6 +87,21 @@ describe("answers that replace what had the keyboard", () => {
     // The next Tab goes on into the form, ready for the next teacher.
     await page.keyboard.press("Tab");
     await expect(focused(page)).resolves.toMatchObject({ tag: "input", name: "displayName" });
+
+    // The invited teacher, at the link of the e-mail, chooses a password too short: the keyboard goes to it.
+    let link: string | undefined;
+    for (let i = 0; i < 50 && !link; i++) {
+      const mail = (await listCaughtMail(mailWebPort)).find((m) => m.to.some((t) => t.address === email));
+      link = mail ? /https?:\/\/\S+\/join\/teacher\?token=\S+/.exec(mail.text ?? "")?.[0] : undefined;
+      if (!link) await page.waitForTimeout(200);
+    }
+    const invited = await openPage(browser);
+    await invited.page.goto(new URL(link!).pathname + new URL(link!).search);
+    await invited.page.getByLabel("Choose a password").fill("short");
+    await invited.page.getByRole("button", { name: /^Accept and join/ }).press("Enter");
+    await invited.page.locator('input[name="password"][aria-invalid="true"]').waitFor();
+    await expect(focused(invited.page)).resolves.toMatchObject({ tag: "input", name: "password", described: expect.stringMatching(/8 characters/) });
+    await invited.context.close();
 
     await page.getByRole("button", { name: `Send again to ${email}` }).press("Enter");
     await page.getByText(/^Sent again, with a new link/).waitFor();
