@@ -184,7 +184,10 @@ export default function ChildPage({ loaderData, actionData }: Route.ComponentPro
               <div className="mb-4 flex flex-wrap gap-3">
                 {l.photos.map((p) => (
                   <figure key={p.id}>
-                    <img src={`/photos/${p.id}`} alt={`${child.displayName}'s photo of the set-up (${p.photoId})`} className="h-40 rounded border border-rule object-cover" loading="lazy" />
+                    {/* The thumbnail opens the photo at full size: a set-up is read in its details. */}
+                    <a href={`/photos/${p.id}`} target="_blank" rel="noreferrer" className="block">
+                      <img src={`/photos/${p.id}`} alt={`${child.displayName}'s photo of the set-up (${p.photoId}), opens at full size`} className="h-40 rounded border border-rule object-cover" loading="lazy" />
+                    </a>
                     <figcaption className="text-[length:var(--text-step--1)] text-ink-soft">{p.at}</figcaption>
                   </figure>
                 ))}

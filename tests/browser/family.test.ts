@@ -150,19 +150,32 @@ describe("a new family", () => {
     await box.getByRole("button", { name: "Check my answer" }).click();
     await box.getByText("That's right.").waitFor();
     await shot(child.page, "7-child-lesson-1");
+    // …and sends a photo of a home-lab set-up (a small real JPEG).
+    await child.page.goto("/learn/07-home-lab");
+    const photoBox = child.page.locator("#photo-setup-photo");
+    const jpeg = await child.page.screenshot({ type: "jpeg", clip: { x: 0, y: 0, width: 40, height: 30 } });
+    await photoBox.locator('input[type="file"]').setInputFiles({ name: "setup.jpg", mimeType: "image/jpeg", buffer: jpeg });
+    await photoBox.getByRole("button", { name: "Upload the photo" }).click();
+    await photoBox.getByText("Photo saved.").waitFor();
     expect(child.consoleErrors).toEqual([]);
     await child.context.close();
 
     // 6. The parent sees Layla's progress.
     await page.goto("/family");
     const card = page.locator('[data-child="layla"]');
-    await expect(card.getByTestId("child-progress").innerText()).resolves.toBe("0 of 8 lessons complete, 1 under way.");
+    await expect(card.getByTestId("child-progress").innerText()).resolves.toBe("0 of 8 lessons complete, 2 under way.");
     await shot(page, "8-family-progress");
     await card.getByRole("link", { name: "See Layla's work" }).click();
     await page.getByRole("heading", { name: "Layla", exact: true }).waitFor();
     const lesson1 = page.locator('[data-lesson="01-measuring-deformation"]');
     await expect(lesson1.getByTestId("lesson-progress").innerText()).resolves.toMatch(/^1 of \d+ parts done$/);
     await page.getByText("Reading a millimetre ruler").first().waitFor();
+    // The set-up photo opens at full size from its thumbnail.
+    const photoLink = page.getByRole("link", { name: /Layla's photo of the set-up \(setup-photo\), opens at full size/ });
+    const href = await photoLink.getAttribute("href");
+    expect(href).toMatch(/^\/photos\/[0-9a-f-]{36}$/);
+    const full = await page.request.get(href!);
+    expect([full.status(), full.headers()["content-type"]]).toEqual([200, "image/jpeg"]);
     await shot(page, "9-child-work");
 
     // No console errors on the way, except Chromium's notes of the two refusals we asked for (the too-short
