@@ -4,7 +4,7 @@
 import { useId } from "react";
 import { SLIDES_SIDEWAYS, useOverflows } from "./use-overflows";
 
-export function SlidingBox({ label, className = "", children }: { label: string; className?: string; children: React.ReactNode }) {
+export function SlidingBox({ label, className = "", testId, children }: { label: string; className?: string; testId?: string; children: React.ReactNode }) {
   const { ref, overflows } = useOverflows<HTMLDivElement>();
   const hintId = useId();
   const keys = overflows ? { tabIndex: 0, role: "region", "aria-label": label, "aria-describedby": hintId } : {};
@@ -15,7 +15,7 @@ export function SlidingBox({ label, className = "", children }: { label: string;
           {SLIDES_SIDEWAYS}
         </p>
       ) : null}
-      <div ref={ref} className={`overflow-x-auto ${className}`} {...keys}>
+      <div ref={ref} className={`overflow-x-auto ${className}`} data-testid={testId} {...keys}>
         {children}
       </div>
     </>

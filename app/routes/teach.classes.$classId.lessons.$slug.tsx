@@ -17,6 +17,7 @@ import { formatDue } from "~/lib/teaching/time";
 import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
 import { ClassHeader } from "~/components/teaching/ui";
+import { SlidingBox } from "~/components/sliding-box";
 import { hasWriting, writtenAnswerView } from "~/lib/teaching/review.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -68,8 +69,8 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
       <section aria-labelledby="items" className="mb-10">
         <h2 id="items" className="mb-3 text-[length:var(--text-step-2)]">How each exercise went</h2>
         {/* On a narrow screen the table keeps readable columns (each header on one or two lines) and
-            scrolls sideways inside its own box, the exercise names staying in view. */}
-        <div className="overflow-x-auto rounded-lg border border-rule bg-card" data-testid="item-analysis">
+            scrolls sideways inside its own box, the exercise names staying in view; the box says it slides. */}
+        <SlidingBox label="Item analysis of the lesson's exercises" className="rounded-lg border border-rule bg-card" testId="item-analysis">
           <table className="w-full min-w-[44rem] border-collapse text-left text-[length:var(--text-step--1)]">
             <caption className="sr-only">Item analysis of the lesson's exercises</caption>
             <thead>
@@ -100,7 +101,7 @@ export default function ClassLesson({ loaderData }: Route.ComponentProps) {
               ))}
             </tbody>
           </table>
-        </div>
+        </SlidingBox>
       </section>
 
       <section aria-labelledby="answers">

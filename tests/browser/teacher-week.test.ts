@@ -1,13 +1,14 @@
 // A teacher's ordinary week, where a slip would lose work or hide a student's standing: the first
 // passwords of new students are not left behind by a click on a tab, the extra tries and days of a
-// student are not set back to 0 when only one of them is changed, and on a phone the gradebook says
-// that it slides sideways (its averages sit at the right end, out of view).
+// student are not set back to 0 when only one of them is changed, and on a phone the gradebook and
+// the item analysis say that they slide sideways (the averages and the usual wrong answers sit out of view).
 import { and, eq, isNull } from "drizzle-orm";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/db/client.server";
 import { accommodations, classes, users } from "~/db/schema.server";
 import { demoSignIns } from "../../drizzle/scripts/seed";
+import { SLIDES_SIDEWAYS } from "~/components/use-overflows";
 import { launchBrowser, openPage, signInAsAdult } from "./browser";
 
 let browser: Browser;
@@ -94,7 +95,7 @@ describe("a teacher's week", () => {
     await context.close();
   }, 60_000);
 
-  it("says on a phone that the gradebook slides sideways, and not on a wide screen", async () => {
+  it("says on a phone that the gradebook and the item analysis slide sideways, and not on a wide screen", async () => {
     const klass = await classNamed("Grade 7 Physical Science A");
     for (const [width, slides] of [
       [375, true],
@@ -102,10 +103,16 @@ describe("a teacher's week", () => {
     ] as const) {
       const { page, context, consoleErrors } = await openPage(browser, { viewport: { width, height: 800 } });
       await signInTeacher(page);
-      await page.goto(`/teach/classes/${klass.id}/gradebook`);
-      await page.getByTestId("gradebook").waitFor();
-      await expect.poll(() => page.getByTestId("table-scroll-hint").count(), { timeout: 5_000 }).toBe(slides ? 1 : 0);
-      if (slides) await expect(page.getByTestId("table-scroll-hint").innerText()).resolves.toMatch(/slide it sideways to see every column/);
+      for (const [path, box] of [
+        ["gradebook", "gradebook"],
+        ["lessons/02-force-and-deformation", "item-analysis"],
+      ]) {
+        await page.goto(`/teach/classes/${klass.id}/${path}`);
+        await page.getByTestId(box).waitFor();
+        await expect.poll(() => page.getByText(SLIDES_SIDEWAYS).count(), { timeout: 5_000, message: `${path} at ${width} px` }).toBe(slides ? 1 : 0);
+        // Sliding, the box takes the keyboard (the arrow keys scroll it), named after its table.
+        if (slides) await expect(page.getByTestId(box).getAttribute("tabindex")).resolves.toBe("0");
+      }
       expect(consoleErrors).toEqual([]);
       await context.close();
     }
