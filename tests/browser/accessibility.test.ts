@@ -2,7 +2,8 @@
 // practices) in Debian's Chromium against the production build. For each kind of visitor the test
 // follows the links of their pages from their home, as they would, and scans one page of each kind
 // (one class, one student…; every lesson, as each has its own parts): a page that fails a rule fails
-// the test with the rule and the elements it found.
+// the test with the rule and the elements it found. The visitor's and the administrator's pages are
+// scanned at a phone's width as well.
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { demoSignIns } from "../../drizzle/scripts/seed";
@@ -82,11 +83,18 @@ const visitors: { who: string; home: string; signIn: (page: Page) => Promise<voi
   },
 ];
 
+// At a phone's width too: a table that slides sideways must take the keyboard.
+const AT_PHONE_WIDTH_TOO = ["a visitor", "a school administrator"];
+const runs = [
+  ...visitors.map((visitor) => ({ visitor, viewport: undefined, width: "" })),
+  ...visitors.filter((v) => AT_PHONE_WIDTH_TOO.includes(v.who)).map((visitor) => ({ visitor, viewport: { width: 375, height: 740 }, width: " at 375 px" })),
+];
+
 describe("accessibility of every page", () => {
-  for (const visitor of visitors) {
-    it(`finds no accessibility problem on the pages ${visitor.who} reaches`, async () => {
+  for (const { visitor, viewport, width } of runs) {
+    it(`finds no accessibility problem on the pages ${visitor.who} reaches${width}`, async () => {
       // The scan's script is injected by the test, so this context alone may bypass the page's CSP.
-      const { page, context, consoleErrors } = await openPage(browser, { bypassCSP: true });
+      const { page, context, consoleErrors } = await openPage(browser, { bypassCSP: true, ...(viewport ? { viewport } : {}) });
       await visitor.signIn(page);
       const found = await scanReachablePages(page, visitor.home);
       expect(Object.keys(found)).toEqual(expect.arrayContaining(visitor.atLeast));
