@@ -1,23 +1,19 @@
-// /school: a school administrator's home. First version: seats bought and in use per school year,
-// the school's teachers and classes.
-import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
+// /school: a school administrator's home: seats bought, in use and free per school year (free is what
+// decides whether a teacher can add a student), the school's teachers and classes.
+import { and, asc, count, eq, inArray } from "drizzle-orm";
 import { Link } from "react-router";
 import type { Route } from "./+types/school";
 import { db } from "~/db/client.server";
-import { classes, memberships, seatPurchases, users } from "~/db/schema.server";
+import { classes, memberships, users } from "~/db/schema.server";
 import { requireRole } from "~/lib/auth.server";
+import { seatLedger } from "~/lib/seats.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const { user } = await requireRole(request, ["school_admin"]);
   const schools = user.memberships.filter((m) => m.role === "school_admin");
   const ids = schools.map((m) => m.organisationId);
-  const [seats, students, teachers, classCounts] = await Promise.all([
-    db
-      .select({ organisationId: seatPurchases.organisationId, schoolYear: seatPurchases.schoolYear, seats: sql<number>`sum(${seatPurchases.seats})::int` })
-      .from(seatPurchases)
-      .where(and(inArray(seatPurchases.organisationId, ids), eq(seatPurchases.status, "paid")))
-      .groupBy(seatPurchases.organisationId, seatPurchases.schoolYear)
-      .orderBy(asc(seatPurchases.schoolYear)),
+  const [ledgers, students, teachers, classCounts] = await Promise.all([
+    Promise.all(ids.map((id) => seatLedger({ db }, id))),
     db
       .select({ organisationId: memberships.organisationId, n: count() })
       .from(memberships)
@@ -40,7 +36,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     schools: schools.map((s) => ({
       id: s.organisationId,
       name: s.organisationName,
-      seats: seats.filter((r) => r.organisationId === s.organisationId).map(({ schoolYear, seats }) => ({ schoolYear, seats })),
+      seats: ledgers[ids.indexOf(s.organisationId)].toReversed(),
       students: students.find((r) => r.organisationId === s.organisationId)?.n ?? 0,
       classes: classCounts.find((r) => r.organisationId === s.organisationId)?.n ?? 0,
       teachers: teachers.filter((t) => t.organisationId === s.organisationId).map(({ name, email }) => ({ name, email })),
@@ -79,10 +75,11 @@ export default function School({ loaderData }: Route.ComponentProps) {
               {school.seats.length === 0 ? (
                 <p className="text-ink-soft">No seats bought yet.</p>
               ) : (
-                <ul>
+                <ul className="space-y-1">
                   {school.seats.map((s) => (
-                    <li key={s.schoolYear}>
-                      <strong>{s.seats}</strong> {s.seats === 1 ? "seat" : "seats"} for {s.schoolYear}
+                    <li key={s.schoolYear} data-year={s.schoolYear}>
+                      <strong>{s.schoolYear}</strong>: {s.bought} bought, {s.inUse} in use,{" "}
+                      <strong className={s.free === 0 ? "text-danger" : "text-ok"}>{s.free} free</strong>
                     </li>
                   ))}
                 </ul>

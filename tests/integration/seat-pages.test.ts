@@ -69,6 +69,17 @@ const ledgerOf = async (cookie: string) => {
   return rows.filter((r) => r.schoolYear === "2026-27");
 };
 
+describe("/school", () => {
+  it("shows each school year's seats as the ledger does: bought, in use and free", async () => {
+    const school = await import("~/routes/school");
+    const home = await h.runRoute(school.loader as never, h.get("/school", { cookie: cookies.admin }));
+    const seats = (home.body as { schools: Array<{ seats: unknown[] }> }).schools[0].seats;
+    const ledger = await h.runRoute(routes.seats.loader as never, h.get("/school/seats", { cookie: cookies.admin }));
+    expect(seats).toEqual((ledger.body as { ledger: unknown[] }).ledger.toReversed());
+    expect(seats).toContainEqual(expect.objectContaining({ schoolYear: "2026-27", inUse: expect.any(Number), free: expect.any(Number) }));
+  });
+});
+
 describe("/school/seats", () => {
   it("shows the demo school's ledger per school year", async () => {
     const result = await h.runRoute(routes.seats.loader as never, h.get("/school/seats", { cookie: cookies.admin }));
