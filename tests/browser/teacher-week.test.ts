@@ -1,5 +1,5 @@
 // A teacher's ordinary week, where a slip would lose work or hide a student's standing: the first
-// passwords of new students are not left behind by a click on a tab, the extra tries and days of a
+// passwords of new students and a review begun are not left behind by a click on a tab, the extra tries and days of a
 // student are not set back to 0 when only one of them is changed, and on a phone the gradebook and
 // the item analysis say that they slide sideways (the averages and the usual wrong answers sit out of view).
 import { and, eq, isNull } from "drizzle-orm";
@@ -92,6 +92,29 @@ describe("a teacher's week", () => {
     await expect(more.getByLabel("More days").inputValue()).resolves.toBe("three");
     await expect(more.getByLabel("More tries per exercise").inputValue()).resolves.toBe("2");
     expect(consoleErrors.filter((e) => !/status of 400/.test(e))).toEqual([]);
+    await context.close();
+  }, 60_000);
+
+  it("asks before leaving a review begun and not saved, and not once it is saved", async () => {
+    const { page, context, consoleErrors } = await openPage(browser);
+    await signInTeacher(page);
+    const klass = await classNamed("Grade 7 Physical Science A");
+    await page.goto(`/teach/classes/${klass.id}/lessons/02-force-and-deformation`);
+    const review = page.getByRole("form", { name: "Your review of Hugo M.'s answer" });
+    await review.getByLabel("Comment for the student").fill("Your evidence has every number with its unit.");
+    await page.getByRole("link", { name: "Gradebook", exact: true }).click();
+    const question = page.getByRole("alertdialog");
+    await question.getByText("A review you began is not saved yet. Leave the page without it?").waitFor();
+    await question.getByRole("button", { name: "Stay and save it" }).click();
+    expect(page.url()).toMatch(/\/lessons\/02-force-and-deformation$/);
+    await expect(review.getByLabel("Comment for the student").inputValue()).resolves.toBe("Your evidence has every number with its unit.");
+
+    for (const [criterion, points] of [["claim", "2"], ["evidence", "2"], ["reasoning", "1"]]) await review.locator(`input[name=${criterion}][value="${points}"]`).check();
+    await review.getByRole("button", { name: "Save the review" }).click();
+    await review.getByText("Saved. The student sees your comment on their lesson page.").waitFor();
+    await page.getByRole("link", { name: "Gradebook", exact: true }).click();
+    await page.waitForURL(/\/gradebook$/);
+    expect(consoleErrors).toEqual([]);
     await context.close();
   }, 60_000);
 

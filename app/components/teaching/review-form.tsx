@@ -1,7 +1,9 @@
 // Scoring one written answer on the claim / evidence / reasoning rubric (0–2 each) with a comment the
 // student reads on their lesson page. Sent with a fetcher, so the page stays where the teacher is.
-import { useId } from "react";
-import { useFetcher } from "react-router";
+// A review begun and not saved is kept nowhere: while one is open, leaving the page asks first.
+import { useEffect, useId, useSyncExternalStore } from "react";
+import { useBlocker, useFetcher } from "react-router";
+import { LeavingQuestion } from "~/components/leaving-question";
 import { REVIEW_COMMENT_MAX, RUBRIC, type RubricScores } from "~/lib/teaching/shared";
 import { SendButton } from "~/components/send-button";
 
@@ -21,9 +23,16 @@ export function ReviewForm({ answer, action, of }: { answer: ReviewedAnswer; act
   const key = `${answer.studentId}/${answer.slug}/${answer.answerId}`;
   const saved = fetcher.data?.reviewed === key;
   const wrong = (field: string) => (fetcher.data?.field === field ? true : undefined);
+  const firstUnsaved = useSyncExternalStore(unsaved.subscribe, unsaved.first, () => null);
+  useEffect(() => () => unsaved.mark(key, false), [key]);
+  useEffect(() => {
+    if (saved && fetcher.state === "idle") unsaved.mark(key, false);
+  }, [saved, fetcher.state, key]);
   if (!answer.handedIn) return <p className="text-ink-soft">This answer is still a draft; you can review it once it is handed in.</p>;
   return (
-    <fetcher.Form method="post" action={action} noValidate className="mt-3 rounded-lg bg-paper p-3" aria-labelledby={`${id}-title`}>
+    <fetcher.Form method="post" action={action} noValidate className="mt-3 rounded-lg bg-paper p-3" aria-labelledby={`${id}-title`} onChange={() => unsaved.mark(key, true)}>
+      {/* One question for the page: the first unsaved review asks it. */}
+      {firstUnsaved === key ? <LeavingWithUnsavedReviews /> : null}
       <h4 id={`${id}-title`} className="mb-2 font-bold">Your review of {of}</h4>
       <input type="hidden" name="intent" value="review" />
       <input type="hidden" name="studentId" value={answer.studentId} />
@@ -68,5 +77,44 @@ export function ReviewForm({ answer, action, of }: { answer: ReviewedAnswer; act
         </span>
       </div>
     </fetcher.Form>
+  );
+}
+
+/** The reviews of this page begun and not saved yet (by answer), in the order they were begun. */
+const unsaved = (() => {
+  const keys = new Set<string>();
+  const listeners = new Set<() => void>();
+  return {
+    subscribe(listener: () => void) {
+      listeners.add(listener);
+      return () => void listeners.delete(listener);
+    },
+    first: () => keys.values().next().value ?? null,
+    count: () => keys.size,
+    mark(key: string, open: boolean) {
+      if (keys.has(key) === open) return;
+      if (open) keys.add(key);
+      else keys.delete(key);
+      for (const listener of listeners) listener();
+    },
+  };
+})();
+
+function LeavingWithUnsavedReviews() {
+  const count = useSyncExternalStore(unsaved.subscribe, unsaved.count, () => 0);
+  const leaving = useBlocker(({ currentLocation, nextLocation }) => currentLocation.pathname !== nextLocation.pathname);
+  useEffect(() => {
+    const ask = (event: BeforeUnloadEvent) => event.preventDefault();
+    window.addEventListener("beforeunload", ask);
+    return () => window.removeEventListener("beforeunload", ask);
+  }, []);
+  return (
+    <LeavingQuestion
+      leaving={leaving}
+      className="fixed inset-x-3 bottom-3 z-30 mx-auto max-w-xl shadow-lg"
+      question={`${count === 1 ? "A review you began is" : `${count} reviews you began are`} not saved yet. Leave the page without ${count === 1 ? "it" : "them"}?`}
+      stay={count === 1 ? "Stay and save it" : "Stay and save them"}
+      leave={count === 1 ? "Leave without it" : "Leave without them"}
+    />
   );
 }
