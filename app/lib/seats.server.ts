@@ -57,7 +57,8 @@ function ledgerRow(schoolYear: string, bought: number, inUse: number): SeatLedge
 /** The sentence shown whenever a seat is refused. */
 export function noFreeSeatMessage(ledger: SeatLedgerRow): string {
   if (ledger.bought === 0) return `There are no seats for ${ledger.schoolYear} yet, so no student can be added. Seats need to be bought first.`;
-  return `All ${ledger.bought} seats for ${ledger.schoolYear} are in use, so this student cannot be added. More seats need to be bought first.`;
+  const taken = ledger.bought === 1 ? `The 1 seat for ${ledger.schoolYear} is in use` : `All ${ledger.bought} seats for ${ledger.schoolYear} are in use`;
+  return `${taken}, so this student cannot be added. More seats need to be bought first.`;
 }
 
 export type SeatRefusal = { ok: false; reason: "no-free-seat"; message: string; ledger: SeatLedgerRow };

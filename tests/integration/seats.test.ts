@@ -90,7 +90,7 @@ describe("enrolling and removing students", () => {
     expect(refused).toEqual({
       ok: false,
       reason: "no-free-seat",
-      message: "All 1 seats for 2026-27 are in use, so this student cannot be added. More seats need to be bought first.",
+      message: "The 1 seat for 2026-27 is in use, so this student cannot be added. More seats need to be bought first.",
       ledger: { schoolYear: "2026-27", bought: 1, inUse: 1, free: 0 },
     });
     const [enrolled] = await db.select({ n: count() }).from(enrollments).where(eq(enrollments.studentId, b.id));
@@ -190,7 +190,7 @@ describe("families: a child account takes a seat", () => {
     expect(made).toMatchObject({ ok: true, child: { username: "ada", displayName: "Ada" }, ledger: { bought: 1, inUse: 1, free: 0 } });
 
     const refused = await createChildUsingSeat({ db }, { householdId: household.id, schoolYear: "2026-27", displayName: "Bo", username: "bo", gradeBand: "9-10", passwordHash: "x" });
-    expect(refused).toMatchObject({ ok: false, reason: "no-free-seat", message: "All 1 seats for 2026-27 are in use, so this student cannot be added. More seats need to be bought first." });
+    expect(refused).toMatchObject({ ok: false, reason: "no-free-seat", message: "The 1 seat for 2026-27 is in use, so this student cannot be added. More seats need to be bought first." });
     const [bo] = await db.select().from(users).where(and(eq(users.homeOrganisationId, household.id), eq(users.username, "bo")));
     expect(bo).toBeUndefined();
 
