@@ -174,22 +174,23 @@ export default function BuySeats({ loaderData, actionData }: Route.ComponentProp
           ) : null}
         </div>
 
+        {/* Each choice is named by its title alone and described by the sentence under it, so a screen reader says "By invoice, radio button" before the details. */}
         <fieldset className="mb-4" aria-describedby={errors.method ? "method-error" : undefined}>
           <legend className="mb-1 font-bold">How will the school pay?</legend>
           <label className="mb-2 flex gap-3 rounded-lg border border-rule p-3">
-            <input type="radio" name="method" value="card" checked={method === "card"} onChange={() => setMethod("card")} className="mt-1 shrink-0 self-start" />
+            <input type="radio" name="method" value="card" checked={method === "card"} onChange={() => setMethod("card")} aria-labelledby="method-card" aria-describedby="method-card-about" className="mt-1 shrink-0 self-start" />
             <span>
-              <span className="block font-bold">By card, now</span>
-              <span className="text-[length:var(--text-step--1)] text-ink-soft">
+              <span id="method-card" className="block font-bold">By card, now</span>
+              <span id="method-card-about" className="text-[length:var(--text-step--1)] text-ink-soft">
                 You pay on the payment service's page and come back here. The seats appear as soon as the payment is confirmed.
               </span>
             </span>
           </label>
           <label className="flex gap-3 rounded-lg border border-rule p-3">
-            <input type="radio" name="method" value="invoice" checked={method === "invoice"} onChange={() => setMethod("invoice")} className="mt-1 shrink-0 self-start" />
+            <input type="radio" name="method" value="invoice" checked={method === "invoice"} onChange={() => setMethod("invoice")} aria-labelledby="method-invoice" aria-describedby="method-invoice-about" className="mt-1 shrink-0 self-start" />
             <span>
-              <span className="block font-bold">By invoice</span>
-              <span className="text-[length:var(--text-step--1)] text-ink-soft">
+              <span id="method-invoice" className="block font-bold">By invoice</span>
+              <span id="method-invoice-about" className="text-[length:var(--text-step--1)] text-ink-soft">
                 We e-mail you an invoice with your purchase-order number, payable by bank transfer within 30 days. The seats are added when it
                 is paid.
               </span>

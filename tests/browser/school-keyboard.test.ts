@@ -64,6 +64,9 @@ describe("forms sent back with problems", () => {
     await expect(invite.getByLabel("Name").inputValue()).resolves.toBe("Mo Keyboard");
 
     await page.goto("/school/seats/buy");
+    // The ways to pay are named by their titles, the sentence under each its description.
+    await expect(page.getByRole("radio", { name: "By invoice", exact: true }).getAttribute("aria-describedby")).resolves.toBeTruthy();
+    await expect(page.getByRole("radio", { name: "By card, now", exact: true }).isChecked()).resolves.toBe(true);
     await page.getByLabel("How many seats?").fill("abc");
     await page.getByRole("button", { name: "Go to card payment" }).press("Enter");
     await page.getByText(/things? to fix below/).waitFor();
