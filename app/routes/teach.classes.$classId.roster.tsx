@@ -3,7 +3,7 @@
 // named by row and column; nothing is saved until the teacher confirms a file without problems, and
 // then all rows are saved in one transaction (or none). First passwords are shown once, to hand out.
 import { useEffect, useState } from "react";
-import { Form, Link, data, useBlocker, useNavigation } from "react-router";
+import { Form, Link, data, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/teach.classes.$classId.roster";
 import { db } from "~/db/client.server";
@@ -28,7 +28,7 @@ import { checkNewPassword } from "~/lib/auth/password-rules.server";
 import { problemPlace, USERNAME_MAX, USERNAME_RULE } from "~/lib/teaching/shared";
 import { addStudentsLabel } from "~/lib/teaching/words";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
-import { LeavingQuestion } from "~/components/leaving-question";
+import { LeavingQuestion, useAskBeforeLeaving } from "~/components/leaving-question";
 import { SendButton } from "~/components/send-button";
 
 const gradeBand = z.enum(["6-8", "9-10"], { error: "Choose grades 6–8 or 9–10." });
@@ -359,12 +359,7 @@ function RosterCheck({ result, busy }: { result: Extract<ActionResult, { intent:
 function AddedStudents({ added, code, onDone }: { added: Added; code: string; onDone: () => void }) {
   // The first passwords are kept nowhere else: leaving the page (a tab, a link, a reload) asks first,
   // while the forms of this page, which add to the list, do not.
-  const leaving = useBlocker(({ currentLocation, nextLocation }) => currentLocation.pathname !== nextLocation.pathname);
-  useEffect(() => {
-    const ask = (event: BeforeUnloadEvent) => event.preventDefault();
-    window.addEventListener("beforeunload", ask);
-    return () => window.removeEventListener("beforeunload", ask);
-  }, []);
+  const leaving = useAskBeforeLeaving();
   return (
     <section className="card mb-8 border-2 border-ok" aria-labelledby="added">
       <LeavingQuestion

@@ -2,8 +2,8 @@
 // student reads on their lesson page. Sent with a fetcher, so the page stays where the teacher is.
 // A review begun and not saved is kept nowhere: while one is open, leaving the page asks first.
 import { useEffect, useId, useSyncExternalStore } from "react";
-import { useBlocker, useFetcher } from "react-router";
-import { LeavingQuestion } from "~/components/leaving-question";
+import { useFetcher } from "react-router";
+import { LeavingQuestion, useAskBeforeLeaving } from "~/components/leaving-question";
 import { REVIEW_COMMENT_MAX, RUBRIC, type RubricScores } from "~/lib/teaching/shared";
 import { SendButton } from "~/components/send-button";
 
@@ -102,12 +102,7 @@ const unsaved = (() => {
 
 function LeavingWithUnsavedReviews() {
   const count = useSyncExternalStore(unsaved.subscribe, unsaved.count, () => 0);
-  const leaving = useBlocker(({ currentLocation, nextLocation }) => currentLocation.pathname !== nextLocation.pathname);
-  useEffect(() => {
-    const ask = (event: BeforeUnloadEvent) => event.preventDefault();
-    window.addEventListener("beforeunload", ask);
-    return () => window.removeEventListener("beforeunload", ask);
-  }, []);
+  const leaving = useAskBeforeLeaving();
   return (
     <LeavingQuestion
       leaving={leaving}
