@@ -220,55 +220,65 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
         </div>
       )}
 
-      <section className="card mb-8" aria-labelledby="from-file">
-        <h2 id="from-file" className="mb-2 text-[length:var(--text-step-1)]">Add students from a CSV file</h2>
-        <p className="mb-1">
-          A header row, then one student a row, with the columns <strong>display name</strong>, <strong>username</strong> and, if your school uses
-          them, <strong>student number</strong>. Other columns are left out: Bendwise keeps nothing more about a child.
-        </p>
-        <pre className="mb-4 overflow-x-auto rounded bg-paper p-3 font-mono text-[length:var(--text-step--1)]">
-          {"display name,username,student number\nAmara O.,amara.o,70431\nBruno L.,bruno.l,70432"}
-        </pre>
-        <p className="mb-4 text-ink-soft">The file is checked first. Nothing is saved until you confirm a file without problems.</p>
-        <Form method="post" preventScrollReset encType="multipart/form-data" key={csv?.fileName ?? "upload"}>
-          <div className="grid gap-x-4 sm:grid-cols-2">
-            <div className="mb-4">
-              <label htmlFor="roster-file" className="mb-1 block font-bold">CSV file</label>
-              <input id="roster-file" name="file" type="file" accept=".csv,text/csv,text/plain" required className="field" />
+      {klass.archived ? (
+        <Notice tone="info">
+          <p data-testid="archived-roster">
+            This class is archived, so no student can be added to it. <Link to={`/teach/classes/${klass.id}/settings`}>Restore it in the class settings</Link> to add students again.
+          </p>
+        </Notice>
+      ) : (
+        <>
+        <section className="card mb-8" aria-labelledby="from-file">
+          <h2 id="from-file" className="mb-2 text-[length:var(--text-step-1)]">Add students from a CSV file</h2>
+          <p className="mb-1">
+            A header row, then one student a row, with the columns <strong>display name</strong>, <strong>username</strong> and, if your school uses
+            them, <strong>student number</strong>. Other columns are left out: Bendwise keeps nothing more about a child.
+          </p>
+          <pre className="mb-4 overflow-x-auto rounded bg-paper p-3 font-mono text-[length:var(--text-step--1)]">
+            {"display name,username,student number\nAmara O.,amara.o,70431\nBruno L.,bruno.l,70432"}
+          </pre>
+          <p className="mb-4 text-ink-soft">The file is checked first. Nothing is saved until you confirm a file without problems.</p>
+          <Form method="post" preventScrollReset encType="multipart/form-data" key={csv?.fileName ?? "upload"}>
+            <div className="grid gap-x-4 sm:grid-cols-2">
+              <div className="mb-4">
+                <label htmlFor="roster-file" className="mb-1 block font-bold">CSV file</label>
+                <input id="roster-file" name="file" type="file" accept=".csv,text/csv,text/plain" required className="field" />
+              </div>
+              <SelectField label="Grade band of these students" name="gradeBand" defaultValue={csv?.gradeBand ?? "6-8"} options={BANDS} />
             </div>
-            <SelectField label="Grade band of these students" name="gradeBand" defaultValue={csv?.gradeBand ?? "6-8"} options={BANDS} />
-          </div>
-          <SendButton className="btn" busy={busy}>Check the file</SendButton>
-        </Form>
-        {csv ? <RosterCheck result={csv} busy={busy} /> : null}
-      </section>
+            <SendButton className="btn" busy={busy}>Check the file</SendButton>
+          </Form>
+          {csv ? <RosterCheck result={csv} busy={busy} /> : null}
+        </section>
 
-      <div className="grid gap-6 md:grid-cols-2">
-        <section className="card" aria-labelledby="add-one">
-          <h2 id="add-one" className="mb-3 text-[length:var(--text-step-1)]">Add one student</h2>
-          {addOne?.seatNotice ? <NoFreeSeatNotice notice={addOne.seatNotice} /> : addOne?.errors.form ? <Notice tone="problem">{addOne.errors.form}</Notice> : null}
-          <Form method="post" preventScrollReset noValidate key={added ? added.map((a) => a.username).join() : "add-one"}>
-            <input type="hidden" name="intent" value="add-one" />
-            <TextField label="Display name" hint="First name and initial is enough; up to 60 characters." name="displayName" required autoComplete="off" defaultValue={addOne?.values.displayName} error={addOne?.errors.displayName} />
-            <TextField label="Username" hint={`${USERNAME_RULE}; unique at your school.`} name="username" required autoComplete="off" autoCapitalize="none" spellCheck={false} defaultValue={addOne?.values.username} error={addOne?.errors.username} />
-            <SelectField label="Grade band" name="gradeBand" defaultValue={addOne?.values.gradeBand ?? "6-8"} options={BANDS} />
-            <TextField label="Student number (optional)" hint="Up to 30 characters." name="studentNumber" autoComplete="off" defaultValue={addOne?.values.studentNumber} error={addOne?.errors.studentNumber} />
-            <TextField label="First password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" error={addOne?.errors.password} />
-            <SendButton className="btn" busy={busy}>Add the student</SendButton>
-          </Form>
-        </section>
-        <section className="card" aria-labelledby="add-existing">
-          <h2 id="add-existing" className="mb-3 text-[length:var(--text-step-1)]">Add a student who already has an account</h2>
-          <p className="mb-3 text-ink-soft">For a student at your school who is in another class already. They keep their password and their work.</p>
-          {existing?.done ? <Notice tone="done">{existing.done}</Notice> : null}
-          {existing?.seatNotice ? <NoFreeSeatNotice notice={existing.seatNotice} /> : null}
-          <Form method="post" preventScrollReset noValidate>
-            <input type="hidden" name="intent" value="add-existing" />
-            <TextField label="Their username" name="username" required autoComplete="off" autoCapitalize="none" spellCheck={false} error={existing?.seatNotice ? undefined : existing?.error} />
-            <SendButton className="btn btn-quiet" busy={busy}>Add to this class</SendButton>
-          </Form>
-        </section>
-      </div>
+        <div className="grid gap-6 md:grid-cols-2">
+          <section className="card" aria-labelledby="add-one">
+            <h2 id="add-one" className="mb-3 text-[length:var(--text-step-1)]">Add one student</h2>
+            {addOne?.seatNotice ? <NoFreeSeatNotice notice={addOne.seatNotice} /> : addOne?.errors.form ? <Notice tone="problem">{addOne.errors.form}</Notice> : null}
+            <Form method="post" preventScrollReset noValidate key={added ? added.map((a) => a.username).join() : "add-one"}>
+              <input type="hidden" name="intent" value="add-one" />
+              <TextField label="Display name" hint="First name and initial is enough; up to 60 characters." name="displayName" required autoComplete="off" defaultValue={addOne?.values.displayName} error={addOne?.errors.displayName} />
+              <TextField label="Username" hint={`${USERNAME_RULE}; unique at your school.`} name="username" required autoComplete="off" autoCapitalize="none" spellCheck={false} defaultValue={addOne?.values.username} error={addOne?.errors.username} />
+              <SelectField label="Grade band" name="gradeBand" defaultValue={addOne?.values.gradeBand ?? "6-8"} options={BANDS} />
+              <TextField label="Student number (optional)" hint="Up to 30 characters." name="studentNumber" autoComplete="off" defaultValue={addOne?.values.studentNumber} error={addOne?.errors.studentNumber} />
+              <TextField label="First password (optional)" hint="Leave it empty and Bendwise makes up one that is easy to type." name="password" type="text" autoComplete="off" error={addOne?.errors.password} />
+              <SendButton className="btn" busy={busy}>Add the student</SendButton>
+            </Form>
+          </section>
+          <section className="card" aria-labelledby="add-existing">
+            <h2 id="add-existing" className="mb-3 text-[length:var(--text-step-1)]">Add a student who already has an account</h2>
+            <p className="mb-3 text-ink-soft">For a student at your school who is in another class already. They keep their password and their work.</p>
+            {existing?.done ? <Notice tone="done">{existing.done}</Notice> : null}
+            {existing?.seatNotice ? <NoFreeSeatNotice notice={existing.seatNotice} /> : null}
+            <Form method="post" preventScrollReset noValidate>
+              <input type="hidden" name="intent" value="add-existing" />
+              <TextField label="Their username" name="username" required autoComplete="off" autoCapitalize="none" spellCheck={false} error={existing?.seatNotice ? undefined : existing?.error} />
+              <SendButton className="btn btn-quiet" busy={busy}>Add to this class</SendButton>
+            </Form>
+          </section>
+        </div>
+        </>
+      )}
     </div>
   );
 }

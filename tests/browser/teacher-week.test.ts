@@ -118,6 +118,26 @@ describe("a teacher's week", () => {
     await context.close();
   }, 60_000);
 
+  it("says on an archived class's roster that it takes no students, instead of forms that would be refused", async () => {
+    const { page, context, consoleErrors } = await openPage(browser, { viewport: { width: 375, height: 740 } });
+    await signInTeacher(page);
+    const open = await classNamed("Grade 7 Physical Science B");
+    const [archived] = await db
+      .insert(classes)
+      .values({ organisationId: open.organisationId, teacherId: open.teacherId, name: `Put away ${Date.now() % 100000}`, schoolYear: open.schoolYear, signInCode: `PUT${Date.now() % 100000}`, archivedAt: new Date() })
+      .returning();
+    await page.goto(`/teach/classes/${archived.id}/roster`);
+    await page.getByTestId("archived-roster").getByText("This class is archived, so no student can be added to it.").waitFor();
+    expect(await page.getByRole("button", { name: "Add the student" }).count()).toBe(0);
+    expect(await page.getByRole("button", { name: "Check the file" }).count()).toBe(0);
+    await page.getByRole("link", { name: "Restore it in the class settings" }).click();
+    await page.waitForURL(/\/settings$/);
+    await page.goto(`/teach/classes/${open.id}/roster`);
+    await page.getByRole("button", { name: "Add the student" }).waitFor();
+    expect(consoleErrors).toEqual([]);
+    await context.close();
+  }, 60_000);
+
   it("says on a phone that the gradebook and the item analysis slide sideways, and not on a wide screen", async () => {
     const klass = await classNamed("Grade 7 Physical Science A");
     for (const [width, slides] of [
