@@ -261,6 +261,12 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
         {student.studentNumber ? ` · student number ${student.studentNumber}` : ""}
         {row ? ` · ${row.lessonsComplete} of ${lessonCount} assigned lessons done · average ${row.averageScore === null ? "—" : `${row.averageScore}%`}` : ""}
       </p>
+      {/* What can be done for the student sits below all their work: on a phone, many screens down. */}
+      <nav aria-label={`For ${student.displayName}`} className="mb-6 flex flex-wrap gap-x-4 gap-y-1 text-[length:var(--text-step--1)]">
+        <a href="#more">More tries or more time</a>
+        <a href="#password">New password</a>
+        <a href="#move">Another class</a>
+      </nav>
 
       {lessons.length === 0 ? <p className="mb-8">No lessons are assigned yet, and {student.displayName} has not worked on any.</p> : null}
       {lessons.map((lesson) => (

@@ -68,6 +68,9 @@ describe("a teacher's week", () => {
     const klass = await classNamed("Grade 7 Physical Science B");
     const [leo] = await db.select().from(users).where(and(eq(users.homeOrganisationId, klass.organisationId), eq(users.username, "leo.f")));
     await page.goto(`/teach/classes/${klass.id}/students/${leo.id}`);
+    // Below all of the student's work, and reached from the top of the page.
+    await page.getByRole("navigation", { name: "For Leo F." }).getByRole("link", { name: "More tries or more time" }).click();
+    await page.waitForURL(/#more$/);
     const more = page.locator("section", { has: page.getByRole("heading", { name: "More tries or more time" }) });
     await expect(more.getByTestId("accommodation-now").innerText()).resolves.toBe("Now: the class's usual tries and due dates.");
 
