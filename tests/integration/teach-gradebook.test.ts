@@ -356,6 +356,8 @@ describe("exports", () => {
     expect(result.headers.get("content-disposition")).toMatch(/^attachment; filename="tries-grade-7-physical-science-b-lesson-2-deformation-from-readings\.csv"$/);
     const rows = Papa.parse<string[]>(result.body as string, { skipEmptyLines: true }).data;
     expect(rows[0].slice(0, 4)).toEqual(["Student", "Username", "Student number", "Try"]);
+    // Times as spreadsheets read a date and time, in the class's zone, beside the exact UTC instant.
+    for (const row of rows.slice(1)) expect(row[4]).toMatch(/^\d{4}-\d{2}-\d{2} \d{2}:\d{2}:\d{2}$/);
     // The same words as the exercise's page: tries counted as it counts them, a slip named in words.
     const maya = rows.filter((r) => r[1] === "maya.d");
     expect(maya.map((r) => [r[3], r[9], r[10], r[11]])).toEqual([

@@ -6,7 +6,7 @@ import { choiceLabelReader } from "~/lib/course.server";
 import type { ClassAttempt } from "./analysis.server";
 import type { Gradebook } from "./gradebook.server";
 import { countedScore, lessonAverage } from "./shared";
-import { formatMoment } from "./time";
+import { spreadsheetMoment } from "./time";
 import { NO_TRY_OUTCOMES } from "~/lib/answer-checker";
 import { outcomeWords, readableAnswer, wrongAnswerGroup } from "./words";
 
@@ -72,8 +72,8 @@ export function gradebookCsv(book: Gradebook): string {
 }
 
 /**
- * Every attempt at one exercise of lesson `slug` by the class's students, in the class's time zone,
- * in the words of the exercise's page: "Try 2" or "Not counted" (an answer that could not be read uses
+ * Every attempt at one exercise of lesson `slug` by the class's students, its time in the class's time
+ * zone as spreadsheets read dates ("2026-12-11 16:05:09"), in the words of the exercise's page: "Try 2" or "Not counted" (an answer that could not be read uses
  * no try), and what was wrong as the page says it (the slip's words when one was recognised).
  */
 export function attemptsCsv(slug: string, attempts: ClassAttempt[], timeZone: string): string {
@@ -91,7 +91,7 @@ export function attemptsCsv(slug: string, attempts: ClassAttempt[], timeZone: st
       a.username ?? "",
       a.studentNumber ?? "",
       label,
-      formatMoment(a.createdAt, timeZone),
+      spreadsheetMoment(a.createdAt, timeZone),
       a.createdAt.toISOString(),
       readableAnswer(a.rawAnswer, labelsOf(a.studentId, slug, a.exerciseId)),
       a.parsedValue,

@@ -70,6 +70,15 @@ export function dateToZonedInput(date: Date | string, timeZone: string): string 
   return shifted.toISOString().slice(0, 16);
 }
 
+/**
+ * "2026-12-11 16:05:09": the instant's wall-clock time in the zone, as a CSV cell that spreadsheet
+ * programs read as a date and time (so a column of them sorts by time), and a person reads too.
+ */
+export function spreadsheetMoment(date: Date | string, timeZone: string): string {
+  const instant = new Date(date);
+  return new Date(instant.getTime() + offsetMs(instant, timeZone)).toISOString().slice(0, 19).replace("T", " ");
+}
+
 /** "Fri 11 Dec, 5:00 pm" in the zone (with the year when it is not the current one). */
 export function formatDue(date: Date | string, timeZone: string, now: Date = new Date()): string {
   const instant = new Date(date);
