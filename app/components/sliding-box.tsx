@@ -4,14 +4,26 @@
 import { useId } from "react";
 import { SLIDES_SIDEWAYS, useOverflows } from "./use-overflows";
 
-export function SlidingBox({ label, className = "", testId, children }: { label: string; className?: string; testId?: string; children: React.ReactNode }) {
+export function SlidingBox({
+  label,
+  className = "",
+  testId,
+  hintTestId,
+  children,
+}: {
+  label: string;
+  className?: string;
+  testId?: string;
+  hintTestId?: string;
+  children: React.ReactNode;
+}) {
   const { ref, overflows } = useOverflows<HTMLDivElement>();
   const hintId = useId();
   const keys = overflows ? { tabIndex: 0, role: "region", "aria-label": label, "aria-describedby": hintId } : {};
   return (
     <>
       {overflows ? (
-        <p id={hintId} className="mb-2 text-[length:var(--text-step--1)] text-ink-soft">
+        <p id={hintId} className="mb-2 text-[length:var(--text-step--1)] text-ink-soft" data-testid={hintTestId}>
           {SLIDES_SIDEWAYS}
         </p>
       ) : null}

@@ -30,6 +30,7 @@ import { addStudentsLabel } from "~/lib/teaching/words";
 import { ClassHeader, Notice, SelectField, TextField } from "~/components/teaching/ui";
 import { LeavingQuestion, useAskBeforeLeaving } from "~/components/leaving-question";
 import { SendButton } from "~/components/send-button";
+import { SlidingBox } from "~/components/sliding-box";
 
 const gradeBand = z.enum(["6-8", "9-10"], { error: "Choose grades 6–8 or 9–10." });
 
@@ -234,9 +235,11 @@ export default function Roster({ loaderData, actionData }: Route.ComponentProps)
             A header row, then one student a row, with the columns <strong>display name</strong>, <strong>username</strong> and, if your school uses
             them, <strong>student number</strong>. Other columns are left out: Bendwise keeps nothing more about a child.
           </p>
-          <pre className="mb-4 overflow-x-auto rounded bg-paper p-3 font-mono text-[length:var(--text-step--1)]">
-            {"display name,username,student number\nAmara O.,amara.o,70431\nBruno L.,bruno.l,70432"}
-          </pre>
+          <SlidingBox label="An example file" className="mb-4 rounded bg-paper">
+            <pre className="p-3 font-mono text-[length:var(--text-step--1)]">
+              {"display name,username,student number\nAmara O.,amara.o,70431\nBruno L.,bruno.l,70432"}
+            </pre>
+          </SlidingBox>
           <p className="mb-4 text-ink-soft">The file is checked first. Nothing is saved until you confirm a file without problems.</p>
           <Form method="post" preventScrollReset encType="multipart/form-data" key={csv?.fileName ?? "upload"}>
             <div className="grid gap-x-4 sm:grid-cols-2">

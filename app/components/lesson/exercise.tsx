@@ -5,7 +5,7 @@ import { useFetcher } from "react-router";
 import type { ExerciseState, Feedback } from "~/lib/course.server";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
-import { SLIDES_SIDEWAYS, useOverflows } from "~/components/use-overflows";
+import { SlidingBox } from "~/components/sliding-box";
 
 export interface AnswerResponse {
   exerciseId?: string;
@@ -195,18 +195,11 @@ function TableFields({
   wrongCells: number[];
   feedbackId: string;
 }) {
-  const { ref, overflows } = useOverflows<HTMLDivElement>();
-  const hintId = useId();
   const { columns, rows } = table;
   let cell = 0;
   return (
     <>
-      {overflows && (
-        <p id={hintId} className="mb-2 text-[length:var(--text-step--1)] text-ink-soft" data-testid="table-scroll-hint">
-          {SLIDES_SIDEWAYS}
-        </p>
-      )}
-      <div ref={ref} className="overflow-x-auto" data-testid="table-box">
+      <SlidingBox label="The table to fill in" testId="table-box" hintTestId="table-scroll-hint">
         <table className="border-collapse">
           <thead>
             <tr>
@@ -236,7 +229,7 @@ function TableFields({
                         name="cell"
                         aria-label={typeof row[0] === "string" && c > 0 ? `${columns[c]}, ${row[0]}` : `${columns[c]}, row ${r + 1}`}
                         aria-invalid={wrong || undefined}
-                        aria-describedby={[wrong ? feedbackId : null, overflows ? hintId : null].filter(Boolean).join(" ") || undefined}
+                        aria-describedby={wrong ? feedbackId : undefined}
                         className={`field w-24 sm:w-32 ${wrong ? "border-dashed border-danger bg-ember-wash" : ""}`}
                         autoComplete="off"
                         maxLength={60}
@@ -251,7 +244,7 @@ function TableFields({
             ))}
           </tbody>
         </table>
-      </div>
+      </SlidingBox>
     </>
   );
 }

@@ -9,7 +9,7 @@ import { pointPlace, ReadingCautions } from "~/components/analysis-report";
 import { ForceChartFromAnalysis } from "./force-chart";
 import { useLesson } from "./lesson-context";
 import { SendButton } from "~/components/send-button";
-import { SLIDES_SIDEWAYS, useOverflows } from "~/components/use-overflows";
+import { SlidingBox } from "~/components/sliding-box";
 import { keepInTab, readInTab } from "~/lib/tab-storage";
 
 /** A cell a problem is about: a red border and wash, besides aria-invalid (colour is not the only sign: the list names the row). */
@@ -138,8 +138,6 @@ export function ReadingsEntry({
     if (edited) keepInTab(tabKey, { from: savedFingerprint(saved), material, unloaded, rows } satisfies TabCopy);
     else if (savedNow) keepInTab(tabKey, null);
   }, [edited, material, unloaded, rows, savedNow, tabKey, saved, canAnswer]);
-  // On a narrow screen the table may be wider than its box: then a line says it slides sideways.
-  const { ref: scroller, overflows: slides } = useOverflows<HTMLDivElement>();
   const update = (i: number, patch: Partial<Row>) => {
     setEdited(true);
     setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
@@ -184,13 +182,9 @@ export function ReadingsEntry({
               }} disabled={!canAnswer} required />
           </label>
         </div>
-        {slides && (
-          <p className="mb-1 text-ink-soft" data-testid="readings-slide-hint">
-            {SLIDES_SIDEWAYS}
-          </p>
-        )}
-        <div ref={scroller} className="overflow-x-auto">
-          <table className="border-collapse">
+        {/* On a narrow screen the table may be wider than its box: then it says it slides sideways. */}
+        <SlidingBox label={`The table of ${title.charAt(0).toLowerCase()}${title.slice(1)}`} hintTestId="readings-slide-hint">
+          <table className="border-collapse" aria-labelledby={`readings-${id}-title`}>
             <thead>
               <tr>
                 <th scope="col" className="px-1 text-right">Row</th>
@@ -221,7 +215,7 @@ export function ReadingsEntry({
               ))}
             </tbody>
           </table>
-        </div>
+        </SlidingBox>
         {canAnswer && (
           <div className="mt-3 flex flex-wrap gap-3">
             <button type="button" className="btn btn-quiet" onClick={() => {
