@@ -105,7 +105,7 @@ export default function NewChild({ loaderData, actionData }: Route.ComponentProp
         </Notice>
       ) : noSeat ? (
         <Notice tone="info">
-          {ledger.bought === 0 ? `Your family has no seats for ${schoolYear} yet.` : `All ${ledger.bought} of your seats for ${schoolYear} are in use.`} Each
+          {ledger.bought === 0 ? `Your family has no seats for ${schoolYear} yet.` : ledger.bought === 1 ? `Your 1 seat for ${schoolYear} is in use.` : `All ${ledger.bought} of your seats for ${schoolYear} are in use.`} Each
           child needs a seat: <Link to="/family/seats">buy one first</Link>. This browser tab keeps the name, username and grade band you type here
           (not the password) until you come back.
         </Notice>

@@ -207,7 +207,7 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
       <h1 className="mb-2 text-[length:var(--text-step-3)]">Sign in to Bendwise</h1>
       <p className="mb-8 text-ink-soft">
         Students use their class or family code: no e-mail address needed. Grown-ups use their e-mail address, under{" "}
-        <a href="#adult-door">“Adults”</a>.
+        <a href="#adult-door">Adults</a>.
       </p>
 
       {loaderData.signedInAs ? (

@@ -94,7 +94,7 @@ describe("around sign-in", () => {
     await page.goto("/sign-in");
     expect(await top("Students")).toBeLessThan(await top("Adults"));
     // The intro's link jumps to the adults' door below.
-    await page.getByRole("link", { name: "“Adults”" }).click();
+    await page.getByRole("link", { name: "Adults", exact: true }).click();
     await page.waitForURL(/#adult-door$/);
 
     await signInAsAdult(page, "no.such.adult@maplebrook.example", "not the password");

@@ -68,7 +68,7 @@ describe("making a child's account", () => {
 
     const second = await runRoute(newChildRoute.action as never, post("/family/children/new", child({ displayName: "Ash", username: "ash" }), { cookie: parentCookie }));
     expect(second.status).toBe(409);
-    expect((second.body as { seatProblem: string }).seatProblem).toBe(`All 1 of your family's seats for ${YEAR} are in use, so no more child accounts can be made. Buy another seat first.`);
+    expect((second.body as { seatProblem: string }).seatProblem).toBe(`Your family's 1 seat for ${YEAR} is in use, so no more child accounts can be made. Buy another seat first.`);
 
     await givePaidSeats(db, household.id, YEAR, 1);
     const taken = await runRoute(newChildRoute.action as never, post("/family/children/new", child({ displayName: "Wren again" }), { cookie: parentCookie }));

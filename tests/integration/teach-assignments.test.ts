@@ -139,7 +139,7 @@ describe("assigning a lesson", () => {
     const past = { opensAt: local(new Date(now - 10 * DAY)), dueAt: local(new Date(now - 2 * DAY)) };
     const closed = await assign({ ...past, latePolicy: "closed" });
     expect(closed.status).toBe(200);
-    expect((closed.body as { caution?: string }).caution).toMatch(/already passed, so the lesson is closed: students can read it but their answers are not taken/);
+    expect((closed.body as { caution?: string }).caution).toMatch(/already passed, so the lesson is closed: it can be read, but no answers are taken/);
     const [row] = await db.select().from(assignments).where(eq(assignments.classId, ids.mapleA.id));
     expect(row).toMatchObject({ latePolicy: "closed" });
     expect(row.dueAt.getTime()).toBeLessThan(now);

@@ -45,7 +45,7 @@ export async function addChild({ db }: { db: Database }, householdId: string, in
       const message =
         made.ledger.bought === 0
           ? `Your family has no seats for ${made.ledger.schoolYear} yet, so no child account can be made. Buy a seat for each child first.`
-          : `All ${made.ledger.bought} of your family's seats for ${made.ledger.schoolYear} are in use, so no more child accounts can be made. Buy another seat first.`;
+          : `${made.ledger.bought === 1 ? "Your family's 1 seat" : `All ${made.ledger.bought} of your family's seats`} for ${made.ledger.schoolYear} ${made.ledger.bought === 1 ? "is" : "are"} in use, so no more child accounts can be made. Buy another seat first.`;
       return { ok: false, field: "seat", message, schoolYear: made.ledger.schoolYear };
     }
     if (made.reason === "username-taken") return { ok: false, field: "username", message: `The username “${input.username}” is already used in your family. Choose another.` };

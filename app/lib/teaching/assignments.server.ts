@@ -52,7 +52,7 @@ export function assignedMessage(input: Pick<AssignInput, "dueAt" | "latePolicy" 
   const consequence = {
     accept: "work done after it is late (late work counts in full)",
     penalty: `work done after it is late and loses ${input.latePenaltyPercent}% of its credit for each day late`,
-    closed: "the lesson is closed: students can read it but their answers are not taken",
+    closed: "the lesson is closed: it can be read, but no answers are taken",
   }[input.latePolicy];
   return { done, caution: `That due date has already passed, so ${consequence}. If that is not what you meant, choose a later due date.` };
 }
