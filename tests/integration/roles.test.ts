@@ -91,8 +91,8 @@ describe("a teacher of the first school", () => {
 
   it("sees only their own classes on /teach", async () => {
     const result = await runRoute(teach.loader as never, get("/teach", { cookie: cookies.teacher }));
-    const rows = (result.body as { classes: { signInCode: string; students: number }[] }).classes;
-    expect(rows.map((c) => c.signInCode)).toEqual(["MAPLE7A", "MAPLE7B"]);
+    const rows = (result.body as { classes: { code: string; students: number }[] }).classes;
+    expect(rows.map((c) => c.code)).toEqual(["MAPLE7A", "MAPLE7B"]);
     expect(rows.map((c) => c.students)).toEqual([10, 10]);
   });
 });
@@ -100,9 +100,9 @@ describe("a teacher of the first school", () => {
 describe("the second school's people", () => {
   it("see nothing of the first school", async () => {
     const nakamura = await runRoute(teach.loader as never, get("/teach", { cookie: cookies.otherSchoolTeacher }));
-    expect((nakamura.body as { classes: { signInCode: string }[] }).classes.map((c) => c.signInCode)).toEqual(["HARBOR8"]);
+    expect((nakamura.body as { classes: { code: string }[] }).classes.map((c) => c.code)).toEqual(["HARBOR8"]);
     const calder = await runRoute(school.loader as never, get("/school", { cookie: cookies.otherSchoolAdmin }));
-    const schools = (calder.body as { schools: { name: string; seats: { seats: number }[] }[] }).schools;
+    const schools = (calder.body as { schools: { name: string }[] }).schools;
     expect(schools.map((s) => s.name)).toEqual(["Harborside Academy (invented demo)"]);
   });
 });
@@ -134,8 +134,9 @@ describe("homes", () => {
 
   it("the school home counts seats and students from the database", async () => {
     const result = await runRoute(school.loader as never, get("/school", { cookie: cookies.schoolAdmin }));
-    const [maple] = (result.body as { schools: { seats: { schoolYear: string; seats: number }[]; students: number; teachers: unknown[] }[] }).schools;
-    expect(maple.seats).toEqual([{ schoolYear: "2026-27", seats: 40 }]);
+    const [maple] = (result.body as { schools: { seats: { schoolYear: string; bought: number; inUse: number; free: number }[]; students: number; teachers: unknown[] }[] }).schools;
+    // 40 bought for the demo year; each of the 30 students holds one.
+    expect(maple.seats).toEqual([{ schoolYear: "2026-27", bought: 40, inUse: 30, free: 10 }]);
     expect(maple.students).toBe(30);
     expect(maple.teachers).toHaveLength(2);
   });
