@@ -45,15 +45,16 @@ export function useFocusFirstProblem<T extends HTMLElement = HTMLFormElement>(an
   return ref;
 }
 
-/** A message box: "problem" for refusals, "done" for confirmations. */
-export function Notice({ tone, children }: { tone: "problem" | "done" | "info"; children: React.ReactNode }) {
-  const styles = {
-    problem: "border-danger bg-[#fdecee] text-ink",
-    done: "border-ok bg-[#e7f3ea] text-ink",
-    info: "border-spruce bg-spruce-wash text-ink",
-  }[tone];
+/** The box of a message in its tone: its border and wash (the payment page's live region takes the same look). */
+export function noticeBox(tone: "problem" | "done" | "info"): string {
+  const wash = { problem: "border-danger bg-[#fdecee]", done: "border-ok bg-[#e7f3ea]", info: "border-spruce bg-spruce-wash" }[tone];
+  return `rounded-lg border-l-4 px-4 py-3 text-ink ${wash}`;
+}
+
+/** A message box: "problem" for refusals, "done" for confirmations, "info" for the rest. */
+export function Notice({ tone, children, id }: { tone: "problem" | "done" | "info"; children: React.ReactNode; id?: string }) {
   return (
-    <div role={tone === "problem" ? "alert" : "status"} className={`mb-4 rounded-lg border-l-4 px-4 py-3 ${styles}`}>
+    <div id={id} role={tone === "problem" ? "alert" : "status"} className={`mb-4 ${noticeBox(tone)}`}>
       {children}
     </div>
   );

@@ -1,6 +1,7 @@
 // Pieces shared by the seat pages of schools and families: the seat ledger, the purchase list and
 // the notice shown when no seat is free (the class roster of a later issue shows it too).
 import { Link } from "react-router";
+import { plural } from "~/lib/plural";
 
 export interface LedgerRowView {
   schoolYear: string;
@@ -56,8 +57,6 @@ export interface PurchaseView {
   unfinishedUrl: string | null;
 }
 
-const seatsWord = (n: number) => `${n} ${n === 1 ? "seat" : "seats"}`;
-
 /** Every purchase with its receipt, invoice or unfinished payment; each link names its purchase for a screen reader's list of links. */
 export function PurchaseList({ purchases }: { purchases: PurchaseView[] }) {
   if (purchases.length === 0) return <p className="text-ink-soft">No purchases yet.</p>;
@@ -68,7 +67,7 @@ export function PurchaseList({ purchases }: { purchases: PurchaseView[] }) {
           {/* min-w-0 and wrap-anywhere: a long purchase-order number breaks instead of widening the card. */}
           <div className="min-w-0 wrap-anywhere">
             <p className="font-bold">
-              {seatsWord(p.seats)} for {p.schoolYear} · {p.amount}
+              {plural(p.seats, "seat")} for {p.schoolYear} · {p.amount}
             </p>
             <p className="text-[length:var(--text-step--1)] text-ink-soft">
               Ordered {p.orderedOn} · {p.howPaid}
@@ -81,17 +80,17 @@ export function PurchaseList({ purchases }: { purchases: PurchaseView[] }) {
           <div className="flex flex-wrap gap-2">
             {p.receiptUrl ? (
               <Link className="btn btn-quiet" to={p.receiptUrl}>
-                Receipt<span className="sr-only"> for {seatsWord(p.seats)}, {p.schoolYear}</span>
+                Receipt<span className="sr-only"> for {plural(p.seats, "seat")}, {p.schoolYear}</span>
               </Link>
             ) : null}
             {p.invoiceUrl ? (
               <a className="btn btn-quiet" href={p.invoiceUrl}>
-                Read the invoice<span className="sr-only"> for {seatsWord(p.seats)}, {p.schoolYear}</span>
+                Read the invoice<span className="sr-only"> for {plural(p.seats, "seat")}, {p.schoolYear}</span>
               </a>
             ) : null}
             {p.unfinishedUrl ? (
               <Link className="btn btn-quiet" to={p.unfinishedUrl}>
-                Finish or drop<span className="sr-only"> the order of {seatsWord(p.seats)} for {p.schoolYear}, ordered {p.orderedOn}</span>
+                Finish or drop<span className="sr-only"> the order of {plural(p.seats, "seat")} for {p.schoolYear}, ordered {p.orderedOn}</span>
               </Link>
             ) : null}
           </div>

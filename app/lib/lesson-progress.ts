@@ -2,6 +2,7 @@
 // (the questions on them are), so a student who has just saved both tables would read "0 of 8 parts
 // done" and think the readings were lost: the line says the readings are saved, or which questions
 // still wait for them.
+import { plural } from "./plural";
 
 export interface ProgressState {
   requiredDone: number;
@@ -13,7 +14,6 @@ export interface ProgressState {
   assignment?: { closed: boolean } | null;
 }
 
-const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
 
 export function lessonProgressWords(state: ProgressState): string {
   const parts = `${state.requiredDone} of ${state.requiredTotal} parts done`;

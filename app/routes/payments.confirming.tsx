@@ -9,6 +9,7 @@ import type { Route } from "./+types/payments.confirming";
 import { db } from "~/db/client.server";
 import { organisations } from "~/db/schema.server";
 import { requireUser } from "~/lib/auth.server";
+import { noticeBox } from "~/components/auth-forms";
 import { formatPrice } from "~/lib/pricing";
 import { buyerOrganisationIds, purchaseIn, seatsPagePath } from "~/lib/purchases.server";
 import { seatLedgerForYear } from "~/lib/seats.server";
@@ -58,11 +59,7 @@ export default function PaymentConfirming({ loaderData }: Route.ComponentProps) 
   const seatsWord = purchase.seats === 1 ? "seat" : "seats";
   const family = backTo === "/family/seats";
   const heading = status === "paid" ? "Payment confirmed" : status === "void" ? "This payment did not go through" : "Thank you, the payment is being confirmed";
-  const box = {
-    paid: "rounded-lg border-l-4 border-ok bg-[#e7f3ea] px-4 py-3",
-    void: "rounded-lg border-l-4 border-danger bg-[#fdecee] px-4 py-3",
-    pending: "card",
-  }[status];
+  const box = { paid: noticeBox("done"), void: noticeBox("problem"), pending: "card" }[status];
   return (
     <div className="mx-auto max-w-2xl px-5 py-12">
       <h1 className="mb-4 text-[length:var(--text-step-3)]">{heading}</h1>

@@ -20,6 +20,7 @@ import { findClassStudent, moveStudent, moveTargets, removeFromClass, setStudent
 import { loadStudentWork } from "~/lib/teaching/student-work.server";
 import { DAY_MS, formatDue, formatMoment } from "~/lib/teaching/time";
 import { triesAsRead } from "~/lib/teaching/words";
+import { plural } from "~/lib/plural";
 import { ReadingsAnalysis } from "~/components/lesson/readings-entry";
 import { ClaimEvidenceReasoning } from "~/components/teaching/claim-evidence-reasoning";
 import { ReviewForm } from "~/components/teaching/review-form";
@@ -374,7 +375,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
             <ul className="mb-3 list-disc pl-5">
               {accommodations.map((a) => (
                 <li key={a.scope}>
-                  {a.label}: {countOf(a.extraAttempts, "more try", "more tries")}, {countOf(a.extraDays, "more day", "more days")}
+                  {a.label}: {plural(a.extraAttempts, "more try", "more tries")}, {plural(a.extraDays, "more day", "more days")}
                 </li>
               ))}
             </ul>
@@ -384,7 +385,7 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
             <SelectField label="For" name="scope" options={scopes} value={scope} onChange={(e) => setScope(e.currentTarget.value)} />
             <p className="mb-3 text-[length:var(--text-step--1)]" data-testid="accommodation-now">
               {current
-                ? `Now: ${countOf(current.extraAttempts, "more try", "more tries")} per exercise and ${countOf(current.extraDays, "more day", "more days")}${own ? "" : ", from the setting for every lesson"}.`
+                ? `Now: ${plural(current.extraAttempts, "more try", "more tries")} per exercise and ${plural(current.extraDays, "more day", "more days")}${own ? "" : ", from the setting for every lesson"}.`
                 : "Now: the class's usual tries and due dates."}
             </p>
             <div className="grid grid-cols-2 gap-3" key={`${scope}|${current?.extraAttempts ?? 0}|${current?.extraDays ?? 0}`}>
@@ -455,9 +456,5 @@ export default function StudentPage({ loaderData, actionData }: Route.ComponentP
   );
 }
 
-/** "1 more try", "3 more tries". */
-function countOf(n: number, one: string, many: string): string {
-  return `${n} ${n === 1 ? one : many}`;
-}
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.student.displayName ?? "Student"} · ${data?.klass.name ?? "Class"} — Bendwise` }];

@@ -85,19 +85,8 @@ export function SelectField({
   );
 }
 
-/** A message box: "problem" for refusals, "done" for confirmations, "info" for the rest. */
-export function Notice({ tone, children, id }: { tone: "problem" | "done" | "info"; children: React.ReactNode; id?: string }) {
-  const styles = {
-    problem: "border-danger bg-[#fdecee]",
-    done: "border-ok bg-[#e7f3ea]",
-    info: "border-spruce bg-spruce-wash",
-  }[tone];
-  return (
-    <div id={id} role={tone === "problem" ? "alert" : "status"} className={`mb-4 rounded-lg border-l-4 px-4 py-3 text-ink ${styles}`}>
-      {children}
-    </div>
-  );
-}
+/** The message box every page uses (auth-forms.tsx). */
+export { Notice } from "~/components/auth-forms";
 
 export interface ClassHeading {
   id: string;

@@ -8,6 +8,7 @@
 // once, queue nothing twice. A failure to queue gives the claim back.
 import { and, asc, eq, gte, inArray, isNotNull, isNull, sql } from "drizzle-orm";
 import type { Database } from "~/db/client.server";
+import { plural } from "~/lib/plural";
 import { classes, exerciseAttempts, mailPreferences, memberships, organisations, users, writtenAnswers } from "~/db/schema.server";
 import { serverEnv } from "~/env.server";
 import { courseProgress, NO_TRY_OUTCOMES_SQL } from "~/lib/course.server";
@@ -39,8 +40,6 @@ export interface WeeklySummary {
   userId: string;
   mail: OutgoingMail;
 }
-
-const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
 /** Every summary due now, composed but not queued. A fixed number of queries plus a few per child. */
 export async function composeWeeklySummaries({ db }: { db: Database }, now: Date = new Date()): Promise<WeeklySummary[]> {

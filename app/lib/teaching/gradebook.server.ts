@@ -28,7 +28,7 @@ import { attemptsAllowed, NO_TRY_OUTCOMES_SQL } from "~/lib/course.server";
 import { lessonExercises, listLessons } from "~/lib/lessons.server";
 import { effectiveAccommodation } from "./policy.server";
 import { DAY_MS, daysLate, formatClockTime, formatDue } from "./time";
-import { STUCK_AFTER_WRONG, countedScore, meanOf, type ClassSummary, type Gradebook, type GradebookCell, type GradebookLesson, type GradebookRow } from "./shared";
+import { STUCK_AFTER_WRONG, byStudentName, countedScore, meanOf, type ClassSummary, type Gradebook, type GradebookCell, type GradebookLesson, type GradebookRow } from "./shared";
 
 export type { ClassSummary, Gradebook, GradebookCell, GradebookLesson, GradebookRow } from "./shared";
 
@@ -155,7 +155,7 @@ export async function loadGradebooks({ db }: Db, classIds: string[], now: Date =
 
     const students = studentRows
       .filter((s) => s.classId === classId)
-      .sort((a, b) => a.displayName.localeCompare(b.displayName) || (a.username ?? "").localeCompare(b.username ?? ""));
+      .sort(byStudentName);
     const rows: GradebookRow[] = students.map(({ classId: _c, ...student }) => {
       const cells: Record<string, GradebookCell> = {};
       for (const lesson of lessons) {

@@ -15,7 +15,7 @@ import { checkNewPassword } from "~/lib/auth/password-rules.server";
 import { hashPassword } from "~/lib/passwords.server";
 import { enrollStudentUsingSeat, releaseSeat, seatLedgerForYear, type SeatRefusal } from "~/lib/seats.server";
 import type { TeacherClass } from "./classes.server";
-import { USERNAME_CHARACTERS, USERNAME_ENDS, USERNAME_MAX, USERNAME_MIN, USERNAME_PATTERN, USERNAME_RULE, withoutControlCharacters, type RosterProblem } from "./shared";
+import { USERNAME_CHARACTERS, USERNAME_ENDS, USERNAME_MAX, USERNAME_MIN, USERNAME_PATTERN, USERNAME_RULE, byStudentName, withoutControlCharacters, type RosterProblem } from "./shared";
 
 export { problemPlace, type RosterProblem } from "./shared";
 
@@ -366,7 +366,7 @@ export async function classRoster({ db }: Db, classId: string): Promise<RosterSt
     .from(enrollments)
     .innerJoin(users, eq(users.id, enrollments.studentId))
     .where(eq(enrollments.classId, classId));
-  return students.sort((a, b) => a.displayName.localeCompare(b.displayName) || (a.username ?? "").localeCompare(b.username ?? ""));
+  return students.sort(byStudentName);
 }
 
 /** The student, if they are in this class. */

@@ -230,3 +230,7 @@ export function problemPlace(problem: RosterProblem): string {
   return problem.column ? `Row ${problem.row}, column “${problem.column}”` : `Row ${problem.row}`;
 }
 
+
+/** Students in the order teachers read a list of names: by name as people read it (Émile among the E's, not after Z), then username. */
+export const byStudentName = (a: { displayName: string; username: string | null }, b: { displayName: string; username: string | null }) =>
+  a.displayName.localeCompare(b.displayName) || (a.username ?? "").localeCompare(b.username ?? "");

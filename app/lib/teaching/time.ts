@@ -63,11 +63,15 @@ export function zonedInputToDate(local: string, timeZone: string): Date | null {
   return new Date(guess);
 }
 
+/** The instant's wall-clock time in the zone, written as ISO without a zone: "2026-12-11T16:05:09". */
+function zonedWallClock(date: Date | string, timeZone: string): string {
+  const instant = new Date(date);
+  return new Date(instant.getTime() + offsetMs(instant, timeZone)).toISOString().slice(0, 19);
+}
+
 /** The instant as a value for <input type="datetime-local"> in the zone. */
 export function dateToZonedInput(date: Date | string, timeZone: string): string {
-  const instant = new Date(date);
-  const shifted = new Date(instant.getTime() + offsetMs(instant, timeZone));
-  return shifted.toISOString().slice(0, 16);
+  return zonedWallClock(date, timeZone).slice(0, 16);
 }
 
 /**
@@ -75,8 +79,7 @@ export function dateToZonedInput(date: Date | string, timeZone: string): string 
  * programs read as a date and time (so a column of them sorts by time), and a person reads too.
  */
 export function spreadsheetMoment(date: Date | string, timeZone: string): string {
-  const instant = new Date(date);
-  return new Date(instant.getTime() + offsetMs(instant, timeZone)).toISOString().slice(0, 19).replace("T", " ");
+  return zonedWallClock(date, timeZone).replace("T", " ");
 }
 
 /** "Fri 11 Dec, 5:00 pm" in the zone (with the year when it is not the current one). */
